@@ -1,0 +1,200 @@
+#include "field_reader.hpp"
+
+#include <cmath>
+#include <limits>
+
+namespace freshet::io::detail {
+
+namespace {
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+}
+
+FieldReader::FieldReader(const toml::table& table, std::string file, std::string element,
+                         std::vector<Problem>& problems)
+    : table_(table), file_(std::move(file)), element_(std::move(element)), problems_(problems) {}
+
+Problem FieldReader::make(const toml::node* node, std::string_view key,
+                          std::string message) const {
+  const auto& where = node ? node->source() : table_.source();
+  return Problem{file_, static_cast<int>(where.begin.line), static_cast<int>(where.begin.column),
+                 element_, std::string(key), std::move(message)};
+}
+
+void FieldReader::report(std::string_view key, std::string message) {
+  problems_.push_back(make(table_.get(key), key, std::move(message)));
+}
+
+void FieldReader::report_here(std::string message) {
+  problems_.push_back(make(nullptr, "", std::move(message)));
+}
+
+const toml::node* FieldReader::take(std::string_view key) {
+  read_.emplace(key);
+  return table_.get(key);
+}
+
+double FieldReader::checked(std::string_view key, const toml::node& node) {
+  double v = kNaN;
+  if (auto f = node.value_exact<double>()) {
+    v = *f;
+  } else if (auto i = node.value_exact<int64_t>()) {
+    v = static_cast<double>(*i);
+  } else {
+    problems_.push_back(make(&node, key, "must be a number"));
+    return kNaN;
+  }
+  if (!std::isfinite(v)) {
+    problems_.push_back(make(&node, key, "= " + format_value(v) + ": must be a finite number"));
+    return kNaN;
+  }
+  return v;
+}
+
+std::optional<double> FieldReader::optional_number(std::string_view key) {
+  const toml::node* node = take(key);
+  if (!node) return std::nullopt;
+  return checked(key, *node);
+}
+
+double FieldReader::number(std::string_view key) {
+  if (auto v = optional_number(key)) return *v;
+  report_here("is missing required field '" + std::string(key) + "'");
+  return kNaN;
+}
+
+std::optional<double> FieldReader::optional_positive(std::string_view key) {
+  auto v = optional_number(key);
+  if (v && std::isfinite(*v) && !(*v > 0.0)) {
+    report(key, "= " + format_value(*v) + ": must be > 0");
+    return kNaN;
+  }
+  return v;
+}
+
+std::optional<double> FieldReader::optional_non_negative(std::string_view key) {
+  auto v = optional_number(key);
+  if (v && std::isfinite(*v) && *v < 0.0) {
+    report(key, "= " + format_value(*v) + ": must be >= 0");
+    return kNaN;
+  }
+  return v;
+}
+
+double FieldReader::positive(std::string_view key) {
+  if (table_.get(key) == nullptr) return number(key);
+  return *optional_positive(key);
+}
+
+double FieldReader::non_negative(std::string_view key) {
+  if (table_.get(key) == nullptr) return number(key);
+  return *optional_non_negative(key);
+}
+
+std::optional<long long> FieldReader::optional_integer(std::string_view key, long long min_value) {
+  const toml::node* node = take(key);
+  if (!node) return std::nullopt;
+  auto i = node->value_exact<int64_t>();
+  if (!i) {
+    problems_.push_back(make(node, key, "must be a whole number"));
+    return std::nullopt;
+  }
+  if (*i < min_value) {
+    problems_.push_back(make(node, key, "= " + std::to_string(*i) + ": must be >= " +
+                                            std::to_string(min_value)));
+    return std::nullopt;
+  }
+  return static_cast<long long>(*i);
+}
+
+long long FieldReader::integer(std::string_view key, long long min_value) {
+  if (table_.get(key) == nullptr) {
+    read_.emplace(key);
+    report_here("is missing required field '" + std::string(key) + "'");
+    return min_value;
+  }
+  return optional_integer(key, min_value).value_or(min_value);
+}
+
+std::optional<std::string> FieldReader::optional_text(std::string_view key) {
+  const toml::node* node = take(key);
+  if (!node) return std::nullopt;
+  auto s = node->value_exact<std::string>();
+  if (!s) {
+    problems_.push_back(make(node, key, "must be a string"));
+    return std::string{};
+  }
+  return *s;
+}
+
+std::string FieldReader::text(std::string_view key) {
+  if (auto s = optional_text(key)) return *s;
+  report_here("is missing required field '" + std::string(key) + "'");
+  return {};
+}
+
+std::string FieldReader::choice(std::string_view key, const std::vector<std::string>& allowed,
+                                std::optional<std::string> fallback) {
+  auto s = fallback ? optional_text(key).value_or(*fallback) : text(key);
+  for (const auto& a : allowed) {
+    if (s == a) return s;
+  }
+  if (!s.empty() || table_.get(key)) {
+    std::string list;
+    for (const auto& a : allowed) list += (list.empty() ? "'" : ", '") + a + "'";
+    report(key, "= '" + s + "': must be one of " + list);
+  }
+  return {};
+}
+
+std::optional<bool> FieldReader::optional_flag(std::string_view key) {
+  const toml::node* node = take(key);
+  if (!node) return std::nullopt;
+  auto b = node->value_exact<bool>();
+  if (!b) problems_.push_back(make(node, key, "must be true or false"));
+  return b;
+}
+
+std::vector<double> FieldReader::numbers(std::string_view key) {
+  const toml::node* node = take(key);
+  std::vector<double> out;
+  if (!node) {
+    report_here("is missing required field '" + std::string(key) + "'");
+    return out;
+  }
+  const toml::array* arr = node->as_array();
+  if (!arr) {
+    problems_.push_back(make(node, key, "must be an array of numbers"));
+    return out;
+  }
+  for (std::size_t k = 0; k < arr->size(); ++k) {
+    out.push_back(checked(std::string(key) + "[" + std::to_string(k + 1) + "]", *arr->get(k)));
+  }
+  return out;
+}
+
+const toml::node* FieldReader::optional_node(std::string_view key) { return take(key); }
+
+const toml::table* FieldReader::optional_table(std::string_view key) {
+  const toml::node* node = take(key);
+  if (!node) return nullptr;
+  if (!node->is_table()) problems_.push_back(make(node, key, "must be a table"));
+  return node->as_table();
+}
+
+const toml::array* FieldReader::optional_array(std::string_view key) {
+  const toml::node* node = take(key);
+  if (!node) return nullptr;
+  if (!node->is_array()) problems_.push_back(make(node, key, "must be an array"));
+  return node->as_array();
+}
+
+void FieldReader::finish() {
+  for (const auto& [key, node] : table_) {
+    if (!read_.contains(key.str())) {
+      problems_.push_back(make(&node, key.str(), "is not a known field here (check the spelling; "
+                                                 "see docs/basin-file.md)"));
+    }
+  }
+}
+
+}  // namespace freshet::io::detail

@@ -1,0 +1,71 @@
+// Reads the keys of one TOML table of a basin file with full error context.
+//
+// Every value read is checked (type, finiteness, range where asked) and every problem is
+// appended to a shared list with file, line, column, element and field, so a whole file is
+// checked in one pass. Keys never read are reported by finish() as unknown: a misspelt key is
+// an error, not a silently ignored value.
+//
+//   FieldReader r(table, "basins/demo.toml", "reach 'upper-mill'", problems);
+//   double n = r.positive("manning_n");
+//   auto cells = r.optional_integer("cells");
+//   r.finish();
+#pragma once
+
+#include <optional>
+#include <set>
+#include <string>
+#include <vector>
+
+#include <toml++/toml.h>
+
+#include "freshet/core/error.hpp"
+
+namespace freshet::io::detail {
+
+class FieldReader {
+ public:
+  FieldReader(const toml::table& table, std::string file, std::string element,
+              std::vector<Problem>& problems);
+
+  // Numbers (TOML integers are accepted where a float is expected). A missing or invalid
+  // required value is reported and NaN returned, so reading can continue.
+  double number(std::string_view key);
+  double positive(std::string_view key);
+  double non_negative(std::string_view key);
+  std::optional<double> optional_number(std::string_view key);
+  std::optional<double> optional_positive(std::string_view key);
+  std::optional<double> optional_non_negative(std::string_view key);
+  std::optional<long long> optional_integer(std::string_view key, long long min_value);
+  long long integer(std::string_view key, long long min_value);
+  std::string text(std::string_view key);
+  std::optional<std::string> optional_text(std::string_view key);
+  std::string choice(std::string_view key, const std::vector<std::string>& allowed,
+                     std::optional<std::string> fallback = std::nullopt);
+  std::optional<bool> optional_flag(std::string_view key);
+  std::vector<double> numbers(std::string_view key);  // array of numbers, required
+  const toml::table* optional_table(std::string_view key);
+  const toml::array* optional_array(std::string_view key);
+  const toml::node* optional_node(std::string_view key);
+
+  void report(std::string_view key, std::string message);  // problem located at `key`
+  void report_here(std::string message);                   // problem located at the table
+  void finish();  // reports every key that was never read
+
+  [[nodiscard]] const std::string& file() const { return file_; }
+  [[nodiscard]] const std::string& element() const { return element_; }
+  [[nodiscard]] int line() const { return static_cast<int>(table_.source().begin.line); }
+  [[nodiscard]] int column() const { return static_cast<int>(table_.source().begin.column); }
+
+ private:
+  const toml::node* take(std::string_view key);
+  double checked(std::string_view key, const toml::node& node);
+  Problem make(const toml::node* node, std::string_view key, std::string message) const;
+
+  const toml::table& table_;
+  std::string file_;
+  std::string element_;
+  std::vector<Problem>& problems_;
+  std::set<std::string, std::less<>> read_;
+};
+
+}  // namespace freshet::io::detail
