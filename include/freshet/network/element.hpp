@@ -1,0 +1,96 @@
+// One element of the basin network, as the driver sees it.
+//
+// The driver advances elements upstream first over coupling steps [t0, t1]. An element
+// receives the mean point inflow over the step (the sum of the mean outflows of the elements
+// that drain into it) and the mean lateral inflow (runoff from subcatchments draining along a
+// reach), advances its own state with whatever internal steps it needs, and returns its mean
+// outflow over the step. Handing on means keeps volumes exact from element to element.
+#pragma once
+
+#include <limits>
+#include <string>
+#include <vector>
+
+#include "freshet/network/topology.hpp"
+
+namespace freshet::network {
+
+inline constexpr double kNoValue = std::numeric_limits<double>::quiet_NaN();
+
+// What an element reports at an output time; NaN where a quantity does not apply.
+struct StationSample {
+  double discharge_m3s = kNoValue;  // outflow of the element (runoff for a subcatchment)
+  double stage_m = kNoValue;        // water-surface elevation (or depth where no datum is known)
+  double depth_m = kNoValue;        // flow depth (headwater depth at a culvert, pool depth)
+  double velocity_m_s = kNoValue;   // mean velocity Q/A where defined
+  double rain_mm_h = kNoValue;      // subcatchments: rainfall intensity
+  double excess_mm_h = kNoValue;    // subcatchments: rainfall excess (runoff-producing) rate
+};
+
+// Volumes since the last reset. For every element:
+//   inflow + lateral + rain - loss - outflow - (storage - initial storage) = 0 to round-off.
+struct VolumeLedger {
+  double inflow_m3 = 0.0;
+  double lateral_m3 = 0.0;
+  double rain_m3 = 0.0;
+  double loss_m3 = 0.0;
+  double outflow_m3 = 0.0;
+  double initial_storage_m3 = 0.0;
+  double storage_m3 = 0.0;
+
+  [[nodiscard]] double supplied_m3() const { return inflow_m3 + lateral_m3 + rain_m3; }
+  [[nodiscard]] double imbalance_m3() const {
+    return supplied_m3() - loss_m3 - outflow_m3 - (storage_m3 - initial_storage_m3);
+  }
+};
+
+// What flows into an element over one coupling step [t0_s, t1_s]: the means over the step
+// (which carry the volume) and the instantaneous rates at t1 (which are reported at stations).
+struct StepInflow {
+  double t0_s = 0.0;
+  double t1_s = 0.0;
+  double inflow_mean_m3s = 0.0;   // point inflow at the upstream end
+  double lateral_mean_m3s = 0.0;  // total lateral inflow along the element
+  double inflow_end_m3s = 0.0;
+  double lateral_end_m3s = 0.0;
+  [[nodiscard]] double dt_s() const { return t1_s - t0_s; }
+};
+
+struct StepOutflow {
+  double mean_m3s = 0.0;  // volume that left over the step / step length
+  double end_m3s = 0.0;   // outflow rate at t1
+};
+
+// A notable event, for reports: a kinematic shock, a conduit running full, road overtopping.
+struct ElementNote {
+  std::string text;
+};
+
+class Element {
+ public:
+  Element(std::string id, ElementKind kind) : id_(std::move(id)), kind_(kind) {}
+  virtual ~Element() = default;
+  Element(const Element&) = delete;
+  Element& operator=(const Element&) = delete;
+
+  // Restores the initial state (a dry network unless the element says otherwise).
+  virtual void reset() = 0;
+  // Advances over the step; returns the outflow over it.
+  virtual StepOutflow advance(const StepInflow& in) = 0;
+  // The state at the end of the last step.
+  [[nodiscard]] virtual StationSample sample() const = 0;
+  [[nodiscard]] virtual VolumeLedger ledger() const = 0;
+  // Events found so far (shocks, full conduits, overtopping); empty by default.
+  [[nodiscard]] virtual std::vector<ElementNote> notes() const { return {}; }
+  // True for elements whose inflow from subcatchments enters along their length (reaches).
+  [[nodiscard]] virtual bool takes_lateral_inflow() const { return false; }
+
+  [[nodiscard]] const std::string& id() const { return id_; }
+  [[nodiscard]] ElementKind kind() const { return kind_; }
+
+ private:
+  std::string id_;
+  ElementKind kind_;
+};
+
+}  // namespace freshet::network
