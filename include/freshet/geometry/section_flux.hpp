@@ -1,0 +1,208 @@
+// Manning flux laws Q(A) for kinematic-wave routing, built from a cross-section and a bed slope.
+//
+// Each law satisfies freshet::geometry::FluxLaw (flux_law.hpp): pure, const, noexcept
+//   discharge_m3s(A)          Q = K(h(A)) sqrt(S0)          (Manning, SI, k = 1)
+//   celerity_m_s(A)           c = dQ/dA = sqrt(S0) (dK/dh) / T   (kinematic wave speed,
+//                             Lighthill & Whitham 1955, Proc. R. Soc. A 229, eq. 8)
+//   area_for_discharge_m2(Q)  the inverse of Q(A)
+// Laws:
+//   RectangularFlux, TrapezoidalFlux   closed forms (depth from area by the quadratic);
+//   PowerLawFlux (flux_law.hpp)        triangles (Q ~ A^(4/3)) and unit-width sheets (~ A^(5/3));
+//   TabulatedFlux                      circular conduits and surveyed sections: Q(A) tabulated
+//                                      once on a fine monotone table, so no geometry is solved
+//                                      in a routing loop;
+//   ManningFlux                        the exact law evaluated through any CrossSection (virtual
+//                                      calls and a depth iteration per call: reference and
+//                                      tests, not inner loops).
+// SectionFlux is a std::variant of the fast laws. Choose once per reach, outside hot loops:
+//
+//   FlowSection reach = make_flow_section(TrapezoidalSpec{3.0, 2.0, 2.0, 0.03}, 0.002);
+//   visit_flux(reach.flux, [&](const auto& law) { scheme.advance(law, state); });  // one dispatch
+//   double depth = reach.depth_m(area);                      // for stage / velocity output
+//
+// Closed conduits (circular): with constant n, Q(A) of a part-full pipe is not monotone: it
+// peaks at h/D = 0.938, at 1.076 times the full-pipe discharge, then falls towards the crown.
+// A kinematic wave needs a non-decreasing Q(A), so freshet holds Q at that peak for all larger
+// areas (the capacity cap): above capacity_area_m2() the discharge is max_discharge_m3s() and
+// the celerity is 0, so extra inflow is stored, not conveyed. Routing should count areas at or
+// above capacity_area_m2() as "conduit at capacity" and CrossSection::is_full(A) as surcharge,
+// which a kinematic wave cannot represent. area_for_discharge_m2(Q) with Q above the cap
+// returns capacity_area_m2() (callers check max_discharge_m3s() first). docs/sections.md.
+#pragma once
+
+#include <cstddef>
+#include <limits>
+#include <memory>
+#include <optional>
+#include <string>
+#include <utility>
+#include <variant>
+#include <vector>
+
+#include "freshet/core/error.hpp"
+#include "freshet/geometry/cross_section.hpp"
+#include "freshet/geometry/flux_law.hpp"
+
+namespace freshet::geometry {
+
+inline constexpr double kNoDischargeLimit_m3s = std::numeric_limits<double>::infinity();
+inline constexpr double kNoCapacityArea_m2 = std::numeric_limits<double>::infinity();
+
+// Q = (sqrt(S0)/n) A^(5/3) / (b + 2 A / b)^(2/3).
+class RectangularFlux {
+ public:
+  RectangularFlux(double bottom_width_m, double manning_n, double bed_slope) noexcept;
+  [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
+  [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+
+ private:
+  double b_;
+  double coefficient_;  // sqrt(S0) / n
+};
+
+// h = 2 A / (b + sqrt(b^2 + 2 (z1 + z2) A)),  P = b + h (sqrt(1+z1^2) + sqrt(1+z2^2)),
+// Q = (sqrt(S0)/n) A (A/P)^(2/3). Holds for b = 0 (triangle) and z1 = z2 = 0 (rectangle).
+class TrapezoidalFlux {
+ public:
+  TrapezoidalFlux(double bottom_width_m, double left_side_slope, double right_side_slope,
+                  double manning_n, double bed_slope) noexcept;
+  [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
+  [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+
+ private:
+  double b_, z_sum_, side_length_per_depth_;
+  double coefficient_;  // sqrt(S0) / n
+};
+
+// Triangle of side slopes z1, z2: Q = alpha A^(4/3), alpha = (sqrt(S0)/n) ((z1+z2)/2)^(1/3) /
+// (sqrt(1+z1^2) + sqrt(1+z2^2))^(2/3).
+PowerLawFlux make_triangular_flux(double left_side_slope, double right_side_slope,
+                                  double manning_n, double bed_slope);
+// Unit-width sheet: q = (sqrt(S0)/n) h^(5/3), with A = h.
+PowerLawFlux make_sheet_flux(double manning_n, double bed_slope);
+
+// Table options for TabulatedFlux. Defaults give relative errors near 1e-8 (docs/sections.md).
+struct TableOptions {
+  double top_depth_m = 0.0;          // deepest node (m); 0 = automatic: 3 x the section's depth
+                                     // scale (open), the capacity depth (closed conduits)
+  double bottom_depth_ratio = 1e-6;  // shallowest node as a fraction of top_depth_m
+  int nodes_per_decade = 64;         // geometric depth spacing between the two
+  void validate(ProblemList& problems) const;
+};
+
+// Q(A) on a table of depths h_j (geometric spacing, refined towards the bed, plus every corner
+// of the geometry), interpolated as a monotone cubic Hermite curve in (ln A, ln Q) with slopes
+// d ln Q / d ln A = c A / Q taken from the exact law on each side of every node and limited
+// after Fritsch & Carlson (1980, SIAM J. Numer. Anal. 17(2), 238-246) so that the curve is
+// non-decreasing. The celerity is the exact derivative of that curve, so Q and c are
+// consistent. Below the first node and above the last, Q is the power law through the end node
+// with the end slope (exact for shapes that are power laws there). Power laws are reproduced
+// exactly by the cubic; any drop of the exact Q between nodes (a conveyance that falls as a
+// flat bench floods) is replaced by its running maximum, counted in monotone_corrections().
+class TabulatedFlux {
+ public:
+  static TabulatedFlux from_section(const CrossSection& section, double bed_slope,
+                                    const TableOptions& options = {});
+
+  [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
+  [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+
+  // Closed conduits: the area where Q reaches its cap, and the cap. Open: infinity.
+  [[nodiscard]] double capacity_area_m2() const noexcept { return capacity_area_m2_; }
+  [[nodiscard]] double max_discharge_m3s() const noexcept { return max_discharge_m3s_; }
+  [[nodiscard]] std::size_t node_count() const noexcept { return log_area_.size(); }
+  [[nodiscard]] int monotone_corrections() const noexcept { return monotone_corrections_; }
+
+ private:
+  struct LogEval {
+    double log_q;
+    double dlogq_dloga;
+  };
+  [[nodiscard]] LogEval evaluate(double log_area) const noexcept;
+
+  std::vector<double> log_area_, log_q_;       // nodes
+  std::vector<double> slope_start_, slope_end_;  // per interval: d ln Q / d ln A at each end
+  double exponent_below_ = 1.0, exponent_above_ = 1.0;
+  double capacity_area_m2_ = kNoCapacityArea_m2;
+  double max_discharge_m3s_ = kNoDischargeLimit_m3s;
+  int monotone_corrections_ = 0;
+};
+
+// The exact law through any section, with the closed-conduit cap described above.
+class ManningFlux {
+ public:
+  ManningFlux(std::shared_ptr<const CrossSection> section, double bed_slope,
+              std::string element = "cross-section");
+  [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
+  [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+  [[nodiscard]] double capacity_area_m2() const noexcept { return capacity_area_m2_; }
+  [[nodiscard]] double max_discharge_m3s() const noexcept { return max_discharge_m3s_; }
+
+ private:
+  std::shared_ptr<const CrossSection> section_;
+  double sqrt_slope_;
+  double capacity_depth_m_, capacity_area_m2_, max_discharge_m3s_;
+};
+
+static_assert(FluxLaw<RectangularFlux>);
+static_assert(FluxLaw<TrapezoidalFlux>);
+static_assert(FluxLaw<TabulatedFlux>);
+static_assert(FluxLaw<ManningFlux>);
+
+using SectionFlux = std::variant<RectangularFlux, TrapezoidalFlux, PowerLawFlux, TabulatedFlux>;
+
+// Calls fn(law) with the concrete law; do this once per reach, outside inner loops.
+template <class Fn>
+decltype(auto) visit_flux(const SectionFlux& flux, Fn&& fn) {
+  return std::visit(std::forward<Fn>(fn), flux);
+}
+
+// The fast law for a section: closed forms for rectangles, trapezoids, triangles and sheets,
+// a table for circular and irregular sections. Raises InputError for a bed slope that is not
+// finite and > 0, or bad table options.
+SectionFlux make_section_flux(const CrossSection& section, double bed_slope,
+                              const TableOptions& options = {},
+                              std::string element = "cross-section");
+
+// Convenience (one dispatch per call; not for inner loops).
+double discharge_m3s(const SectionFlux& flux, double area_m2) noexcept;
+double celerity_m_s(const SectionFlux& flux, double area_m2) noexcept;
+double area_for_discharge_m2(const SectionFlux& flux, double discharge_m3s) noexcept;
+double max_discharge_m3s(const SectionFlux& flux) noexcept;  // infinity for open sections
+double capacity_area_m2(const SectionFlux& flux) noexcept;   // infinity for open sections
+
+// Normal (uniform-flow) depth: the h with K(h) sqrt(S0) = Q (m). For a closed conduit, the
+// depth on the rising branch (h <= capacity depth); nullopt when Q exceeds the capacity.
+std::optional<double> normal_depth_m(const CrossSection& section, double bed_slope,
+                                     double discharge_m3s);
+
+// A reach's section and flux law together, for routing (flux) and output (depth, velocity).
+struct FlowSection {
+  std::shared_ptr<const CrossSection> section;
+  SectionFlux flux;
+  double bed_slope = 0.0;
+
+  [[nodiscard]] double depth_m(double area_m2) const noexcept {
+    return section->depth_from_area_m(area_m2);
+  }
+  [[nodiscard]] double top_width_m(double area_m2) const noexcept {
+    return section->top_width_m(depth_m(area_m2));
+  }
+  // Mean velocity Q / A (m/s); 0 when dry.
+  [[nodiscard]] double velocity_m_s(double area_m2) const noexcept;
+  [[nodiscard]] bool at_capacity(double area_m2) const noexcept {
+    return area_m2 >= capacity_area_m2(flux);
+  }
+  [[nodiscard]] bool is_full(double area_m2) const noexcept { return section->is_full(area_m2); }
+};
+
+// Validates spec, slope and options together (all problems in one InputError), then builds.
+FlowSection make_flow_section(const SectionSpec& spec, double bed_slope,
+                              const TableOptions& options = {},
+                              std::string element = "cross-section");
+
+}  // namespace freshet::geometry
