@@ -1,0 +1,70 @@
+#include "freshet/network/structures/culvert_crossing.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "freshet/core/error.hpp"
+
+namespace freshet::network::structures {
+
+CulvertCrossing::CulvertCrossing(Culvert culvert, std::optional<RoadOvertopping> road,
+                                 std::optional<double> tailwater_stage_m, double top_stage_m,
+                                 const std::string& element, int rating_points)
+    : culvert_(std::move(culvert)),
+      road_(std::move(road)),
+      tailwater_m_(tailwater_stage_m),
+      name_(element) {
+  ProblemList p(element);
+  const double invert = culvert_.spec().inlet_invert_stage_m;
+  p.require(std::isfinite(top_stage_m) && top_stage_m > invert, "top_stage_m", top_stage_m,
+            "must be above the inlet invert stage " + format_value(invert));
+  p.require(rating_points >= 16, "rating_points", rating_points, "must be >= 16");
+  if (tailwater_m_) p.require_finite("tailwater_stage_m", *tailwater_m_);
+  p.throw_if_any();
+  build_rating(top_stage_m, rating_points);
+}
+
+void CulvertCrossing::build_rating(double top_stage_m, int points) {
+  const double invert = culvert_.spec().inlet_invert_stage_m;
+  for (int k = 0; k < points; ++k)
+    stage_m_.push_back(invert + (top_stage_m - invert) * k / (points - 1.0));
+  stage_m_.push_back(invert + culvert_.spec().rise_m);
+  if (road_) stage_m_.push_back(road_->lowest_crest_stage_m());
+  std::sort(stage_m_.begin(), stage_m_.end());
+  stage_m_.erase(std::remove_if(stage_m_.begin(), stage_m_.end(),
+                                [&](double h) { return h < invert || h > top_stage_m; }),
+                 stage_m_.end());
+  stage_m_.erase(std::unique(stage_m_.begin(), stage_m_.end()), stage_m_.end());
+  double previous = 0.0;
+  for (double h : stage_m_) {
+    // max() removes round-off wiggles of the root finder; the exact relation is monotone.
+    previous = std::max(previous, culvert_.discharge_for_headwater_m3s(h, tailwater_m_));
+    barrel_m3s_.push_back(previous);
+  }
+}
+
+double CulvertCrossing::barrel_discharge_m3s(double stage_m) const {
+  if (!(stage_m > stage_m_.front())) return 0.0;
+  const std::size_t n = stage_m_.size();
+  std::size_t k = n - 2;  // extrapolate beyond the top with the last slope
+  if (stage_m < stage_m_.back()) {
+    const auto it = std::upper_bound(stage_m_.begin(), stage_m_.end(), stage_m);
+    k = static_cast<std::size_t>(it - stage_m_.begin()) - 1;
+  }
+  const double t = (stage_m - stage_m_[k]) / (stage_m_[k + 1] - stage_m_[k]);
+  return barrel_m3s_[k] + t * (barrel_m3s_[k + 1] - barrel_m3s_[k]);
+}
+
+double CulvertCrossing::overtopping_discharge_m3s(double stage_m) const {
+  return road_ ? road_->discharge_m3s(stage_m) : 0.0;
+}
+
+double CulvertCrossing::discharge_m3s(double stage_m) const {
+  return barrel_discharge_m3s(stage_m) + overtopping_discharge_m3s(stage_m);
+}
+
+Headwater CulvertCrossing::barrel_headwater(double stage_m) const {
+  return culvert_.headwater(barrel_discharge_m3s(stage_m), tailwater_m_);
+}
+
+}  // namespace freshet::network::structures
