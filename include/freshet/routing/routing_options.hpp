@@ -1,0 +1,82 @@
+// Run-time choices for routing one reach: which time-integration scheme, its accuracy and
+// stability settings, and how kinematic shocks are detected in the computed solution.
+//
+// All times in seconds, areas in m2. Defaults are valid; validate() returns every problem
+// found (an empty list means the options are usable).
+//
+//   RoutingOptions opt;
+//   opt.scheme = SchemeKind::kImplicitUpwind;
+//   opt.implicit_courant = 10.0;
+//   ProblemList p("routing options"); p.append(opt.validate()); p.throw_if_any();
+#pragma once
+
+#include <limits>
+#include <string_view>
+#include <vector>
+
+#include "freshet/core/error.hpp"
+
+namespace freshet::routing {
+
+enum class SchemeKind {
+  kExplicitUpwind,  // first-order Godunov (upwind) flux, forward Euler, Courant-limited dt
+  kImplicitUpwind,  // first-order upwind, backward Euler, cell-by-cell downstream Newton solve
+  kMethodOfLines,   // upwind semi-discretisation integrated by an adaptive Runge-Kutta (Odeint)
+  kMusclHeun,       // MUSCL limited reconstruction + SSP-RK2 (Heun), second order where smooth
+};
+
+enum class Limiter { kMinmod, kVanLeer };
+
+[[nodiscard]] std::string_view to_string(SchemeKind kind) noexcept;
+[[nodiscard]] std::string_view to_string(Limiter limiter) noexcept;
+// Parse the names returned by to_string; throw InputError naming the value and the choices.
+[[nodiscard]] SchemeKind parse_scheme_kind(std::string_view name);
+[[nodiscard]] Limiter parse_limiter(std::string_view name);
+
+struct ShockDetectionOptions {
+  bool enabled = true;
+  // A front is "steep" when this fraction of the jump (A_left - A_right) happens across
+  // `front_cells` consecutive cells.
+  double steep_fraction = 0.9;
+  int front_cells = 4;
+  // Cells either side of the steepest drop searched for the plateau states A_left, A_right.
+  int plateau_cells = 12;
+  // Jumps smaller than this fraction of the largest area in the reach are ignored.
+  double min_relative_jump = 0.02;
+  // Consecutive observations a steep front must persist before it is reported as a shock.
+  int persistence = 3;
+
+  [[nodiscard]] std::vector<Problem> validate() const;
+};
+
+struct RoutingOptions {
+  SchemeKind scheme = SchemeKind::kExplicitUpwind;
+  // Explicit upwind: dt = courant_target * dx / c_max (stable for Courant <= 1).
+  double courant_target = 0.9;
+  // MUSCL-Heun: dt = tvd_courant_target * dx / c_max (positivity needs <= 0.5).
+  double tvd_courant_target = 0.45;
+  // An accepted step must satisfy dt * c_max(after) / dx <= courant_limit (explicit upwind)
+  // or <= tvd_courant_limit (MUSCL-Heun; TVD and positive for Courant <= 1/2).
+  double courant_limit = 1.0;
+  double tvd_courant_limit = 0.5;
+  Limiter limiter = Limiter::kVanLeer;
+  // Implicit upwind: dt = implicit_courant * dx / c_max (unconditionally stable; this only
+  // controls accuracy). Infinity means one step per advance() call.
+  double implicit_courant = 10.0;
+  int newton_max_iterations = 60;
+  // Method of lines: error tolerances of the controlled Runge-Kutta stepper.
+  double ode_abs_tolerance_m2 = 1e-9;
+  double ode_rel_tolerance = 1e-8;
+  // Every scheme: upper bound on an internal step, and the smallest step tried after
+  // rejections before advance() gives up.
+  double max_dt_s = std::numeric_limits<double>::infinity();
+  double min_dt_s = 1e-6;
+  int max_consecutive_rejections = 40;
+  // On failure: throw NumericalError (true) or return a failed AdvanceStatus (false).
+  bool throw_on_failure = true;
+  ShockDetectionOptions shock;
+
+  [[nodiscard]] std::vector<Problem> validate() const;
+};
+
+}  // namespace freshet::routing

@@ -1,0 +1,160 @@
+// Kinematic shocks: prediction from characteristics and detection in a computed solution.
+//
+// With c(A) = dQ/dA increasing in A, characteristics of a deeper (faster) state overtake a
+// shallower one and the solution of A_t + Q(A)_x = 0 breaks; afterwards a shock travels at
+// the Rankine-Hugoniot speed U = (Q_L - Q_R) / (A_L - A_R) (Lighthill & Whitham 1955, On
+// kinematic waves I, Proc. R. Soc. A 229; Whitham 1974, Linear and Nonlinear Waves, ch. 2).
+//
+// Prediction (no time stepping):
+//   * from an initial profile A0(x): t_b = -1 / min_x d c(A0(x))/dx, at x_b = x* + c(A0(x*)) t_b;
+//   * from an inflow hydrograph at x = 0: the characteristic launched at time tau travels
+//     x = c(tau) (t - tau); neighbours cross first at x_b = min_tau c^2 / (dc/dtau),
+//     t_b = tau* + x_b / c(tau*).
+// Detection: ShockDetector watches the cell areas at observation times for a persistent
+// front that is resolved within a few cells, and reports its formation, path and speed.
+//
+//   auto p = predict_breaking_from_profile(PowerLawFlux{0.5, 2.0}, x_m, area_m2);
+//   if (p.breaks) std::cout << p.time_s << " s at " << p.position_m << " m\n";
+#pragma once
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <span>
+#include <vector>
+
+#include "freshet/core/time_series.hpp"
+#include "freshet/geometry/flux_law.hpp"
+#include "freshet/routing/routing_options.hpp"
+
+namespace freshet::routing {
+
+struct BreakingPrediction {
+  bool breaks = false;  // false: no compressive characteristics in the data
+  double time_s = std::numeric_limits<double>::infinity();
+  double position_m = std::numeric_limits<double>::quiet_NaN();
+  // Where the first-crossing characteristic starts: x* (profile) or launch time tau* (inflow).
+  double origin = std::numeric_limits<double>::quiet_NaN();
+};
+
+namespace detail {
+// Vertex of the parabola through (-1, ym), (0, y0), (1, yp): offset in [-1, 1] and value.
+inline void parabola_vertex(double ym, double y0, double yp, double& offset, double& value) {
+  const double curvature = ym - 2.0 * y0 + yp;
+  offset = curvature > 0.0 ? std::clamp(0.5 * (ym - yp) / curvature, -1.0, 1.0) : 0.0;
+  value = y0 + 0.5 * offset * (yp - ym) + 0.5 * offset * offset * curvature;
+}
+}  // namespace detail
+
+// Breaking of an initial profile sampled at equally spaced x_m (at least 3 points).
+template <geometry::FluxLaw F>
+[[nodiscard]] BreakingPrediction predict_breaking_from_profile(const F& law,
+                                                              std::span<const double> x_m,
+                                                              std::span<const double> area_m2) {
+  BreakingPrediction p;
+  const std::size_t n = std::min(x_m.size(), area_m2.size());
+  if (n < 3) return p;
+  const double h = x_m[1] - x_m[0];
+  std::vector<double> c(n), dcdx(n, 0.0);
+  for (std::size_t i = 0; i < n; ++i) c[i] = law.celerity_m_s(area_m2[i]);
+  std::size_t k = 1;
+  for (std::size_t i = 1; i + 1 < n; ++i) {
+    dcdx[i] = (c[i + 1] - c[i - 1]) / (2.0 * h);  // central difference, O(h^2)
+    if (dcdx[i] < dcdx[k]) k = i;
+  }
+  if (!(dcdx[k] < 0.0)) return p;
+  double offset = 0.0, min_slope = dcdx[k];
+  if (k >= 2 && k + 2 < n) detail::parabola_vertex(dcdx[k - 1], dcdx[k], dcdx[k + 1], offset,
+                                                   min_slope);
+  const double c_star = c[k] + 0.5 * offset * (c[k + 1] - c[k - 1]);
+  p.breaks = true;
+  p.time_s = -1.0 / min_slope;
+  p.origin = x_m[k] + offset * h;
+  p.position_m = p.origin + c_star * p.time_s;
+  return p;
+}
+
+// First crossing of characteristics launched from x = 0 by an inflow hydrograph over
+// [t_begin_s, t_end_s], sampled at `samples` equally spaced launch times.
+template <geometry::FluxLaw F>
+[[nodiscard]] BreakingPrediction predict_breaking_from_inflow(
+    const F& law, const PiecewiseLinearSeries& inflow_m3s, double t_begin_s, double t_end_s,
+    int samples = 20000) {
+  BreakingPrediction p;
+  if (samples < 3 || !(t_end_s > t_begin_s)) return p;
+  const double h = (t_end_s - t_begin_s) / (samples - 1);
+  auto celerity_at = [&](double tau) {
+    return law.celerity_m_s(law.area_for_discharge_m2(inflow_m3s.value_at(tau)));
+  };
+  double best = std::numeric_limits<double>::infinity();
+  for (int k = 1; k + 1 < samples; ++k) {
+    const double tau = t_begin_s + k * h;
+    const double dc = (celerity_at(tau + h) - celerity_at(tau - h)) / (2.0 * h);
+    const double c = celerity_at(tau);
+    if (!(dc > 0.0)) continue;
+    const double x = c * c / dc;
+    if (x < best) {
+      best = x;
+      p.breaks = true;
+      p.position_m = x;
+      p.origin = tau;
+      p.time_s = c > 0.0 ? tau + x / c : tau;
+    }
+  }
+  return p;
+}
+
+struct ShockSample {
+  double time_s = 0.0;
+  double position_m = 0.0;         // where A crosses (A_left + A_right) / 2
+  double area_left_m2 = 0.0;       // upstream plateau
+  double area_right_m2 = 0.0;      // downstream plateau
+  double rankine_hugoniot_m_s = 0.0;  // (Q_L - Q_R) / (A_L - A_R)
+};
+
+struct ShockReport {
+  bool formed = false;
+  double formation_time_s = std::numeric_limits<double>::quiet_NaN();
+  double formation_position_m = std::numeric_limits<double>::quiet_NaN();
+  // Least-squares slope of the path (needs >= 2 samples), and the mean Rankine-Hugoniot
+  // speed of the samples, for comparison.
+  double speed_m_s = std::numeric_limits<double>::quiet_NaN();
+  double rankine_hugoniot_m_s = std::numeric_limits<double>::quiet_NaN();
+  std::vector<ShockSample> path;
+  bool reached_outlet = false;
+  double outlet_arrival_time_s = std::numeric_limits<double>::quiet_NaN();
+};
+
+// Watches one reach. observe() is called at increasing times with the cell areas and the
+// cell discharges Q_i(A_i); it tracks the dominant front (largest downstream drop in area).
+class ShockDetector {
+ public:
+  ShockDetector() = default;
+  ShockDetector(const ShockDetectionOptions& options, double cell_width_m, int cell_count);
+
+  void observe(double t_s, std::span<const double> cell_area_m2,
+               std::span<const double> cell_discharge_m3s);
+  [[nodiscard]] const ShockReport& report() const noexcept { return report_; }
+  [[nodiscard]] int shocks_found() const noexcept { return report_.formed ? 1 : 0; }
+  void reset();
+
+  // The steep-front test on one profile, exposed for tests: returns true and fills `sample`
+  // (time_s left 0) when the profile has a front resolved within options.front_cells cells.
+  [[nodiscard]] bool find_steep_front(std::span<const double> cell_area_m2,
+                                      std::span<const double> cell_discharge_m3s,
+                                      ShockSample& sample) const;
+
+ private:
+  void accept_front(const ShockSample& sample);
+  void lose_front(double t_s);
+  void update_speeds();
+
+  ShockDetectionOptions options_;
+  double dx_ = 1.0;
+  int n_ = 0;
+  int consecutive_ = 0;
+  std::vector<ShockSample> pending_;
+  ShockReport report_;
+};
+
+}  // namespace freshet::routing

@@ -1,0 +1,90 @@
+#include "freshet/routing/routing_options.hpp"
+
+#include <array>
+#include <cmath>
+#include <string>
+#include <utility>
+
+namespace freshet::routing {
+
+namespace {
+constexpr std::array<std::pair<SchemeKind, std::string_view>, 4> kSchemeNames{{
+    {SchemeKind::kExplicitUpwind, "explicit-upwind"},
+    {SchemeKind::kImplicitUpwind, "implicit-upwind"},
+    {SchemeKind::kMethodOfLines, "method-of-lines"},
+    {SchemeKind::kMusclHeun, "muscl-heun"},
+}};
+constexpr std::array<std::pair<Limiter, std::string_view>, 2> kLimiterNames{{
+    {Limiter::kMinmod, "minmod"},
+    {Limiter::kVanLeer, "van-leer"},
+}};
+
+template <class E, std::size_t N>
+E parse_name(const std::array<std::pair<E, std::string_view>, N>& names, std::string_view name,
+             std::string_view field) {
+  std::string choices;
+  for (const auto& [value, text] : names) {
+    if (text == name) return value;
+    choices += (choices.empty() ? "" : ", ") + std::string(text);
+  }
+  ProblemList p("routing options");
+  p.add(field, "= '" + std::string(name) + "': must be one of " + choices);
+  p.throw_if_any();
+  return names.front().first;  // not reached
+}
+}  // namespace
+
+std::string_view to_string(SchemeKind kind) noexcept {
+  for (const auto& [value, text] : kSchemeNames) if (value == kind) return text;
+  return "?";
+}
+
+std::string_view to_string(Limiter limiter) noexcept {
+  for (const auto& [value, text] : kLimiterNames) if (value == limiter) return text;
+  return "?";
+}
+
+SchemeKind parse_scheme_kind(std::string_view name) {
+  return parse_name(kSchemeNames, name, "scheme");
+}
+
+Limiter parse_limiter(std::string_view name) { return parse_name(kLimiterNames, name, "limiter"); }
+
+std::vector<Problem> ShockDetectionOptions::validate() const {
+  ProblemList p("shock detection options");
+  p.require(steep_fraction > 0.0 && steep_fraction <= 1.0, "steep_fraction", steep_fraction,
+            "must be in (0, 1]");
+  p.require(front_cells >= 1, "front_cells", front_cells, "must be >= 1");
+  p.require(plateau_cells >= front_cells, "plateau_cells", plateau_cells,
+            "must be >= front_cells");
+  p.require_non_negative("min_relative_jump", min_relative_jump);
+  p.require(persistence >= 1, "persistence", persistence, "must be >= 1");
+  return p.problems();
+}
+
+std::vector<Problem> RoutingOptions::validate() const {
+  ProblemList p("routing options");
+  p.require(std::isfinite(courant_limit) && courant_limit > 0.0 && courant_limit <= 1.0,
+            "courant_limit", courant_limit, "must be in (0, 1] (explicit upwind stability)");
+  p.require(courant_target > 0.0 && courant_target <= courant_limit, "courant_target",
+            courant_target, "must be in (0, courant_limit]");
+  p.require(std::isfinite(tvd_courant_limit) && tvd_courant_limit > 0.0 &&
+                tvd_courant_limit <= 1.0,
+            "tvd_courant_limit", tvd_courant_limit, "must be in (0, 1]");
+  p.require(tvd_courant_target > 0.0 && tvd_courant_target <= tvd_courant_limit,
+            "tvd_courant_target", tvd_courant_target, "must be in (0, tvd_courant_limit]");
+  p.require(implicit_courant > 0.0, "implicit_courant", implicit_courant,
+            "must be > 0 (infinity allowed)");
+  p.require(newton_max_iterations >= 1, "newton_max_iterations", newton_max_iterations,
+            "must be >= 1");
+  p.require_positive("ode_abs_tolerance_m2", ode_abs_tolerance_m2);
+  p.require_positive("ode_rel_tolerance", ode_rel_tolerance);
+  p.require(max_dt_s > 0.0, "max_dt_s", max_dt_s, "must be > 0 (infinity allowed)");
+  p.require_positive("min_dt_s", min_dt_s);
+  p.require(max_consecutive_rejections >= 1, "max_consecutive_rejections",
+            max_consecutive_rejections, "must be >= 1");
+  p.append(shock.validate());
+  return p.problems();
+}
+
+}  // namespace freshet::routing
