@@ -1,0 +1,39 @@
+// Resampling a piecewise-linear series (a hydrograph in m3 s-1, a rain intensity in m s-1) to
+// a regular output interval dt without losing volume, for writing CSV files.
+//
+// Both methods return nodal values Q_k at t_k = t_start + k dt, k = 0..n, to be read back as a
+// piecewise-linear series (the CSV reader's interpretation), and both reproduce the original
+// volume over [t_start, t_start + n dt] to round-off:
+//
+//  * ResampleMethod::interval_volumes: every interval keeps its own volume exactly,
+//      (Q_k + Q_{k+1}) dt / 2 = V_k = integral of the original over [t_k, t_{k+1}].
+//    These n equations leave one degree of freedom, an alternating mode (-1)^k c. c is the
+//    least-squares fit to the original point values q(t_k), clamped so no value is negative.
+//    Where the original has breakpoints between output nodes the result carries a small
+//    alternating ripple. When no c keeps every value non-negative (a feature shorter than
+//    the interval between zero flows; or zero flow at both ends with off-grid breakpoints,
+//    which pins the mode twice), the function throws InputError rather than write a negative
+//    discharge: choose a shorter dt, or scaled_samples.
+//  * ResampleMethod::scaled_samples: Q_k = s q(t_k), with one factor s making the trapezoid
+//    volume equal the original volume. Never negative; per-interval volumes are approximate.
+//
+//   auto out = resample_preserving_volume(q, 0.0, 300.0, 72, ResampleMethod::interval_volumes);
+//   // out.values(): 73 samples, 5-minute interval, same 6-hour volume as q.
+#pragma once
+
+#include <cstddef>
+
+#include "freshet/core/time_series.hpp"
+
+namespace freshet::io {
+
+enum class ResampleMethod { interval_volumes, scaled_samples };
+
+// Precondition: dt_s > 0, n_intervals >= 1. Throws InputError when the interval-volume solution
+// would be negative (see above) or when scaled_samples meets a zero sample sum with a non-zero
+// volume.
+PiecewiseLinearSeries resample_preserving_volume(const PiecewiseLinearSeries& series,
+                                                 double t_start_s, double dt_s,
+                                                 std::size_t n_intervals, ResampleMethod method);
+
+}  // namespace freshet::io

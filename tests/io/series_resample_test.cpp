@@ -1,0 +1,100 @@
+// Volume-preserving resampling. Reference volumes are areas of triangles and trapezoids
+// (elementary geometry: area = base * height / 2), and the exact integral of a piecewise-linear
+// function is the trapezoid rule over its breakpoints.
+#include "freshet/io/series_resample.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+#include "freshet/core/error.hpp"
+#include "freshet/io/csv_series.hpp"
+
+namespace freshet::io {
+namespace {
+
+// Triangular hydrograph: 0 at t = 0, peak 12 m3/s at 47 min, 0 again at 3 h 13 min; the
+// breakpoints are deliberately off the 5-minute output grid.
+PiecewiseLinearSeries triangle() {
+  return PiecewiseLinearSeries({0.0, 2820.0, 11580.0}, {0.0, 12.0, 0.0});
+}
+
+// The same triangle on a base flow of 1.5 m3/s. With zero flow at both ends and breakpoints off
+// the grid, exact interval volumes would be over-determined (see series_resample.hpp); a base
+// flow leaves room for the small alternating correction.
+PiecewiseLinearSeries triangle_on_base_flow() {
+  return PiecewiseLinearSeries({0.0, 2820.0, 11580.0}, {1.5, 13.5, 1.5});
+}
+
+double relative(double a, double b) { return std::abs(a - b) / std::abs(b); }
+
+TEST(Resample, IntervalVolumesAreKeptExactly) {
+  const auto q = triangle_on_base_flow();
+  const double dt = 300.0;
+  const std::size_t n = 48;  // 4 h, past the end of the triangle
+  const auto r = resample_preserving_volume(q, 0.0, dt, n, ResampleMethod::interval_volumes);
+  const double exact = 0.5 * 11580.0 * 12.0 + 1.5 * 14400.0;  // triangle + base-flow rectangle
+  EXPECT_LT(relative(r.integral(0.0, static_cast<double>(n) * dt), exact), 1e-12);
+  for (std::size_t k = 0; k < n; ++k) {
+    const double t0 = static_cast<double>(k) * dt, t1 = t0 + dt;
+    EXPECT_NEAR(r.integral(t0, t1), q.integral(t0, t1), 1e-12 * exact) << "interval " << k;
+  }
+  double ripple = 0.0;  // largest departure from the original point values
+  for (std::size_t k = 0; k <= n; ++k) {
+    ripple = std::max(ripple, std::abs(r.values()[k] - q.value_at(r.times_s()[k])));
+  }
+  EXPECT_LT(ripple, 0.1 * 12.0);  // bound on the alternating correction: common practice, no source
+}
+
+TEST(Resample, ZeroAtBothEndsWithOffGridBreakpointsIsOverDetermined) {
+  EXPECT_THROW(resample_preserving_volume(triangle(), 0.0, 300.0, 48,
+                                          ResampleMethod::interval_volumes),
+               InputError);
+}
+
+TEST(Resample, ScaledSamplesKeepTheTotalVolume) {
+  const auto q = triangle();
+  const auto r = resample_preserving_volume(q, 0.0, 600.0, 24, ResampleMethod::scaled_samples);
+  EXPECT_LT(relative(r.integral(0.0, 24 * 600.0), 0.5 * 11580.0 * 12.0), 1e-12);
+}
+
+TEST(Resample, ASeriesAlreadyOnTheGridIsReproduced) {
+  const PiecewiseLinearSeries q({0.0, 60.0, 120.0, 180.0}, {1.0, 4.0, 2.0, 3.0});
+  const auto r = resample_preserving_volume(q, 0.0, 60.0, 3, ResampleMethod::interval_volumes);
+  for (std::size_t k = 0; k < 4; ++k) EXPECT_NEAR(r.values()[k], q.values()[k], 1e-14);
+}
+
+TEST(Resample, SpikeInsideOneIntervalCannotBeResampled) {
+  // 0 except a 2-minute spike inside [1800, 3600] s: with zero volume on both neighbours, the
+  // exact interval volumes would need a negative value, and every 30-minute sample is zero.
+  const PiecewiseLinearSeries q({0.0, 2400.0, 2460.0, 2520.0, 7200.0}, {0.0, 0.0, 5.0, 0.0, 0.0});
+  EXPECT_THROW(resample_preserving_volume(q, 0.0, 1800.0, 4, ResampleMethod::interval_volumes),
+               InputError);
+  EXPECT_THROW(resample_preserving_volume(q, 0.0, 1800.0, 4, ResampleMethod::scaled_samples),
+               InputError);
+}
+
+TEST(Resample, SpikeOnANodeSpreadsOverTheTwoAdjacentIntervals) {
+  // Spike of volume 0.5 * 120 s * 5 m3/s = 300 m3 centred on the node t = 3600 s: the
+  // interval-volume solution is a triangle of base 3600 s and height 2 * 300 / 3600 m3/s.
+  const PiecewiseLinearSeries q({0.0, 3540.0, 3600.0, 3660.0, 7200.0}, {0.0, 0.0, 5.0, 0.0, 0.0});
+  const auto r = resample_preserving_volume(q, 0.0, 1800.0, 4, ResampleMethod::interval_volumes);
+  const std::vector<double> expected{0.0, 0.0, 600.0 / 3600.0, 0.0, 0.0};
+  for (std::size_t k = 0; k < 5; ++k) EXPECT_NEAR(r.values()[k], expected[k], 1e-15) << k;
+  const auto s = resample_preserving_volume(q, 0.0, 1800.0, 4, ResampleMethod::scaled_samples);
+  EXPECT_LT(relative(s.integral(0.0, 7200.0), 300.0), 1e-12);
+}
+
+TEST(Resample, VolumeSurvivesWritingAndReadingCsv) {
+  const auto q = triangle_on_base_flow();
+  const auto r = resample_preserving_volume(q, 0.0, 300.0, 40, ResampleMethod::interval_volumes);
+  SeriesTable t;
+  t.times_s.assign(r.times_s().begin(), r.times_s().end());
+  t.values_si.assign(r.values().begin(), r.values().end());
+  const auto back = parse_series_csv(format_series_csv(t, {}), "mem.csv");
+  const PiecewiseLinearSeries b(back.times_s, back.values_si);
+  EXPECT_LT(relative(b.integral(0.0, 12000.0), q.integral(0.0, 12000.0)), 1e-12);
+}
+
+}  // namespace
+}  // namespace freshet::io
