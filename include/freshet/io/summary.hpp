@@ -1,0 +1,177 @@
+// Run summary records and an online per-station accumulator.
+//
+// Header-only and numerics-free (standard library only), so the network driver can fill
+// these records without linking freshet::io; the writers live in summary_writer.hpp.
+// Units are SI and carried in the names; times are seconds since the run's time origin.
+// A quantity that does not apply is NaN (written as empty in CSV, null in JSON).
+//
+//   freshet::io::SummaryAccumulator acc;
+//   for (each output time t) acc.add_sample(t, q_m3s, stage_m);
+//   StationSummary s = acc.station_summary("mill-outlet", "Mill Lane outlet", rain_centroid_s);
+//   PairSummary p = compare_stations(upstream, downstream);
+#pragma once
+
+#include <cmath>
+#include <limits>
+#include <string>
+#include <vector>
+
+namespace freshet::io {
+
+inline constexpr double kNotApplicable = std::numeric_limits<double>::quiet_NaN();
+
+struct StationSummary {
+  std::string station_id;
+  std::string name;
+  double peak_discharge_m3s = kNotApplicable;
+  double peak_time_s = kNotApplicable;    // time of the peak discharge
+  double peak_stage_m = kNotApplicable;   // highest stage (may occur at another time)
+  double runoff_volume_m3 = kNotApplicable;
+  double centroid_time_s = kNotApplicable;  // first moment of the hydrograph over its volume
+  double centroid_lag_s = kNotApplicable;   // centroid_time_s minus the rainfall-excess centroid
+};
+
+// Routing effect between two stations: positive attenuation = lower peak downstream.
+struct PairSummary {
+  std::string upstream_id;
+  std::string downstream_id;
+  double peak_attenuation_m3s = kNotApplicable;     // Qp_up - Qp_down
+  double peak_attenuation_percent = kNotApplicable; // 100 (Qp_up - Qp_down) / Qp_up
+  double peak_time_shift_s = kNotApplicable;        // tp_down - tp_up
+  double volume_change_m3 = kNotApplicable;         // V_down - V_up
+};
+
+// A shock (kinematic-wave discontinuity) found in a reach.
+struct ShockRecord {
+  std::string element;  // reach id
+  double time_s = kNotApplicable;
+  double chainage_m = kNotApplicable;
+  std::string message;
+};
+
+// One element's volume ledger closure: error = inflow - outflow - storage change.
+struct MassBalanceRecord {
+  std::string element;
+  double inflow_volume_m3 = kNotApplicable;
+  double outflow_volume_m3 = kNotApplicable;
+  double storage_change_m3 = kNotApplicable;
+  double error_m3 = kNotApplicable;
+  double relative_error = kNotApplicable;  // error_m3 / max(inflow, outflow), dimensionless
+};
+
+// A check of the method's assumptions that failed or is marginal, as free text.
+struct ApplicabilityWarning {
+  std::string element;
+  std::string message;
+};
+
+struct RunSummary {
+  std::string title;   // e.g. "freshet run of basin 'Alder Brook', storm 100-year 6-hour"
+  std::string source;  // freshet version string
+  std::vector<StationSummary> stations;
+  std::vector<PairSummary> pairs;
+  std::vector<ShockRecord> shocks;
+  std::vector<MassBalanceRecord> mass_balance;
+  std::vector<ApplicabilityWarning> warnings;
+};
+
+// Attenuation, timing and volume change from upstream to downstream.
+inline PairSummary compare_stations(const StationSummary& up, const StationSummary& down) {
+  PairSummary p;
+  p.upstream_id = up.station_id;
+  p.downstream_id = down.station_id;
+  p.peak_attenuation_m3s = up.peak_discharge_m3s - down.peak_discharge_m3s;
+  p.peak_attenuation_percent = up.peak_discharge_m3s > 0.0
+                                   ? 100.0 * p.peak_attenuation_m3s / up.peak_discharge_m3s
+                                   : kNotApplicable;
+  p.peak_time_shift_s = down.peak_time_s - up.peak_time_s;
+  p.volume_change_m3 = down.runoff_volume_m3 - up.runoff_volume_m3;
+  return p;
+}
+
+// Tracks a station's peak, volume and centroid from streamed samples, in O(1) memory.
+//
+// Peak discharge and peak stage are the largest samples (times at output samples, no
+// interpolation). Volume and centroid integrate the piecewise-linear interpolant of the
+// discharge samples exactly (trapezoid rule for the volume; for the first moment, over
+// [t0, t1] with q linear: integral of t q dt = (t1 - t0)/6 [t0 (2 q0 + q1) + t1 (q0 + 2 q1)]).
+// When the caller knows exact volumes over intervals (a scheme's outflow ledger), it hands
+// them in with add_interval_volume(); volume_m3() then reports their sum, and the centroid
+// uses each interval's midpoint.
+class SummaryAccumulator {
+ public:
+  // Samples must come in strictly increasing time; stage may be NaN (not recorded).
+  void add_sample(double time_s, double discharge_m3s, double stage_m = kNotApplicable) {
+    if (count_ > 0) {
+      const double a = last_time_s_ - origin_s_, b = time_s - origin_s_;
+      const double q0 = last_q_m3s_, q1 = discharge_m3s;
+      sample_volume_m3_ += 0.5 * (q0 + q1) * (b - a);
+      sample_moment_ += (b - a) / 6.0 * (a * (2.0 * q0 + q1) + b * (q0 + 2.0 * q1));
+    } else {
+      origin_s_ = time_s;
+    }
+    if (count_ == 0 || discharge_m3s > peak_q_m3s_) {
+      peak_q_m3s_ = discharge_m3s;
+      peak_time_s_ = time_s;
+    }
+    if (!std::isnan(stage_m) && (std::isnan(peak_stage_m_) || stage_m > peak_stage_m_)) {
+      peak_stage_m_ = stage_m;
+    }
+    last_time_s_ = time_s;
+    last_q_m3s_ = discharge_m3s;
+    ++count_;
+  }
+
+  // An exact volume that passed the station over [t0_s, t1_s].
+  void add_interval_volume(double t0_s, double t1_s, double volume_m3) {
+    handed_volume_m3_ += volume_m3;
+    handed_moment_ += volume_m3 * 0.5 * (t0_s + t1_s);
+    has_handed_volume_ = true;
+  }
+
+  [[nodiscard]] long sample_count() const { return count_; }
+  [[nodiscard]] double peak_discharge_m3s() const { return count_ ? peak_q_m3s_ : kNotApplicable; }
+  [[nodiscard]] double peak_time_s() const { return count_ ? peak_time_s_ : kNotApplicable; }
+  [[nodiscard]] double peak_stage_m() const { return peak_stage_m_; }
+  [[nodiscard]] double volume_m3() const {
+    return has_handed_volume_ ? handed_volume_m3_ : (count_ ? sample_volume_m3_ : kNotApplicable);
+  }
+  [[nodiscard]] double centroid_time_s() const {
+    if (has_handed_volume_) {
+      return handed_volume_m3_ > 0.0 ? handed_moment_ / handed_volume_m3_ : kNotApplicable;
+    }
+    return sample_volume_m3_ > 0.0 ? origin_s_ + sample_moment_ / sample_volume_m3_
+                                   : kNotApplicable;
+  }
+
+  // The record for this station; `excess_centroid_s` (NaN if unknown) gives the centroid lag.
+  [[nodiscard]] StationSummary station_summary(std::string id, std::string name,
+                                               double excess_centroid_s = kNotApplicable) const {
+    StationSummary s;
+    s.station_id = std::move(id);
+    s.name = std::move(name);
+    s.peak_discharge_m3s = peak_discharge_m3s();
+    s.peak_time_s = peak_time_s();
+    s.peak_stage_m = peak_stage_m();
+    s.runoff_volume_m3 = volume_m3();
+    s.centroid_time_s = centroid_time_s();
+    s.centroid_lag_s = s.centroid_time_s - excess_centroid_s;
+    return s;
+  }
+
+ private:
+  long count_ = 0;
+  double origin_s_ = 0.0;  // first sample time: moments are taken about it (less round-off)
+  double last_time_s_ = 0.0;
+  double last_q_m3s_ = 0.0;
+  double peak_q_m3s_ = 0.0;
+  double peak_time_s_ = 0.0;
+  double peak_stage_m_ = kNotApplicable;
+  double sample_volume_m3_ = 0.0;
+  double sample_moment_ = 0.0;  // integral of (t - origin) q dt
+  double handed_volume_m3_ = 0.0;
+  double handed_moment_ = 0.0;
+  bool has_handed_volume_ = false;
+};
+
+}  // namespace freshet::io

@@ -1,0 +1,36 @@
+// Writers for a RunSummary (summary.hpp): an aligned text table for the console, CSV files and
+// one JSON document, written next to the NetCDF output through atomic files. Every output
+// carries freshet::kCautionText. Field lists are in docs/outputs.md.
+//
+//   std::cout << freshet::io::format_summary_table(summary);
+//   auto files = freshet::io::write_summary_csv("out/run1", summary);   // out/run1_stations.csv …
+//   freshet::io::write_summary_json("out/run1_summary.json", summary);
+#pragma once
+
+#include <filesystem>
+#include <string>
+#include <vector>
+
+#include "freshet/io/atomic_file.hpp"
+#include "freshet/io/summary.hpp"
+
+namespace freshet::io {
+
+// Console table: stations, pairs, shocks, mass balance and warnings, columns aligned, units
+// in the headings (m3/s, h, m, m3), ending with the caution.
+std::string format_summary_table(const RunSummary& summary);
+
+// Writes `<prefix>_stations.csv`, `<prefix>_pairs.csv` and `<prefix>_checks.csv` (shocks,
+// mass-balance records and applicability warnings, one row each); returns the paths written.
+// SI values with full round-trip precision; NaN as an empty field; text fields quoted per
+// RFC 4180 when they hold a comma, quote or line break.
+std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
+                                                     const RunSummary& summary,
+                                                     Overwrite overwrite = Overwrite::no);
+
+// The whole summary as one JSON document (NaN as null), with "caution" and "units" members.
+std::string format_summary_json(const RunSummary& summary);
+void write_summary_json(const std::filesystem::path& path, const RunSummary& summary,
+                        Overwrite overwrite = Overwrite::no);
+
+}  // namespace freshet::io

@@ -1,0 +1,385 @@
+#include "freshet/io/netcdf_writer.hpp"
+
+#include <netcdf.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <netcdf>
+#include <set>
+
+#include "freshet/core/caution.hpp"
+#include "freshet/core/error.hpp"
+
+namespace freshet::io {
+
+namespace nc = netCDF;
+
+namespace {
+
+// The netCDF default fill for float (NC_FILL_FLOAT, 9.9692099683868690e+36): far outside any
+// physical value, and what generic readers already treat as missing.
+constexpr float kFillFloat = NC_FILL_FLOAT;
+constexpr double kFillDouble = NC_FILL_DOUBLE;
+constexpr double kMetresPerSecondToMmPerHour = 1000.0 * 3600.0;
+
+struct VariableSpec {
+  OutputVariable variable;
+  std::string_view name;
+  std::string_view long_name;
+  std::string_view units;
+  std::string_view standard_name;  // empty: none exists in CF standard-name table v83
+  double from_si;                  // multiply SI value by this before writing
+};
+
+// Standard names and canonical units: CF standard-name table v83 (2023-10-17), as listed in
+// /work/shared/ECOSYSTEM.md section 1.3; unit strings checked with udunits2 (section 1.6).
+constexpr VariableSpec kSpecs[] = {
+    {OutputVariable::discharge, "discharge", "discharge in the channel", "m3 s-1",
+     "water_volume_transport_in_river_channel", 1.0},
+    {OutputVariable::stage, "stage", "", "m", "", 1.0},  // text depends on the datum
+    {OutputVariable::depth, "depth", "flow depth above the channel bed (deepest point)", "m", "",
+     1.0},
+    {OutputVariable::velocity, "velocity", "cross-section mean flow velocity (discharge / area)",
+     "m s-1", "", 1.0},
+    {OutputVariable::rainfall_intensity, "rainfall_intensity", "rainfall intensity", "mm h-1",
+     "lwe_precipitation_rate", kMetresPerSecondToMmPerHour},
+    {OutputVariable::rainfall_excess, "rainfall_excess",
+     "rainfall excess rate (rainfall minus losses, available for runoff)", "mm h-1", "",
+     kMetresPerSecondToMmPerHour},
+};
+
+const VariableSpec& spec(OutputVariable v) { return kSpecs[static_cast<std::size_t>(v)]; }
+
+[[noreturn]] void rethrow_as_io_error(const std::filesystem::path& path,
+                                      const nc::exceptions::NcException& e) {
+  std::string what = e.what();
+  what = what.substr(0, what.find('\n'));  // drop netcdf-cxx4's "file: ... line:" suffix
+  throw IoError("NetCDF output file '" + path.string() + "': " + what);
+}
+
+bool two_digits(std::string_view s, std::size_t at) {
+  return at + 1 < s.size() && std::isdigit(static_cast<unsigned char>(s[at])) &&
+         std::isdigit(static_cast<unsigned char>(s[at + 1]));
+}
+
+// "YYYY-MM-DD[(T| )hh:mm:ss[Z]]" -> "YYYY-MM-DD hh:mm:ss" (UTC), or "" when malformed. The 'Z'
+// suffix is dropped because CF allows it only from 1.13; UDUNITS reads the rest as UTC.
+std::string normalise_time_origin(std::string_view s) {
+  const bool date = s.size() >= 10 && two_digits(s, 0) && two_digits(s, 2) && s[4] == '-' &&
+                    two_digits(s, 5) && s[7] == '-' && two_digits(s, 8);
+  if (!date) return "";
+  if (s.size() == 10) return std::string(s) + " 00:00:00";
+  const bool time = s.size() >= 19 && (s[10] == 'T' || s[10] == ' ') && two_digits(s, 11) &&
+                    s[13] == ':' && two_digits(s, 14) && s[16] == ':' && two_digits(s, 17);
+  if (!time || !(s.size() == 19 || (s.size() == 20 && s[19] == 'Z'))) return "";
+  return std::string(s.substr(0, 10)) + " " + std::string(s.substr(11, 8));
+}
+
+void validate(const NetcdfRunMetadata& m, const InstanceSet& set,
+              const std::vector<OutputVariable>& variables) {
+  ProblemList p("NetCDF output");
+  if (m.title.empty()) p.add("title", "is empty: a title is required");
+  if (m.source.empty()) p.add("source", "is empty: the freshet version string is required");
+  if (m.history.empty()) p.add("history", "is empty: date-time and command line are required");
+  if (normalise_time_origin(m.time_origin).empty()) {
+    p.add("time_origin", "= '" + m.time_origin +
+                             "': must be YYYY-MM-DD or YYYY-MM-DDThh:mm:ss[Z] (UTC)");
+  }
+  if (set.kind.empty()) p.add("kind", "is empty: name the instance dimension");
+  if (set.instances.empty()) p.add("instances", "is empty: at least one is required");
+  if (variables.empty()) p.add("variables", "is empty: at least one is required");
+  std::set<std::string> ids;
+  for (std::size_t i = 0; i < set.instances.size(); ++i) {
+    const std::string& id = set.instances[i].id;
+    const std::string at = set.kind + "[" + std::to_string(i + 1) + "].id";
+    if (id.empty()) p.add(at, "is empty: every " + set.kind + " needs an id");
+    else if (!ids.insert(id).second) p.add(at, "= '" + id + "': duplicate id");
+  }
+  std::set<OutputVariable> seen;
+  for (const auto v : variables) {
+    if (!seen.insert(v).second) p.add("variables", "'" + std::string(to_string(v)) + "' twice");
+  }
+  p.throw_if_any();
+}
+
+}  // namespace
+
+std::string_view to_string(OutputVariable variable) { return spec(variable).name; }
+
+std::mutex& netcdf_global_mutex() {
+  static std::mutex m;
+  return m;
+}
+
+struct NetcdfTimeSeriesWriter::Impl {
+  Impl(std::filesystem::path path, NetcdfWriterOptions opt)
+      : output(std::move(path), opt.overwrite), options(opt) {}
+
+  AtomicOutputPath output;
+  NetcdfWriterOptions options;
+  std::unique_ptr<nc::NcFile> file;
+  nc::NcVar time_var;
+  std::vector<nc::NcVar> data_vars;
+  std::vector<double> from_si;
+  std::vector<float> row;  // one variable's values for one record
+  std::size_t n_instances = 0;
+  std::size_t records = 0;
+  double last_time_s = 0.0;
+  std::chrono::steady_clock::time_point last_sync;
+
+  void define(const NetcdfRunMetadata& m, const InstanceSet& set,
+              const std::vector<OutputVariable>& variables);
+  void put_global_attributes(const NetcdfRunMetadata& m);
+  std::string define_instance_variables(const InstanceSet& set, const nc::NcDim& dim);
+  void define_data_variable(OutputVariable v, const InstanceSet& set, const nc::NcDim& time_dim,
+                            const nc::NcDim& dim, const std::string& coordinates);
+  void write_instance_values(const InstanceSet& set);
+  void write_record(double time_s, std::span<const double> values);
+};
+
+void NetcdfTimeSeriesWriter::Impl::put_global_attributes(const NetcdfRunMetadata& m) {
+  const std::string caution(kCautionText);
+  file->putAtt("Conventions", "CF-1.11, ACDD-1.3");
+  file->putAtt("featureType", "timeSeries");
+  file->putAtt("cdm_data_type", "Station");
+  file->putAtt("title", m.title);
+  if (!m.summary.empty()) file->putAtt("summary", m.summary);
+  if (!m.institution.empty()) file->putAtt("institution", m.institution);
+  file->putAtt("source", m.source);
+  file->putAtt("history", m.history);
+  if (!m.references.empty()) file->putAtt("references", m.references);
+  file->putAtt("comment", m.comment.empty() ? caution : m.comment + "\n" + caution);
+  file->putAtt("caution", caution);
+  if (!m.date_created.empty()) file->putAtt("date_created", m.date_created);
+  file->putAtt("standard_name_vocabulary", "CF Standard Name Table v83");
+}
+
+std::string NetcdfTimeSeriesWriter::Impl::define_instance_variables(const InstanceSet& set,
+                                                                    const nc::NcDim& dim) {
+  const std::string& k = set.kind;
+  auto id = file->addVar(k + "_id", nc::ncString, dim);
+  id.putAtt("cf_role", "timeseries_id");
+  id.putAtt("long_name", k + " identifier");
+  auto name = file->addVar(k + "_name", nc::ncString, dim);
+  name.putAtt("standard_name", "platform_name");
+  name.putAtt("long_name", k + " name");
+  std::string coordinates = k + "_id " + k + "_name";
+  const auto& in = set.instances;
+  if (std::any_of(in.begin(), in.end(), [](const auto& s) { return !s.reach_id.empty(); })) {
+    auto reach = file->addVar("reach_id", nc::ncString, dim);
+    reach.putAtt("long_name", "identifier of the reach the " + k + " lies on");
+    auto chainage = file->addVar("chainage", nc::ncDouble, dim);
+    chainage.setFill(true, kFillDouble);
+    chainage.putAtt("long_name", "distance downstream from the reach's upstream end");
+    chainage.putAtt("units", "m");
+    coordinates += " reach_id chainage";
+  }
+  const bool located = std::all_of(in.begin(), in.end(), [](const auto& s) {
+    return std::isfinite(s.x_m) && std::isfinite(s.y_m);
+  });
+  if (located) {
+    for (const char* axis : {"x", "y"}) {
+      auto v = file->addVar(axis, nc::ncDouble, dim);
+      v.putAtt("units", "m");
+      v.putAtt("long_name", std::string(axis) + " coordinate of the " + k);
+      if (!set.crs_wkt.empty()) {
+        v.putAtt("standard_name", std::string("projection_") + axis + "_coordinate");
+      }
+    }
+    coordinates += " x y";
+    if (!set.crs_wkt.empty()) {
+      auto crs = file->addVar("crs", nc::ncInt);
+      crs.putAtt("crs_wkt", set.crs_wkt);
+      crs.putAtt("long_name", "horizontal coordinate reference system of x and y");
+    }
+  }
+  return coordinates;
+}
+
+void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const InstanceSet& set,
+                                                        const nc::NcDim& time_dim,
+                                                        const nc::NcDim& dim,
+                                                        const std::string& coordinates) {
+  const VariableSpec& s = spec(v);
+  auto var = file->addVar(std::string(s.name), nc::ncFloat, std::vector<nc::NcDim>{time_dim, dim});
+  // Chunks of about 256 KiB, a whole row wide where possible (common practice, no source).
+  const std::size_t width = std::min<std::size_t>(n_instances, 16384);
+  const std::size_t length = std::clamp<std::size_t>(65536 / width, 16, 1024);
+  std::vector<size_t> chunks{length, width};
+  var.setChunking(nc::NcVar::nc_CHUNKED, chunks);
+  var.setCompression(true, options.deflate_level > 0, options.deflate_level);
+  var.setFill(true, kFillFloat);
+  // A small per-variable chunk cache keeps memory flat: filled chunks are written out and
+  // evicted instead of accumulating in the 16 MiB default cache.
+  var.setChunkCache(std::max<std::size_t>(4 * length * width * sizeof(float), 1 << 20), 31, 1.0f);
+  std::string long_name(s.long_name);
+  if (v == OutputVariable::stage) {
+    if (set.stage_datum.empty()) {
+      long_name = "water surface elevation (bed elevation plus flow depth) in the vertical frame "
+                  "of the basin file's elevations";
+    } else {
+      long_name = "water surface elevation above " + set.stage_datum;
+      var.putAtt("standard_name", "water_surface_height_above_reference_datum");
+      var.putAtt("vertical_datum", set.stage_datum);
+    }
+  } else if (!s.standard_name.empty()) {
+    var.putAtt("standard_name", std::string(s.standard_name));
+  }
+  var.putAtt("long_name", long_name);
+  var.putAtt("units", std::string(s.units));
+  var.putAtt("coordinates", coordinates);
+  var.putAtt("coverage_content_type", "modelResult");
+  if (!set.crs_wkt.empty() && coordinates.find(" x y") != std::string::npos) {
+    var.putAtt("grid_mapping", "crs");
+  }
+  data_vars.push_back(var);
+  from_si.push_back(s.from_si);
+}
+
+void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const InstanceSet& set,
+                                          const std::vector<OutputVariable>& variables) {
+  n_instances = set.instances.size();
+  file = std::make_unique<nc::NcFile>(output.partial_path().string(), nc::NcFile::replace);
+  const nc::NcDim time_dim = file->addDim("time");  // no size: UNLIMITED
+  const nc::NcDim dim = file->addDim(set.kind, n_instances);
+  time_var = file->addVar("time", nc::ncDouble, time_dim);
+  std::vector<size_t> time_chunks{1024};
+  time_var.setChunking(nc::NcVar::nc_CHUNKED, time_chunks);
+  time_var.putAtt("standard_name", "time");
+  time_var.putAtt("long_name", "time");
+  time_var.putAtt("units", "seconds since " + normalise_time_origin(m.time_origin));
+  time_var.putAtt("calendar", "proleptic_gregorian");
+  time_var.putAtt("axis", "T");
+  const std::string coordinates = define_instance_variables(set, dim);
+  for (const auto v : variables) define_data_variable(v, set, time_dim, dim, coordinates);
+  put_global_attributes(m);
+  write_instance_values(set);
+  row.assign(n_instances, 0.0f);
+}
+
+void NetcdfTimeSeriesWriter::Impl::write_instance_values(const InstanceSet& set) {
+  const auto reach = file->getVar("reach_id");
+  const auto chainage = file->getVar("chainage");
+  const auto x = file->getVar("x");
+  const auto y = file->getVar("y");
+  const auto id = file->getVar(set.kind + "_id");
+  const auto name = file->getVar(set.kind + "_name");
+  for (std::size_t i = 0; i < n_instances; ++i) {
+    const std::vector<size_t> at{i};
+    const InstanceInfo& s = set.instances[i];
+    id.putVar(at, s.id);
+    name.putVar(at, s.name);
+    if (!reach.isNull()) {
+      reach.putVar(at, s.reach_id);
+      chainage.putVar(at, std::isfinite(s.chainage_m) ? s.chainage_m : kFillDouble);
+    }
+    if (!x.isNull()) {
+      x.putVar(at, s.x_m);
+      y.putVar(at, s.y_m);
+    }
+  }
+}
+
+void NetcdfTimeSeriesWriter::Impl::write_record(double time_s, std::span<const double> values) {
+  time_var.putVar(std::vector<size_t>{records}, time_s);
+  for (std::size_t v = 0; v < data_vars.size(); ++v) {
+    for (std::size_t i = 0; i < n_instances; ++i) {
+      const double value = values[v * n_instances + i];
+      row[i] = std::isfinite(value) ? static_cast<float>(value * from_si[v]) : kFillFloat;
+    }
+    data_vars[v].putVar({records, 0}, {1, n_instances}, row.data());
+  }
+  ++records;
+  last_time_s = time_s;
+}
+
+NetcdfTimeSeriesWriter::NetcdfTimeSeriesWriter(std::filesystem::path path,
+                                               NetcdfWriterOptions options)
+    : impl_(std::make_unique<Impl>(std::move(path), options)) {
+  FRESHET_ASSERT(options.deflate_level >= 0 && options.deflate_level <= 9,
+                 "deflate_level must be in 0..9");
+}
+
+NetcdfTimeSeriesWriter::~NetcdfTimeSeriesWriter() {
+  if (!impl_ || !impl_->file) return;  // AtomicOutputPath removes any partial file
+  std::lock_guard lock(netcdf_global_mutex());
+  try {
+    impl_->file->close();
+  } catch (...) {  // nothing to report from a destructor; the partial file is removed anyway
+  }
+  impl_->file.reset();
+}
+
+void NetcdfTimeSeriesWriter::begin(const NetcdfRunMetadata& metadata, const InstanceSet& instances,
+                                   std::vector<OutputVariable> variables) {
+  FRESHET_ASSERT(!impl_->file, "NetcdfTimeSeriesWriter::begin called twice");
+  validate(metadata, instances, variables);
+  std::lock_guard lock(netcdf_global_mutex());
+  try {
+    impl_->define(metadata, instances, variables);
+    impl_->file->sync();
+  } catch (const nc::exceptions::NcException& e) {
+    rethrow_as_io_error(impl_->output.final_path(), e);
+  }
+  impl_->last_sync = std::chrono::steady_clock::now();
+}
+
+void NetcdfTimeSeriesWriter::record(double time_s, std::span<const double> values) {
+  Impl& m = *impl_;
+  FRESHET_ASSERT(m.file, "NetcdfTimeSeriesWriter::record before begin or after commit");
+  FRESHET_ASSERT(values.size() == m.data_vars.size() * m.n_instances,
+                 "record: values must hold n_variables * n_instances entries");
+  FRESHET_ASSERT(std::isfinite(time_s) && (m.records == 0 || time_s > m.last_time_s),
+                 "record: output times must be finite and strictly increasing");
+  {
+    std::lock_guard lock(netcdf_global_mutex());
+    try {
+      m.write_record(time_s, values);
+    } catch (const nc::exceptions::NcException& e) {
+      rethrow_as_io_error(m.output.final_path(), e);
+    }
+  }
+  const auto now = std::chrono::steady_clock::now();
+  if (std::chrono::duration<double>(now - m.last_sync).count() >= m.options.sync_interval_s) {
+    sync();
+  }
+}
+
+void NetcdfTimeSeriesWriter::sync() {
+  FRESHET_ASSERT(impl_->file, "NetcdfTimeSeriesWriter::sync before begin or after commit");
+  std::lock_guard lock(netcdf_global_mutex());
+  try {
+    impl_->file->sync();
+  } catch (const nc::exceptions::NcException& e) {
+    rethrow_as_io_error(impl_->output.final_path(), e);
+  }
+  impl_->last_sync = std::chrono::steady_clock::now();
+}
+
+void NetcdfTimeSeriesWriter::commit() {
+  FRESHET_ASSERT(impl_->file, "NetcdfTimeSeriesWriter::commit before begin or twice");
+  {
+    std::lock_guard lock(netcdf_global_mutex());
+    try {
+      impl_->file->close();
+    } catch (const nc::exceptions::NcException& e) {
+      impl_->file.reset();
+      rethrow_as_io_error(impl_->output.final_path(), e);
+    }
+    impl_->file.reset();
+  }
+  impl_->output.commit();
+}
+
+std::size_t NetcdfTimeSeriesWriter::records_written() const noexcept { return impl_->records; }
+
+const std::filesystem::path& NetcdfTimeSeriesWriter::final_path() const noexcept {
+  return impl_->output.final_path();
+}
+
+const std::filesystem::path& NetcdfTimeSeriesWriter::partial_path() const noexcept {
+  return impl_->output.partial_path();
+}
+
+}  // namespace freshet::io

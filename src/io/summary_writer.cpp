@@ -1,0 +1,261 @@
+#include "freshet/io/summary_writer.hpp"
+
+#include <algorithm>
+#include <charconv>
+#include <cmath>
+#include <cstdio>
+#include <memory>
+#include <nlohmann/json.hpp>
+
+#include "freshet/core/caution.hpp"
+#include "freshet/core/error.hpp"
+
+namespace freshet::io {
+
+namespace {
+
+// ---- text table ---------------------------------------------------------------------------
+
+std::string fixed(double v, int decimals) {
+  if (std::isnan(v)) return "-";
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+  return buf;
+}
+
+// Columns padded to their widest cell; the first column left-aligned, the others right-aligned.
+std::string aligned(const std::vector<std::vector<std::string>>& rows) {
+  std::vector<std::size_t> width;
+  for (const auto& r : rows) {
+    width.resize(std::max(width.size(), r.size()), 0);
+    for (std::size_t c = 0; c < r.size(); ++c) width[c] = std::max(width[c], r[c].size());
+  }
+  std::string out;
+  for (const auto& r : rows) {
+    std::string line;
+    for (std::size_t c = 0; c < r.size(); ++c) {
+      const std::string pad(width[c] - r[c].size(), ' ');
+      line += (c == 0 ? r[c] + pad : "  " + pad + r[c]);
+    }
+    while (!line.empty() && line.back() == ' ') line.pop_back();
+    out += line + "\n";
+  }
+  return out;
+}
+
+std::string station_table(const RunSummary& s) {
+  std::vector<std::vector<std::string>> rows{{"station", "name", "peak Q (m3/s)", "peak at (h)",
+                                              "peak stage (m)", "volume (m3)", "centroid lag (h)"}};
+  for (const auto& r : s.stations) {
+    rows.push_back({r.station_id, r.name, fixed(r.peak_discharge_m3s, 3),
+                    fixed(r.peak_time_s / 3600.0, 3), fixed(r.peak_stage_m, 3),
+                    fixed(r.runoff_volume_m3, 1), fixed(r.centroid_lag_s / 3600.0, 3)});
+  }
+  return aligned(rows);
+}
+
+std::string pair_table(const RunSummary& s) {
+  std::vector<std::vector<std::string>> rows{{"upstream", "downstream", "attenuation (m3/s)",
+                                              "attenuation (%)", "peak shift (min)",
+                                              "volume change (m3)"}};
+  for (const auto& r : s.pairs) {
+    rows.push_back({r.upstream_id, r.downstream_id, fixed(r.peak_attenuation_m3s, 3),
+                    fixed(r.peak_attenuation_percent, 2), fixed(r.peak_time_shift_s / 60.0, 2),
+                    fixed(r.volume_change_m3, 1)});
+  }
+  return aligned(rows);
+}
+
+std::string check_lines(const RunSummary& s) {
+  std::string out;
+  if (!s.mass_balance.empty()) {
+    std::vector<std::vector<std::string>> rows{{"element", "inflow (m3)", "outflow (m3)",
+                                                "storage change (m3)", "error (m3)",
+                                                "relative error"}};
+    for (const auto& r : s.mass_balance) {
+      char rel[32];
+      std::snprintf(rel, sizeof rel, "%.2e", r.relative_error);
+      rows.push_back({r.element, fixed(r.inflow_volume_m3, 3), fixed(r.outflow_volume_m3, 3),
+                      fixed(r.storage_change_m3, 3), fixed(r.error_m3, 6),
+                      std::isnan(r.relative_error) ? "-" : rel});
+    }
+    out += "\nMass balance\n" + aligned(rows);
+  }
+  if (!s.shocks.empty()) out += "\nShocks\n";
+  for (const auto& r : s.shocks) {
+    out += "  " + r.element + " at t = " + fixed(r.time_s / 3600.0, 3) + " h, chainage " +
+           fixed(r.chainage_m, 1) + " m: " + r.message + "\n";
+  }
+  if (!s.warnings.empty()) out += "\nApplicability warnings\n";
+  for (const auto& r : s.warnings) out += "  " + r.element + ": " + r.message + "\n";
+  return out;
+}
+
+// ---- CSV ----------------------------------------------------------------------------------
+
+std::string csv_number(double v) {
+  if (std::isnan(v)) return "";
+  return format_value(v);  // shortest round-trip form
+}
+
+std::string csv_text(const std::string& s) {
+  if (s.find_first_of(",\"\r\n") == std::string::npos) return s;
+  std::string out = "\"";
+  for (const char c : s) out += (c == '"') ? std::string("\"\"") : std::string(1, c);
+  return out + "\"";
+}
+
+std::string csv_preamble(const RunSummary& s, const std::string& what) {
+  std::string out = "# freshet " + what + "\n";
+  if (!s.title.empty()) out += "# title: " + s.title + "\n";
+  if (!s.source.empty()) out += "# source: " + s.source + "\n";
+  return out + "# " + std::string(kCautionText) + "\n";
+}
+
+std::string stations_csv(const RunSummary& s) {
+  std::string out = csv_preamble(s, "station summary") +
+                    "station_id,name,peak_discharge_m3s,peak_time_s,peak_stage_m,"
+                    "runoff_volume_m3,centroid_time_s,centroid_lag_s\n";
+  for (const auto& r : s.stations) {
+    out += csv_text(r.station_id) + "," + csv_text(r.name) + "," +
+           csv_number(r.peak_discharge_m3s) + "," + csv_number(r.peak_time_s) + "," +
+           csv_number(r.peak_stage_m) + "," + csv_number(r.runoff_volume_m3) + "," +
+           csv_number(r.centroid_time_s) + "," + csv_number(r.centroid_lag_s) + "\n";
+  }
+  return out;
+}
+
+std::string pairs_csv(const RunSummary& s) {
+  std::string out = csv_preamble(s, "station pair summary") +
+                    "upstream_id,downstream_id,peak_attenuation_m3s,peak_attenuation_percent,"
+                    "peak_time_shift_s,volume_change_m3\n";
+  for (const auto& r : s.pairs) {
+    out += csv_text(r.upstream_id) + "," + csv_text(r.downstream_id) + "," +
+           csv_number(r.peak_attenuation_m3s) + "," + csv_number(r.peak_attenuation_percent) +
+           "," + csv_number(r.peak_time_shift_s) + "," + csv_number(r.volume_change_m3) + "\n";
+  }
+  return out;
+}
+
+std::string checks_csv(const RunSummary& s) {
+  std::string out = csv_preamble(s, "run checks") +
+                    "kind,element,time_s,chainage_m,inflow_volume_m3,outflow_volume_m3,"
+                    "storage_change_m3,error_m3,relative_error,message\n";
+  for (const auto& r : s.shocks) {
+    out += "shock," + csv_text(r.element) + "," + csv_number(r.time_s) + "," +
+           csv_number(r.chainage_m) + ",,,,,," + csv_text(r.message) + "\n";
+  }
+  for (const auto& r : s.mass_balance) {
+    out += "mass_balance," + csv_text(r.element) + ",,," + csv_number(r.inflow_volume_m3) + "," +
+           csv_number(r.outflow_volume_m3) + "," + csv_number(r.storage_change_m3) + "," +
+           csv_number(r.error_m3) + "," + csv_number(r.relative_error) + ",\n";
+  }
+  for (const auto& r : s.warnings) {
+    out += "applicability," + csv_text(r.element) + ",,,,,,,," + csv_text(r.message) + "\n";
+  }
+  return out;
+}
+
+// ---- JSON ---------------------------------------------------------------------------------
+
+nlohmann::json number(double v) { return std::isnan(v) ? nlohmann::json(nullptr) : nlohmann::json(v); }
+
+nlohmann::json to_json(const StationSummary& r) {
+  return {{"station_id", r.station_id},
+          {"name", r.name},
+          {"peak_discharge_m3s", number(r.peak_discharge_m3s)},
+          {"peak_time_s", number(r.peak_time_s)},
+          {"peak_stage_m", number(r.peak_stage_m)},
+          {"runoff_volume_m3", number(r.runoff_volume_m3)},
+          {"centroid_time_s", number(r.centroid_time_s)},
+          {"centroid_lag_s", number(r.centroid_lag_s)}};
+}
+
+nlohmann::json to_json(const PairSummary& r) {
+  return {{"upstream_id", r.upstream_id},
+          {"downstream_id", r.downstream_id},
+          {"peak_attenuation_m3s", number(r.peak_attenuation_m3s)},
+          {"peak_attenuation_percent", number(r.peak_attenuation_percent)},
+          {"peak_time_shift_s", number(r.peak_time_shift_s)},
+          {"volume_change_m3", number(r.volume_change_m3)}};
+}
+
+nlohmann::json to_json(const ShockRecord& r) {
+  return {{"element", r.element},
+          {"time_s", number(r.time_s)},
+          {"chainage_m", number(r.chainage_m)},
+          {"message", r.message}};
+}
+
+nlohmann::json to_json(const MassBalanceRecord& r) {
+  return {{"element", r.element},
+          {"inflow_volume_m3", number(r.inflow_volume_m3)},
+          {"outflow_volume_m3", number(r.outflow_volume_m3)},
+          {"storage_change_m3", number(r.storage_change_m3)},
+          {"error_m3", number(r.error_m3)},
+          {"relative_error", number(r.relative_error)}};
+}
+
+nlohmann::json to_json(const ApplicabilityWarning& r) {
+  return {{"element", r.element}, {"message", r.message}};
+}
+
+template <class T>
+nlohmann::json array_of(const std::vector<T>& records) {
+  nlohmann::json a = nlohmann::json::array();
+  for (const auto& r : records) a.push_back(to_json(r));
+  return a;
+}
+
+}  // namespace
+
+std::string format_summary_table(const RunSummary& summary) {
+  std::string out;
+  if (!summary.title.empty()) out += summary.title + "\n\n";
+  out += "Stations\n" + station_table(summary);
+  if (!summary.pairs.empty()) out += "\nStation pairs\n" + pair_table(summary);
+  out += check_lines(summary);
+  return out + "\n" + std::string(kCautionText) + "\n";
+}
+
+std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
+                                                     const RunSummary& summary,
+                                                     Overwrite overwrite) {
+  const std::vector<std::pair<std::string, std::string>> parts{
+      {"_stations.csv", stations_csv(summary)},
+      {"_pairs.csv", pairs_csv(summary)},
+      {"_checks.csv", checks_csv(summary)}};
+  // Open all first, so an existing file stops the whole set before anything is written.
+  std::vector<std::unique_ptr<AtomicFile>> files;
+  std::vector<std::filesystem::path> paths;
+  for (const auto& [suffix, text] : parts) {
+    paths.push_back(prefix.string() + suffix);
+    files.push_back(std::make_unique<AtomicFile>(paths.back(), overwrite));
+  }
+  for (std::size_t i = 0; i < parts.size(); ++i) files[i]->write(parts[i].second);
+  for (auto& f : files) f->commit();
+  return paths;
+}
+
+std::string format_summary_json(const RunSummary& summary) {
+  nlohmann::json j;
+  j["format"] = "freshet run summary";
+  j["title"] = summary.title;
+  j["source"] = summary.source;
+  j["caution"] = std::string(kCautionText);
+  j["units"] = {{"discharge", "m3 s-1"}, {"time", "s"},       {"stage", "m"},
+                {"volume", "m3"},        {"chainage", "m"},   {"percent", "%"}};
+  j["stations"] = array_of(summary.stations);
+  j["pairs"] = array_of(summary.pairs);
+  j["shocks"] = array_of(summary.shocks);
+  j["mass_balance"] = array_of(summary.mass_balance);
+  j["applicability_warnings"] = array_of(summary.warnings);
+  return j.dump(2) + "\n";
+}
+
+void write_summary_json(const std::filesystem::path& path, const RunSummary& summary,
+                        Overwrite overwrite) {
+  write_file_atomically(path, format_summary_json(summary), overwrite);
+}
+
+}  // namespace freshet::io
