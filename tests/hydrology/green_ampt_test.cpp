@@ -1,0 +1,94 @@
+#include "freshet/hydrology/green_ampt.hpp"
+
+#include <cmath>
+#include <gtest/gtest.h>
+
+namespace freshet::hydrology {
+namespace {
+
+constexpr double kCm = 0.01;
+constexpr double kHour = 3600.0;
+
+// Silt loam as in Chow, Maidment & Mays (1988), Applied Hydrology, Examples 4.3.1 and 4.4.1:
+// K = 0.65 cm/h, psi = 16.7 cm, theta_e = 0.486, S_e = 0.3 (dtheta = 0.340). Porosity 0.501
+// from Rawls, Brakensiek & Miller (1983), J. Hydraulic Eng. 109(1) (silt loam).
+GreenAmptParameters silt_loam() {
+  return {.hydraulic_conductivity_m_s = 0.65 * kCm / kHour,
+          .suction_head_m = 16.7 * kCm,
+          .porosity = 0.501,
+          .effective_porosity = 0.486,
+          .initial_effective_saturation = 0.3};
+}
+
+// CMM 1988 Example 4.3.1 (from memory): after 1 h of ponding F = 3.17 cm, f = 1.81 cm/h
+// (evaluating eq. 4.3.7 at F = 3.167 cm gives 1.816 cm/h; the text rounds).
+TEST(GreenAmpt, PondedInfiltrationMatchesChowExample4_3_1) {
+  const GreenAmptParameters p = silt_loam();
+  EXPECT_NEAR(p.moisture_deficit(), 0.340, 0.0005);
+  const double f_cm = green_ampt_ponded_infiltration_m(p, kHour) / kCm;
+  EXPECT_NEAR(f_cm, 3.17, 0.005);
+  EXPECT_NEAR(green_ampt_capacity_m_s(p, f_cm * kCm) * kHour / kCm, 1.81, 0.01);
+}
+
+// CMM 1988 Example 4.4.1 (from memory): t_p = 0.17 h under 5 cm/h, 10.5 h under 1 cm/h.
+TEST(GreenAmpt, PondingTimeMatchesChowExample4_4_1) {
+  const GreenAmptParameters p = silt_loam();
+  EXPECT_NEAR(green_ampt_ponding_time_s(p, 5.0 * kCm / kHour) / kHour, 0.17, 0.005);
+  EXPECT_NEAR(green_ampt_ponding_time_s(p, 1.0 * kCm / kHour) / kHour, 10.5, 0.06);
+  EXPECT_TRUE(std::isinf(green_ampt_ponding_time_s(p, 0.5 * kCm / kHour)));
+}
+
+// Mein & Larson (1973), CMM eq. 4.4.6: under constant i, F = i t until t_p, then
+// F - F_p - psi dtheta ln((F + psi dtheta)/(F_p + psi dtheta)) = K (t - t_p). The stepped
+// model must satisfy that equation whatever the steps, ponding falling inside a step.
+TEST(GreenAmpt, SteppedConstantRainFollowsMeinLarsonForAnyStep) {
+  const GreenAmptParameters p = silt_loam();
+  const double i = 5.0 * kCm / kHour, k = p.hydraulic_conductivity_m_s;
+  const double a = p.suction_deficit_m();
+  const double fp = k * a / (i - k), tp = fp / i;
+  for (int steps : {1, 7, 120}) {
+    GreenAmptLoss soil(p, "subcatchment 'alder'");
+    const double dt = 2.0 * kHour / steps;
+    for (int s = 0; s < steps; ++s) soil.step(i * dt, dt);
+    const double f = soil.cumulative_infiltration_m();
+    const double residual = f - fp - a * std::log((f + a) / (fp + a)) - k * (2.0 * kHour - tp);
+    EXPECT_NEAR(residual, 0.0, 1e-14) << steps << " steps";
+    EXPECT_NEAR(soil.ledger().loss_m, f, 1e-15);
+    EXPECT_NEAR(soil.ledger().closure_error_m(), 0.0, 1e-15);
+  }
+}
+
+// Before ponding all rain infiltrates; light rain (i < K) never runs off.
+TEST(GreenAmpt, NoExcessBeforePondingOrUnderLightRain) {
+  GreenAmptLoss soil(silt_loam(), "subcatchment 'alder'");
+  const double i = 5.0 * kCm / kHour;
+  EXPECT_EQ(soil.excess_depth_m(i * 0.1 * kHour, 0.1 * kHour), 0.0);  // 0.1 h < t_p = 0.17 h
+  EXPECT_GT(soil.excess_depth_m(i * 0.1 * kHour, 0.1 * kHour), 0.0);
+  GreenAmptLoss light(silt_loam(), "subcatchment 'alder'");
+  for (int s = 0; s < 48; ++s) EXPECT_EQ(light.excess_depth_m(0.6 * kCm, kHour), 0.0);
+}
+
+TEST(GreenAmpt, RejectsPhysicallyImpossibleSoils) {
+  try {
+    GreenAmptLoss soil({.hydraulic_conductivity_m_s = 0.0, .suction_head_m = -0.1,
+                        .porosity = 1.2, .effective_porosity = 0.4,
+                        .initial_effective_saturation = 1.0},
+                       "subcatchment 'alder'");
+    FAIL();
+  } catch (const InputError& e) {
+    ASSERT_EQ(e.problems().size(), 4u);
+    EXPECT_EQ(e.problems()[0].to_string(),
+              "subcatchment 'alder', field 'hydraulic_conductivity_m_s' = 0: must be > 0");
+    EXPECT_EQ(e.problems()[2].to_string(),
+              "subcatchment 'alder', field 'porosity' = 1.2: must be in (0, 1)");
+    EXPECT_EQ(e.problems()[3].to_string(),
+              "subcatchment 'alder', field 'initial_effective_saturation' = 1: must be in "
+              "[0, 1) (initial moisture below saturation, theta_i < theta_s)");
+  }
+  GreenAmptParameters p = silt_loam();
+  p.effective_porosity = 0.6;
+  EXPECT_THROW(GreenAmptLoss(p, "subcatchment 'alder'"), InputError);
+}
+
+}  // namespace
+}  // namespace freshet::hydrology
