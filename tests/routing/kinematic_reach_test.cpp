@@ -1,0 +1,219 @@
+// Reach model: options, input errors, volume ledger for every scheme, dry reach, steady flow.
+#include "freshet/routing/kinematic_reach.hpp"
+
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "routing_test_support.hpp"
+
+namespace freshet::routing {
+namespace {
+
+using geometry::PowerLawFlux;
+using testing::kAllSchemes;
+using testing::options_for;
+using testing::wide_manning;
+using ::testing::HasSubstr;
+
+TEST(RoutingOptions, DefaultsAreValid) {
+  EXPECT_TRUE(RoutingOptions{}.validate().empty());
+  EXPECT_TRUE(ShockDetectionOptions{}.validate().empty());
+}
+
+TEST(RoutingOptions, ReportsEveryBadValueAtOnce) {
+  RoutingOptions opt;
+  opt.courant_target = 1.5;       // above the limit
+  opt.ode_rel_tolerance = 0.0;    // must be > 0
+  opt.shock.persistence = 0;      // must be >= 1
+  const auto problems = opt.validate();
+  ASSERT_EQ(problems.size(), 3u);
+  EXPECT_EQ(problems[0].field, "courant_target");
+  EXPECT_THAT(problems[0].message, HasSubstr("= 1.5"));
+  EXPECT_EQ(problems[1].field, "ode_rel_tolerance");
+  EXPECT_EQ(problems[2].field, "persistence");
+}
+
+TEST(RoutingOptions, SchemeAndLimiterNamesRoundTrip) {
+  for (SchemeKind k : kAllSchemes) EXPECT_EQ(parse_scheme_kind(to_string(k)), k);
+  for (Limiter l : {Limiter::kMinmod, Limiter::kVanLeer}) EXPECT_EQ(parse_limiter(to_string(l)), l);
+  try {
+    (void)parse_scheme_kind("upwind");
+    FAIL() << "expected InputError";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("'upwind'"));
+    EXPECT_THAT(e.what(), HasSubstr("explicit-upwind, implicit-upwind"));
+  }
+}
+
+TEST(KinematicReach, RejectsBadSpecListingEveryProblem) {
+  RoutingOptions opt;
+  opt.min_dt_s = -1.0;
+  try {
+    KinematicReach<PowerLawFlux> reach({"mill-race", -5.0, 0}, wide_manning(10, 0.03, 1e-3), opt);
+    FAIL() << "expected InputError";
+  } catch (const InputError& e) {
+    ASSERT_EQ(e.problems().size(), 3u) << e.what();
+    EXPECT_THAT(e.what(), HasSubstr("reach 'mill-race'"));
+    EXPECT_THAT(e.what(), HasSubstr("length_m"));
+    EXPECT_THAT(e.what(), HasSubstr("cell_count"));
+    EXPECT_THAT(e.what(), HasSubstr("min_dt_s"));
+  }
+}
+
+TEST(KinematicReach, RejectsNonContiguousAdvanceAndNegativeInflow) {
+  KinematicReach<PowerLawFlux> reach({"mill-race", 100.0, 10}, wide_manning(10, 0.03, 1e-3));
+  const auto q = PiecewiseLinearSeries::constant(1.0);
+  (void)reach.advance(0.0, 10.0, q, LateralInflow::none());
+  EXPECT_THROW((void)reach.advance(20.0, 30.0, q, LateralInflow::none()), InputError);
+  const PiecewiseLinearSeries negative({0.0, 100.0}, {1.0, -1.0});
+  try {
+    (void)reach.advance(10.0, 100.0, negative, LateralInflow::none());
+    FAIL() << "expected InputError";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("inflow_m3s"));
+  }
+}
+
+TEST(LateralInflowTest, RejectsBadStationsAndNegativeRates) {
+  try {
+    LateralInflow bad({0.0, 50.0, 40.0}, {PiecewiseLinearSeries::constant(1e-3),
+                                          PiecewiseLinearSeries::constant(-1e-3)});
+    FAIL() << "expected InputError";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.problems().size(), 2u) << e.what();
+  }
+}
+
+// A hydrograph rising from base flow to a peak and back, and lateral inflow that differs in
+// time and along the reach: the forcing of every volume-balance test.
+struct Forcing {
+  PiecewiseLinearSeries inflow{{0.0, 1800.0, 5400.0}, {2.0, 30.0, 2.0}};
+  LateralInflow lateral{{0.0, 800.0, 2000.0},
+                        {PiecewiseLinearSeries({0.0, 1200.0, 3600.0}, {0.0, 1e-3, 0.0}),
+                         PiecewiseLinearSeries({600.0, 2400.0, 4800.0}, {0.0, 3e-3, 0.0})}};
+  // Exact volumes over [0, t] (trapezoids of the piecewise-linear series).
+  double lateral_volume_m3 = 800.0 * (0.5 * 1e-3 * 3600.0) + 1200.0 * (0.5 * 3e-3 * 4200.0);
+};
+
+// Volume balance inflow + lateral - outflow - change in storage = 0 to 1e-10 of the inflow
+// for every scheme (a property of conservative finite volumes, LeVeque 2002, Finite Volume
+// Methods for Hyperbolic Problems, sec. 2.6 / 4.1; the tolerance is round-off, not a source).
+class VolumeBalance : public ::testing::TestWithParam<SchemeKind> {};
+
+TEST_P(VolumeBalance, ClosesToRoundOffWithTimeAndSpaceVaryingLateralInflow) {
+  Forcing f;
+  KinematicReach<PowerLawFlux> reach({"test-reach", 2000.0, 100}, wide_manning(20, 0.035, 1e-3),
+                                     options_for(GetParam()));
+  reach.set_uniform_discharge(2.0);
+  double handed_on_m3 = 0.0;
+  for (double t = 0.0; t < 7200.0; t += 300.0) {
+    const AdvanceResult r = reach.advance(t, t + 300.0, f.inflow, f.lateral);
+    ASSERT_TRUE(r.ok()) << r.message;
+    handed_on_m3 += r.mean_outflow_m3s * 300.0;
+    for (double a : reach.cell_area_m2()) ASSERT_GE(a, 0.0);
+  }
+  const VolumeLedger& ledger = reach.ledger();
+  const double inflow_exact = f.inflow.integral(0.0, 7200.0);
+  EXPECT_NEAR(ledger.inflow_m3, inflow_exact, 1e-12 * inflow_exact);
+  EXPECT_NEAR(ledger.lateral_m3, f.lateral_volume_m3, 1e-12 * f.lateral_volume_m3);
+  EXPECT_NEAR(handed_on_m3, ledger.outflow_m3, 1e-12 * ledger.outflow_m3);
+  const RunDiagnostics d = reach.diagnostics();
+  EXPECT_LE(std::abs(ledger.balance_error_m3()), 1e-10 * ledger.inflow_m3);
+  EXPECT_LE(d.mass_balance_error_rel, 1e-10);
+  RecordProperty("relative_balance_error", std::to_string(d.mass_balance_error_rel));
+  std::printf("[%s] %s\n", std::string(to_string(GetParam())).c_str(), d.brief_report().c_str());
+}
+
+TEST_P(VolumeBalance, DryReachWithNoInflowStaysExactlyDry) {
+  KinematicReach<PowerLawFlux> reach({"dry-gulch", 500.0, 50}, wide_manning(5, 0.04, 5e-3),
+                                     options_for(GetParam()));
+  const AdvanceResult r =
+      reach.advance(0.0, 3600.0, PiecewiseLinearSeries::constant(0.0), LateralInflow::none());
+  ASSERT_TRUE(r.ok());
+  for (double a : reach.cell_area_m2()) EXPECT_EQ(a, 0.0);
+  EXPECT_EQ(r.outflow_m3, 0.0);
+  EXPECT_EQ(reach.ledger().balance_error_m3(), 0.0);
+}
+
+// Steady uniform flow: Q_x = 0 means Q = inflow everywhere and A = Q^-1(inflow), the normal
+// depth of Manning's equation (Chow 1959, Open-Channel Hydraulics, ch. 5).
+TEST_P(VolumeBalance, SteadyUniformFlowIsReproducedExactly) {
+  const PowerLawFlux law = wide_manning(20, 0.035, 1e-3);
+  KinematicReach<PowerLawFlux> reach({"steady", 2000.0, 100}, law, options_for(GetParam()));
+  reach.set_uniform_discharge(7.5);
+  const AdvanceResult r =
+      reach.advance(0.0, 1800.0, PiecewiseLinearSeries::constant(7.5), LateralInflow::none());
+  const double normal_area = std::pow(7.5 / law.alpha(), 0.6);
+  for (double a : reach.cell_area_m2()) EXPECT_NEAR(a, normal_area, 1e-12 * normal_area);
+  EXPECT_NEAR(r.mean_outflow_m3s, 7.5, 1e-12 * 7.5);
+}
+
+TEST_P(VolumeBalance, ApproachesSteadyStateFromDryBed) {
+  const PowerLawFlux law = wide_manning(20, 0.035, 1e-3);
+  KinematicReach<PowerLawFlux> reach({"filling", 2000.0, 100}, law, options_for(GetParam()));
+  const auto q_in = PiecewiseLinearSeries::constant(7.5);
+  const auto q_lat = LateralInflow::uniform(2000.0, PiecewiseLinearSeries::constant(5e-4));
+  AdvanceResult r;
+  for (double t = 0.0; t < 14400.0; t += 600.0) r = reach.advance(t, t + 600.0, q_in, q_lat);
+  // Steady state with lateral inflow: Q(x) = Q_in + q_lat x, so Q_out = 7.5 + 1.0.
+  EXPECT_NEAR(r.mean_outflow_m3s, 8.5, 1e-9 * 8.5);
+  const double a_out = std::pow(8.5 / law.alpha(), 0.6);
+  EXPECT_NEAR(reach.cell_area_m2().back(), std::pow((8.5 - 0.5 * 20.0 * 5e-4) / law.alpha(), 0.6),
+              0.002 * a_out);  // cell-average flux sits at the cell centre: O(dx) off the outlet
+}
+
+INSTANTIATE_TEST_SUITE_P(AllSchemes, VolumeBalance, ::testing::ValuesIn(kAllSchemes),
+                         [](const auto& param_info) {
+                           std::string s(to_string(param_info.param));
+                           std::replace(s.begin(), s.end(), '-', '_');
+                           return s;
+                         });
+
+// Backward Euler upwind is unconditionally stable and positive (LeVeque 2002, sec. 8.4 for
+// the linear case); a step onto a dry bed at Courant ~10 must stay non-negative and exact.
+TEST(ImplicitUpwind, CourantTenOnDryBedStaysNonNegativeAndConservative) {
+  RoutingOptions opt = options_for(SchemeKind::kImplicitUpwind);
+  opt.implicit_courant = 10.0;
+  KinematicReach<PowerLawFlux> reach({"flash", 1000.0, 200}, wide_manning(10, 0.03, 4e-3), opt);
+  const PiecewiseLinearSeries flash({0.0, 60.0, 900.0}, {0.0, 40.0, 0.0});
+  for (double t = 0.0; t < 1800.0; t += 120.0) {
+    const AdvanceResult r = reach.advance(t, t + 120.0, flash, LateralInflow::none());
+    ASSERT_TRUE(r.ok()) << r.message;
+    for (double a : reach.cell_area_m2()) ASSERT_GE(a, 0.0);
+  }
+  const RunDiagnostics d = reach.diagnostics();
+  EXPECT_GT(d.max_courant, 8.0);
+  EXPECT_LE(d.mass_balance_error_rel, 1e-10);
+  RecordProperty("max_courant", std::to_string(d.max_courant));
+  std::printf("%s\n", d.brief_report().c_str());
+}
+
+TEST(KinematicReach, PerCellLawsRouteSteadyFlowThroughASlopeBreak) {
+  // Upper half steep, lower half mild: steady Q gives each cell its own normal area.
+  std::vector<PowerLawFlux> laws(40, wide_manning(15, 0.03, 4e-3));
+  std::fill(laws.begin() + 20, laws.end(), wide_manning(15, 0.03, 5e-4));
+  KinematicReach<PowerLawFlux> reach({"slope-break", 800.0, 40}, laws);
+  const auto q_in = PiecewiseLinearSeries::constant(6.0);
+  for (double t = 0.0; t < 7200.0; t += 900.0) (void)reach.advance(t, t + 900.0, q_in, LateralInflow::none());
+  EXPECT_NEAR(reach.cell_area_m2()[5], laws[5].area_for_discharge_m2(6.0), 1e-9);
+  EXPECT_NEAR(reach.cell_area_m2()[35], laws[35].area_for_discharge_m2(6.0), 1e-9);
+  EXPECT_LT(reach.memory_bytes_per_cell(), 64.0 + sizeof(PowerLawFlux));
+}
+
+TEST(KinematicReach, StateMemoryPerCellIsUnder64Bytes) {
+  for (SchemeKind k : kAllSchemes) {
+    KinematicReach<PowerLawFlux> reach({"m", 1000.0, 1000}, wide_manning(10, 0.03, 1e-3),
+                                       options_for(k));
+    const auto q = PiecewiseLinearSeries::constant(1.0);
+    (void)reach.advance(0.0, 10.0, q, LateralInflow::uniform(1000.0, PiecewiseLinearSeries::constant(1e-4)));
+    EXPECT_LT(reach.memory_bytes_per_cell(), 64.0) << to_string(k);
+    RecordProperty(std::string(to_string(k)) + "_bytes_per_cell",
+                   std::to_string(reach.memory_bytes_per_cell()));
+  }
+}
+
+}  // namespace
+}  // namespace freshet::routing
