@@ -148,6 +148,7 @@ double Culvert::critical_depth_m(double q) const {
   // Critical discharge Q_c(y) = A sqrt(g A / T) increases from 0 to infinity on (0, D).
   auto critical_q = [&](double y) {
     const double a = flow_area_m2(y), t = top_width_m(y);
+    if (!(a > 0.0)) return 0.0;
     return t > 0.0 ? a * std::sqrt(kG * a / t) : kInf;
   };
   const double y_top = d * (1.0 - 1e-9);

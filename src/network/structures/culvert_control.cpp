@@ -70,8 +70,8 @@ double Culvert::full_flow_depth_m(double barrel_q, double tailwater_depth_m) con
 }
 
 // Part-full estimate (freshet's own simplification, no source): with the outlet not
-// submerged, the depth at the inlet is the larger of normal depth and the tailwater level
-// carried back level, plus the entrance loss and velocity head at that depth. Infinite when
+// submerged, the depth at the inlet is the largest of normal depth, critical depth and the
+// tailwater level carried back level, plus the entrance loss and velocity head there. Infinite when
 // normal depth does not exist (the barrel must flow full) or the outlet is submerged.
 double Culvert::part_full_depth_m(double barrel_q, double tailwater_depth_m) const {
   const double d = spec_.rise_m;
@@ -79,7 +79,9 @@ double Culvert::part_full_depth_m(double barrel_q, double tailwater_depth_m) con
   const double yn = normal_depth_m(barrel_q);
   if (!std::isfinite(yn)) return kInf;
   const double fall = spec_.inlet_invert_stage_m - spec_.outlet_invert_stage_m;
-  const double y_in = std::min(d, std::max(yn, tailwater_depth_m - fall));
+  // Water entering from a pool passes through critical depth at least (steep barrels).
+  const double y_floor = std::max(critical_depth_m(barrel_q), tailwater_depth_m - fall);
+  const double y_in = std::min(d, std::max(yn, y_floor));
   const double v = barrel_q / flow_area_m2(y_in);
   return y_in + (1.0 + coef_.entrance_loss) * v * v / (2.0 * kG);
 }

@@ -35,11 +35,41 @@ void CulvertCrossing::build_rating(double top_stage_m, int points) {
                                 [&](double h) { return h < invert || h > top_stage_m; }),
                  stage_m_.end());
   stage_m_.erase(std::unique(stage_m_.begin(), stage_m_.end()), stage_m_.end());
-  double previous = 0.0;
-  for (double h : stage_m_) {
-    // max() removes round-off wiggles of the root finder; the exact relation is monotone.
-    previous = std::max(previous, culvert_.discharge_for_headwater_m3s(h, tailwater_m_));
-    barrel_m3s_.push_back(previous);
+  for (double h : stage_m_) barrel_m3s_.push_back(direct_discharge(h));
+  refine_rating();
+  // max() removes round-off wiggles of the root finder; the exact relation is monotone.
+  for (std::size_t k = 1; k < barrel_m3s_.size(); ++k)
+    barrel_m3s_[k] = std::max(barrel_m3s_[k], barrel_m3s_[k - 1]);
+}
+
+double CulvertCrossing::direct_discharge(double stage_m) const {
+  return culvert_.discharge_for_headwater_m3s(stage_m, tailwater_m_);
+}
+
+// Where linear interpolation misses the direct inversion at an interval's midpoint by more
+// than kRatingTolerance (relative), the midpoint is added; up to kMaxRefinements passes.
+// Kinks in the rating (regime changes, the control switch) get dense nodes this way.
+void CulvertCrossing::refine_rating() {
+  constexpr double kRatingTolerance = 5e-4;
+  constexpr int kMaxRefinements = 8;
+  for (int pass = 0; pass < kMaxRefinements; ++pass) {
+    std::vector<double> h{stage_m_.front()}, q{barrel_m3s_.front()};
+    bool added = false;
+    for (std::size_t k = 0; k + 1 < stage_m_.size(); ++k) {
+      const double mid = 0.5 * (stage_m_[k] + stage_m_[k + 1]);
+      const double q_mid = direct_discharge(mid);
+      const double q_lin = 0.5 * (barrel_m3s_[k] + barrel_m3s_[k + 1]);
+      if (std::abs(q_lin - q_mid) > kRatingTolerance * q_mid) {
+        h.push_back(mid);
+        q.push_back(q_mid);
+        added = true;
+      }
+      h.push_back(stage_m_[k + 1]);
+      q.push_back(barrel_m3s_[k + 1]);
+    }
+    stage_m_ = std::move(h);
+    barrel_m3s_ = std::move(q);
+    if (!added) return;
   }
 }
 

@@ -25,10 +25,10 @@
 namespace freshet::network::structures {
 
 // Theoretical broad-crested weir coefficient with critical depth on the crest:
-// Q = (2/3)^(3/2) sqrt(g) L H^(3/2), i.e. C_w = 1.705 m^0.5/s (Henderson 1966, sec. 6.5,
+// Q = (2/3)^(3/2) sqrt(g) L H^(3/2), i.e. C_w = 1.7046 m^0.5/s (Henderson 1966, sec. 6.5,
 // section number from memory; the formula follows from critical flow, q = sqrt(g yc^3),
 // yc = 2H/3).
-inline constexpr double kBroadCrestedTheoreticalCoefficientSi = 1.7049;  // (2/3)^1.5 sqrt(g)
+inline constexpr double kBroadCrestedTheoreticalCoefficientSi = 1.70460;  // (2/3)^1.5 sqrt(9.80665)
 // Sharp-crested rectangular weir, Francis (1883) coefficient 3.33 ft^0.5/s = 1.84 m^0.5/s
 // (from memory). Equivalent to C_w = (2/3) C_d sqrt(2g) with C_d = 0.62.
 inline constexpr double kSharpCrestedWeirCoefficientSi = 1.84;
