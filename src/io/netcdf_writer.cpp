@@ -210,9 +210,9 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   var.setChunking(nc::NcVar::nc_CHUNKED, chunks);
   var.setCompression(true, options.deflate_level > 0, options.deflate_level);
   var.setFill(true, kFillFloat);
-  // A small per-variable chunk cache keeps memory flat: filled chunks are written out and
-  // evicted instead of accumulating in the 16 MiB default cache.
-  var.setChunkCache(std::max<std::size_t>(4 * length * width * sizeof(float), 1 << 20), 31, 1.0f);
+  // A chunk cache of two chunks keeps memory flat: filled chunks are written out and evicted
+  // instead of accumulating in the 16 MiB default cache (ECOSYSTEM.md sec. 2.3, item 9).
+  var.setChunkCache(2 * length * width * sizeof(float), 31, 1.0f);
   std::string long_name(s.long_name);
   if (v == OutputVariable::stage) {
     if (set.stage_datum.empty()) {
@@ -246,6 +246,7 @@ void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const Inst
   time_var = file->addVar("time", nc::ncDouble, time_dim);
   std::vector<size_t> time_chunks{1024};
   time_var.setChunking(nc::NcVar::nc_CHUNKED, time_chunks);
+  time_var.setChunkCache(2 * time_chunks[0] * sizeof(double), 31, 1.0f);
   time_var.putAtt("standard_name", "time");
   time_var.putAtt("long_name", "time");
   time_var.putAtt("units", "seconds since " + normalise_time_origin(m.time_origin));

@@ -1,0 +1,307 @@
+// CF NetCDF-4 writer: read back through netcdf-cxx4 and check values and the CF structural
+// rules for a timeSeries discrete sampling geometry.
+// Sources: CF Conventions 1.11 (2023), sec. 2.6.1 (Conventions), 3.1 (units), 4.4 (time units
+// "<unit> since <date>"), 5 (coordinates attribute names existing variables), 2.5.1
+// (_FillValue has the variable's type), ch. 9 sec. 9.1-9.6 and Appendix H.2 (featureType,
+// exactly one cf_role timeseries_id, orthogonal layout, unlimited dimension leading).
+// Standard names allow-list: CF standard-name table v83 (2023-10-17), via ECOSYSTEM.md sec. 1.3.
+// UDUNITS strings: ECOSYSTEM.md sec. 1.6 (each checked with udunits2 2.2.28).
+#include "freshet/io/netcdf_writer.hpp"
+
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <netcdf>
+#include <set>
+
+#include "freshet/core/caution.hpp"
+#include "freshet/core/error.hpp"
+#include "temp_dir.hpp"
+
+namespace freshet::io {
+namespace {
+
+using ::testing::HasSubstr;
+using testing::TempDir;
+namespace nc = netCDF;
+
+const std::set<std::string> kAllowedStandardNames{
+    "time", "platform_name", "water_volume_transport_in_river_channel",
+    "water_surface_height_above_reference_datum", "lwe_precipitation_rate",
+    "projection_x_coordinate", "projection_y_coordinate"};
+const std::set<std::string> kAllowedUnits{"m3 s-1", "m", "m s-1", "mm h-1", "mm"};
+
+NetcdfRunMetadata metadata() {
+  NetcdfRunMetadata m;
+  m.title = "freshet test run, Alder Brook (invented basin)";
+  m.source = "freshet 0.1.0";
+  m.history = "2024-05-01T10:00:00Z freshet run alder.toml";
+  m.references = "kinematic wave: Lighthill and Whitham (1955)";
+  m.comment = "test output";
+  m.time_origin = "2000-01-01T00:00:00Z";
+  return m;
+}
+
+InstanceSet three_stations() {
+  InstanceSet s;
+  s.instances = {{"alder-1", "Alder Brook at Mill Lane", "alder", 0.0, 100.0, 200.0},
+                 {"alder-2", "Alder Brook, lower", "alder", 850.5, 400.0, 250.0},
+                 {"fen-out", "Fen outlet", "fen", 1200.0, 900.0, 90.0}};
+  return s;
+}
+
+double value(std::size_t v, std::size_t k, std::size_t i) {
+  return 0.5 + static_cast<double>(v) + 0.01 * static_cast<double>(k) +
+         0.001 * static_cast<double>(i);
+}
+
+std::string text_att(const nc::NcVar& var, const std::string& name) {
+  std::string s;
+  var.getAtt(name).getValues(s);
+  return s;
+}
+
+std::string text_att(const nc::NcFile& f, const std::string& name) {
+  std::string s;
+  f.getAtt(name).getValues(s);
+  return s;
+}
+
+std::vector<std::string> split_words(const std::string& s) {
+  std::vector<std::string> out;
+  std::istringstream in(s);
+  for (std::string w; in >> w;) out.push_back(w);
+  return out;
+}
+
+// The structural CF checks, usable on any file this writer produces.
+void expect_cf_timeseries(const nc::NcFile& f) {
+  EXPECT_EQ(text_att(f, "Conventions"), "CF-1.11, ACDD-1.3");
+  EXPECT_EQ(text_att(f, "featureType"), "timeSeries");
+  EXPECT_EQ(text_att(f, "caution"), std::string(kCautionText));
+  EXPECT_THAT(text_att(f, "comment"), HasSubstr(std::string(kCautionText)));
+  const auto vars = f.getVars();
+  int cf_roles = 0;
+  for (const auto& [name, var] : vars) {
+    const auto atts = var.getAtts();
+    if (atts.count("cf_role")) {
+      ++cf_roles;
+      EXPECT_EQ(text_att(var, "cf_role"), "timeseries_id");
+    }
+    if (atts.count("standard_name")) {
+      EXPECT_TRUE(kAllowedStandardNames.count(text_att(var, "standard_name"))) << name;
+    }
+    if (atts.count("_FillValue")) {
+      EXPECT_EQ(var.getAtt("_FillValue").getType().getId(), var.getType().getId()) << name;
+    }
+    if (var.getDimCount() == 2) {  // a data variable (time, instance)
+      EXPECT_EQ(var.getDim(0).getName(), "time") << name;
+      EXPECT_TRUE(var.getDim(0).isUnlimited()) << name;
+      ASSERT_TRUE(atts.count("coordinates")) << name;
+      for (const auto& c : split_words(text_att(var, "coordinates"))) {
+        EXPECT_FALSE(f.getVar(c).isNull()) << name << " names missing variable " << c;
+      }
+      EXPECT_TRUE(atts.count("long_name")) << name;
+      EXPECT_TRUE(atts.count("_FillValue")) << name;
+      EXPECT_TRUE(kAllowedUnits.count(text_att(var, "units"))) << name;
+    }
+  }
+  EXPECT_EQ(cf_roles, 1);
+  const auto time = f.getVar("time");
+  ASSERT_FALSE(time.isNull());
+  EXPECT_THAT(text_att(time, "units"), HasSubstr(" since "));
+  EXPECT_EQ(text_att(time, "calendar"), "proleptic_gregorian");
+  std::vector<double> t(time.getDim(0).getSize());
+  if (!t.empty()) time.getVar(t.data());
+  for (std::size_t k = 1; k < t.size(); ++k) EXPECT_LT(t[k - 1], t[k]);
+}
+
+TEST(NetcdfWriter, WritesRecordsThatReadBackWithCfStructure) {
+  TempDir dir;
+  const auto path = dir / "run.nc";
+  const std::vector<OutputVariable> vars{OutputVariable::discharge, OutputVariable::stage,
+                                         OutputVariable::depth, OutputVariable::velocity};
+  const std::size_t n = 3, records = 50;
+  {
+    NetcdfTimeSeriesWriter w(path);
+    w.begin(metadata(), three_stations(), vars);
+    std::vector<double> row(vars.size() * n);
+    for (std::size_t k = 0; k < records; ++k) {
+      for (std::size_t v = 0; v < vars.size(); ++v) {
+        for (std::size_t i = 0; i < n; ++i) row[v * n + i] = value(v, k, i);
+      }
+      if (k == 7) row[1] = std::nan("");  // discharge at alder-2 missing -> _FillValue
+      w.record(60.0 * static_cast<double>(k), row);
+    }
+    EXPECT_FALSE(std::filesystem::exists(path));  // only the partial file exists before commit
+    EXPECT_TRUE(std::filesystem::exists(w.partial_path()));
+    w.commit();
+    EXPECT_EQ(w.records_written(), records);
+  }
+  ASSERT_TRUE(std::filesystem::exists(path));
+  EXPECT_FALSE(std::filesystem::exists(dir / "run.nc.partial"));
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f(path.string(), nc::NcFile::read);
+  expect_cf_timeseries(f);
+  EXPECT_EQ(f.getDim("time").getSize(), records);
+  EXPECT_EQ(f.getDim("station").getSize(), n);
+  EXPECT_EQ(text_att(f.getVar("time"), "units"), "seconds since 2000-01-01 00:00:00");
+  EXPECT_EQ(text_att(f.getVar("discharge"), "standard_name"),
+            "water_volume_transport_in_river_channel");
+  EXPECT_EQ(text_att(f.getVar("discharge"), "units"), "m3 s-1");
+  EXPECT_EQ(text_att(f.getVar("discharge"), "coordinates"),
+            "station_id station_name reach_id chainage x y");
+  EXPECT_TRUE(f.getVar("stage").getAtts().count("standard_name") == 0);  // no datum given
+  for (std::size_t v = 0; v < vars.size(); ++v) {
+    std::vector<float> data(records * n);
+    f.getVar(std::string(to_string(vars[v]))).getVar(data.data());
+    for (std::size_t k = 0; k < records; ++k) {
+      for (std::size_t i = 0; i < n; ++i) {
+        const float expected = (v == 0 && k == 7 && i == 1) ? NC_FILL_FLOAT
+                                                            : static_cast<float>(value(v, k, i));
+        EXPECT_EQ(data[k * n + i], expected) << to_string(vars[v]) << " " << k << " " << i;
+      }
+    }
+  }
+  char* id = nullptr;
+  f.getVar("station_id").getVar(std::vector<size_t>{1}, &id);
+  EXPECT_STREQ(id, "alder-2");
+  nc_free_string(1, &id);
+  double chainage = 0.0;
+  f.getVar("chainage").getVar(std::vector<size_t>{1}, &chainage);
+  EXPECT_EQ(chainage, 850.5);
+}
+
+TEST(NetcdfWriter, DataAreChunkedAlongTimeAndDeflated) {
+  TempDir dir;
+  {
+    NetcdfTimeSeriesWriter w(dir / "c.nc");
+    w.begin(metadata(), three_stations(), {OutputVariable::discharge});
+    w.record(0.0, std::vector<double>{1.0, 2.0, 3.0});
+    w.commit();
+  }
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f((dir / "c.nc").string(), nc::NcFile::read);
+  nc::NcVar::ChunkMode mode;
+  std::vector<size_t> chunks;
+  f.getVar("discharge").getChunkingParameters(mode, chunks);
+  EXPECT_EQ(mode, nc::NcVar::nc_CHUNKED);
+  ASSERT_EQ(chunks.size(), 2u);
+  EXPECT_GT(chunks[0], 1u);
+  EXPECT_EQ(chunks[1], 3u);
+  bool shuffle = false, deflate = false;
+  int level = 0;
+  f.getVar("discharge").getCompressionParameters(shuffle, deflate, level);
+  EXPECT_TRUE(deflate);
+  EXPECT_EQ(level, 4);
+}
+
+TEST(NetcdfWriter, SubcatchmentFileConvertsRainToMillimetresPerHour) {
+  TempDir dir;
+  InstanceSet sub;
+  sub.kind = "subcatchment";
+  sub.instances = {{"s1", "North slope", "", NAN, NAN, NAN}};
+  {
+    NetcdfTimeSeriesWriter w(dir / "sub.nc");
+    w.begin(metadata(), sub, {OutputVariable::rainfall_intensity, OutputVariable::rainfall_excess});
+    // 36 mm/h = 1e-5 m/s; 18 mm/h = 5e-6 m/s
+    w.record(0.0, std::vector<double>{1e-5, 5e-6});
+    w.commit();
+  }
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f((dir / "sub.nc").string(), nc::NcFile::read);
+  expect_cf_timeseries(f);
+  EXPECT_FALSE(f.getVar("subcatchment_id").isNull());
+  EXPECT_TRUE(f.getVar("reach_id").isNull());
+  EXPECT_TRUE(f.getVar("x").isNull());
+  EXPECT_EQ(text_att(f.getVar("rainfall_intensity"), "standard_name"), "lwe_precipitation_rate");
+  EXPECT_EQ(text_att(f.getVar("rainfall_intensity"), "units"), "mm h-1");
+  float rain = 0.0f, excess = 0.0f;
+  f.getVar("rainfall_intensity").getVar(std::vector<size_t>{0, 0}, &rain);
+  f.getVar("rainfall_excess").getVar(std::vector<size_t>{0, 0}, &excess);
+  EXPECT_FLOAT_EQ(rain, 36.0f);
+  EXPECT_FLOAT_EQ(excess, 18.0f);
+}
+
+TEST(NetcdfWriter, StageWithAKnownDatumGetsTheStandardNameAndCrsGetsAGridMapping) {
+  TempDir dir;
+  InstanceSet s = three_stations();
+  s.stage_datum = "local survey datum LSD-1 (invented)";
+  s.crs_wkt = "LOCAL_CS[\"invented site grid\"]";
+  {
+    NetcdfTimeSeriesWriter w(dir / "d.nc");
+    w.begin(metadata(), s, {OutputVariable::stage});
+    w.record(0.0, std::vector<double>{1.0, 2.0, 3.0});
+    w.commit();
+  }
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f((dir / "d.nc").string(), nc::NcFile::read);
+  expect_cf_timeseries(f);
+  EXPECT_EQ(text_att(f.getVar("stage"), "standard_name"),
+            "water_surface_height_above_reference_datum");
+  EXPECT_EQ(text_att(f.getVar("stage"), "grid_mapping"), "crs");
+  EXPECT_EQ(text_att(f.getVar("x"), "standard_name"), "projection_x_coordinate");
+  EXPECT_FALSE(f.getVar("crs").isNull());
+}
+
+TEST(NetcdfWriter, UncommittedWriterLeavesNoFile) {
+  TempDir dir;
+  {
+    NetcdfTimeSeriesWriter w(dir / "lost.nc");
+    w.begin(metadata(), three_stations(), {OutputVariable::discharge});
+    w.record(0.0, std::vector<double>{1.0, 2.0, 3.0});
+    EXPECT_TRUE(std::filesystem::exists(dir / "lost.nc.partial"));
+  }
+  EXPECT_FALSE(std::filesystem::exists(dir / "lost.nc"));
+  EXPECT_FALSE(std::filesystem::exists(dir / "lost.nc.partial"));
+}
+
+TEST(NetcdfWriter, ExistingFileIsNotOverwrittenWithoutTheFlag) {
+  TempDir dir;
+  testing::write_text(dir / "old.nc", "precious");
+  EXPECT_THROW(NetcdfTimeSeriesWriter(dir / "old.nc"), IoError);
+  EXPECT_EQ(testing::read_text(dir / "old.nc"), "precious");
+  NetcdfWriterOptions o;
+  o.overwrite = Overwrite::yes;
+  NetcdfTimeSeriesWriter w(dir / "old.nc", o);
+  w.begin(metadata(), three_stations(), {OutputVariable::discharge});
+  w.commit();
+  EXPECT_NE(testing::read_text(dir / "old.nc"), "precious");
+}
+
+TEST(NetcdfWriter, BadMetadataListsEveryProblem) {
+  TempDir dir;
+  NetcdfRunMetadata m = metadata();
+  m.time_origin = "1st of May";
+  m.source.clear();
+  InstanceSet s = three_stations();
+  s.instances[2].id = "alder-1";
+  NetcdfTimeSeriesWriter w(dir / "bad.nc");
+  try {
+    w.begin(m, s, {OutputVariable::discharge});
+    FAIL() << "expected InputError";
+  } catch (const InputError& e) {
+    ASSERT_EQ(e.problems().size(), 3u);
+    EXPECT_THAT(e.what(), HasSubstr("field 'source'"));
+    EXPECT_THAT(e.what(), HasSubstr("field 'time_origin' = '1st of May'"));
+    EXPECT_THAT(e.what(), HasSubstr("field 'station[3].id' = 'alder-1': duplicate id"));
+  }
+  EXPECT_FALSE(std::filesystem::exists(dir / "bad.nc.partial"));
+}
+
+TEST(NetcdfWriterDeathTest, NonIncreasingTimeIsAProgrammerError) {
+  GTEST_FLAG_SET(death_test_style, "threadsafe");
+  TempDir dir;
+  EXPECT_DEATH(
+      {
+        NetcdfTimeSeriesWriter w(dir / "t.nc");
+        w.begin(metadata(), three_stations(), {OutputVariable::discharge});
+        w.record(60.0, std::vector<double>{1.0, 2.0, 3.0});
+        w.record(60.0, std::vector<double>{1.0, 2.0, 3.0});
+      },
+      "strictly increasing");
+}
+
+}  // namespace
+}  // namespace freshet::io
