@@ -352,7 +352,9 @@ std::string format_series_csv(const SeriesTable& table, const CsvWriteOptions& o
                                                           : "freshet hyetograph")
                                        : options.title) + "\n";
   if (!options.time_base.empty()) out += "# time base: " + options.time_base + "\n";
-  for (const auto& line : table.metadata) out += "# " + line + "\n";
+  for (const auto& line : table.metadata) {
+    if (line != kCautionText) out += "# " + line + "\n";  // written once, below
+  }
   out += "# " + std::string(kCautionText) + "\n";
   out += std::string(to_string(options.time_unit)) + "," + std::string(to_string(value_unit)) +
          "\n";

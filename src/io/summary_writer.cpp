@@ -23,8 +23,9 @@ std::string fixed(double v, int decimals) {
   return buf;
 }
 
-// Columns padded to their widest cell; the first column left-aligned, the others right-aligned.
-std::string aligned(const std::vector<std::vector<std::string>>& rows) {
+// Columns padded to their widest cell; the first `text_columns` left-aligned (names), the
+// others right-aligned (numbers).
+std::string aligned(const std::vector<std::vector<std::string>>& rows, std::size_t text_columns) {
   std::vector<std::size_t> width;
   for (const auto& r : rows) {
     width.resize(std::max(width.size(), r.size()), 0);
@@ -35,7 +36,8 @@ std::string aligned(const std::vector<std::vector<std::string>>& rows) {
     std::string line;
     for (std::size_t c = 0; c < r.size(); ++c) {
       const std::string pad(width[c] - r[c].size(), ' ');
-      line += (c == 0 ? r[c] + pad : "  " + pad + r[c]);
+      const std::string sep = c == 0 ? "" : "  ";
+      line += sep + (c < text_columns ? r[c] + pad : pad + r[c]);
     }
     while (!line.empty() && line.back() == ' ') line.pop_back();
     out += line + "\n";
@@ -51,7 +53,7 @@ std::string station_table(const RunSummary& s) {
                     fixed(r.peak_time_s / 3600.0, 3), fixed(r.peak_stage_m, 3),
                     fixed(r.runoff_volume_m3, 1), fixed(r.centroid_lag_s / 3600.0, 3)});
   }
-  return aligned(rows);
+  return aligned(rows, 2);
 }
 
 std::string pair_table(const RunSummary& s) {
@@ -63,7 +65,24 @@ std::string pair_table(const RunSummary& s) {
                     fixed(r.peak_attenuation_percent, 2), fixed(r.peak_time_shift_s / 60.0, 2),
                     fixed(r.volume_change_m3, 1)});
   }
-  return aligned(rows);
+  return aligned(rows, 2);
+}
+
+// Breaks text at spaces into lines of at most `width` characters (console output).
+std::string wrapped(std::string_view text, std::size_t width) {
+  std::string out, line;
+  std::size_t start = 0;
+  while (start < text.size()) {
+    const std::size_t end = std::min(text.find(' ', start), text.size());
+    const std::string_view word = text.substr(start, end - start);
+    if (!line.empty() && line.size() + 1 + word.size() > width) {
+      out += line + "\n";
+      line.clear();
+    }
+    line += (line.empty() ? "" : " ") + std::string(word);
+    start = end + 1;
+  }
+  return out + line + "\n";
 }
 
 std::string check_lines(const RunSummary& s) {
@@ -79,7 +98,7 @@ std::string check_lines(const RunSummary& s) {
                       fixed(r.storage_change_m3, 3), fixed(r.error_m3, 6),
                       std::isnan(r.relative_error) ? "-" : rel});
     }
-    out += "\nMass balance\n" + aligned(rows);
+    out += "\nMass balance\n" + aligned(rows, 1);
   }
   if (!s.shocks.empty()) out += "\nShocks\n";
   for (const auto& r : s.shocks) {
@@ -215,7 +234,7 @@ std::string format_summary_table(const RunSummary& summary) {
   out += "Stations\n" + station_table(summary);
   if (!summary.pairs.empty()) out += "\nStation pairs\n" + pair_table(summary);
   out += check_lines(summary);
-  return out + "\n" + std::string(kCautionText) + "\n";
+  return out + "\n" + wrapped(kCautionText, 96);
 }
 
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
