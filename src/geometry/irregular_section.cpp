@@ -82,6 +82,12 @@ IrregularSection::IrregularSection(const IrregularSpec& spec, std::string elemen
   spec.validate(problems);
   problems.throw_if_any();
 
+  // Elevations are stored relative to the thalweg, so that the water level is the depth itself
+  // and shallow depths keep full relative precision.
+  const double thalweg = std::min_element(spec.points.begin(), spec.points.end(),
+                                          [](const auto& a, const auto& b) {
+                                            return a.elevation_m < b.elevation_m;
+                                          })->elevation_m;
   const double banks[2] = {spec.left_bank_station_m, spec.right_bank_station_m};
   auto subsection_of = [&](double x0, double x1) {
     const double mid = 0.5 * (x0 + x1);
@@ -92,8 +98,8 @@ IrregularSection::IrregularSection(const IrregularSpec& spec, std::string elemen
     segments_.push_back({x0, y0, x1, y1, subsection_of(x0, x1)});
   };
   for (std::size_t i = 1; i < spec.points.size(); ++i) {
-    double x0 = spec.points[i - 1].station_m, y0 = spec.points[i - 1].elevation_m;
-    const double x1 = spec.points[i].station_m, y1 = spec.points[i].elevation_m;
+    double x0 = spec.points[i - 1].station_m, y0 = spec.points[i - 1].elevation_m - thalweg;
+    const double x1 = spec.points[i].station_m, y1 = spec.points[i].elevation_m - thalweg;
     for (double xb : banks) {  // split at a bank station strictly inside the segment
       if (xb > x0 && xb < x1) {
         const double yb = y0 + (y1 - y0) * (xb - x0) / (x1 - x0);
@@ -105,19 +111,16 @@ IrregularSection::IrregularSection(const IrregularSpec& spec, std::string elemen
     push(x0, y0, x1, y1);
   }
 
-  auto [lo, hi] = std::minmax_element(spec.points.begin(), spec.points.end(),
-                                      [](const auto& a, const auto& b) {
-                                        return a.elevation_m < b.elevation_m;
-                                      });
-  thalweg_m_ = lo->elevation_m;
-  relief_m_ = hi->elevation_m - lo->elevation_m;
-  left_end_elevation_m_ = spec.points.front().elevation_m;
-  right_end_elevation_m_ = spec.points.back().elevation_m;
+  thalweg_m_ = thalweg;
+  relief_m_ = 0.0;
+  for (const auto& p : spec.points) {
+    relief_m_ = std::max(relief_m_, p.elevation_m - thalweg);
+    if (p.elevation_m > thalweg) breakpoints_m_.push_back(p.elevation_m - thalweg);
+  }
+  left_end_elevation_m_ = spec.points.front().elevation_m - thalweg;
+  right_end_elevation_m_ = spec.points.back().elevation_m - thalweg;
   left_wall_subsection_ = segments_.front().subsection;
   right_wall_subsection_ = segments_.back().subsection;
-  for (const auto& p : spec.points) {
-    if (p.elevation_m > thalweg_m_) breakpoints_m_.push_back(p.elevation_m - thalweg_m_);
-  }
   std::sort(breakpoints_m_.begin(), breakpoints_m_.end());
   breakpoints_m_.erase(std::unique(breakpoints_m_.begin(), breakpoints_m_.end()),
                        breakpoints_m_.end());
@@ -128,7 +131,7 @@ IrregularSection::IrregularSection(const IrregularSpec& spec, std::string elemen
 IrregularSection::Hydraulics IrregularSection::evaluate(double h, Limit limit) const noexcept {
   Hydraulics out;
   if (h < 0.0 || (h == 0.0 && limit == Limit::from_below)) return out;
-  const double eta = thalweg_m_ + h;
+  const double eta = h;  // water level above the thalweg
   const bool above = limit == Limit::from_above;
   for (const auto& s : segments_) {
     const double y_low = std::min(s.y0, s.y1), y_high = std::max(s.y0, s.y1);

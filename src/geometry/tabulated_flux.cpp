@@ -1,6 +1,7 @@
 // TabulatedFlux: Q(A) on a monotone cubic Hermite table in (ln A, ln Q), slopes limited after
 // Fritsch & Carlson (1980), "Monotone piecewise cubic interpolation", SIAM J. Numer. Anal.
-// 17(2), 238-246. Hermite basis: Burden & Faires, Numerical Analysis, sec. 3.4.
+// 17(2), 238-246; Hermite basis as in Burden & Faires, Numerical Analysis, sec. 3.5. The table
+// is refined by halving intervals whose midpoint misses the exact law by more than a tolerance.
 #include <algorithm>
 #include <cmath>
 
@@ -16,16 +17,40 @@ void TableOptions::validate(ProblemList& problems) const {
                    "bottom_depth_ratio", bottom_depth_ratio, "must be in (0, 0.1]");
   problems.require(nodes_per_decade >= 4 && nodes_per_decade <= 10000, "nodes_per_decade",
                    nodes_per_decade, "must be in [4, 10000]");
+  problems.require_positive("discharge_tolerance", discharge_tolerance);
+  problems.require_positive("celerity_tolerance", celerity_tolerance);
+  problems.require(max_nodes >= 16, "max_nodes", max_nodes, "must be >= 16");
 }
 
 namespace {
 
+using Data = TabulatedFlux::Data;
+
+// The exact law at one depth: ln A, ln Q and d ln Q / d ln A from each side.
+struct Sample {
+  double depth_m, log_area, log_q, slope_below, slope_above;
+};
+
+// d ln Q / d ln A = (dK/dh) A / (T K).
+double log_slope(double dk_dh, double area, double width, double k) {
+  return (width > 0.0 && k > 0.0) ? dk_dh * area / (width * k) : 0.0;
+}
+
+Sample sample(const CrossSection& s, double sqrt_slope, double h) {
+  const double a = s.area_m2(h), k = s.conveyance_m3s(h), w = s.top_width_m(h);
+  return {h, std::log(a), std::log(sqrt_slope * k), log_slope(s.conveyance_slope_m2s(h), a, w, k),
+          log_slope(s.conveyance_slope_above_m2s(h), a, w, k)};
+}
+
+double top_depth(const CrossSection& section, const TableOptions& o) {
+  if (std::isfinite(section.capacity_depth_m())) return section.capacity_depth_m();
+  return o.top_depth_m > 0.0 ? o.top_depth_m : 3.0 * section.depth_scale_m();
+}
+
 // Geometric depths from bottom to top, plus every corner of the geometry in between; a
 // geometric node that nearly coincides with a corner is dropped so intervals stay well shaped.
-std::vector<double> table_depths(const CrossSection& section, const TableOptions& o) {
-  const bool closed = std::isfinite(section.capacity_depth_m());
-  const double top = closed ? section.capacity_depth_m()
-                            : (o.top_depth_m > 0.0 ? o.top_depth_m : 3.0 * section.depth_scale_m());
+std::vector<double> initial_depths(const CrossSection& section, const TableOptions& o) {
+  const double top = top_depth(section, o);
   const double bottom = o.bottom_depth_ratio * top;
   const int count = std::max(
       2, static_cast<int>(std::ceil(std::log10(top / bottom) * o.nodes_per_decade)));
@@ -46,11 +71,6 @@ std::vector<double> table_depths(const CrossSection& section, const TableOptions
   return depths;
 }
 
-// d ln Q / d ln A = (dK/dh) A / (T K).
-double log_slope(double dk_dh, double area, double width, double k) {
-  return (width > 0.0 && k > 0.0) ? dk_dh * area / (width * k) : 0.0;
-}
-
 // Fritsch-Carlson: with secant delta, slopes m0, m1 give a monotone cubic when both are >= 0
 // and (m0/delta)^2 + (m1/delta)^2 <= 9; scale them onto that circle otherwise.
 void limit_slopes(double delta, double& m0, double& m1) {
@@ -68,65 +88,95 @@ void limit_slopes(double delta, double& m0, double& m1) {
   }
 }
 
+// Nodes from samples: running maximum of ln Q, limited interval slopes, end behaviour.
+std::shared_ptr<const Data> assemble(const std::vector<Sample>& samples, bool closed) {
+  auto d = std::make_shared<Data>();
+  for (const Sample& s : samples) {
+    d->log_area.push_back(s.log_area);
+    d->log_q.push_back(s.log_q);
+  }
+  for (std::size_t j = 0; j + 1 < samples.size(); ++j) {
+    if (d->log_q[j + 1] < d->log_q[j]) {
+      d->log_q[j + 1] = d->log_q[j];
+      ++d->monotone_corrections;
+    }
+    double m0 = samples[j].slope_above;
+    // dK/dh = 0 at a conduit's capacity depth, exactly.
+    double m1 = (closed && j + 2 == samples.size()) ? 0.0 : samples[j + 1].slope_below;
+    limit_slopes((d->log_q[j + 1] - d->log_q[j]) / (d->log_area[j + 1] - d->log_area[j]), m0, m1);
+    d->slope_start.push_back(m0);
+    d->slope_end.push_back(m1);
+  }
+  d->exponent_below = d->slope_start.front();
+  d->exponent_above = closed ? 0.0 : d->slope_end.back();
+  if (closed) {
+    d->capacity_area_m2 = std::exp(d->log_area.back());
+    d->max_discharge_m3s = std::exp(d->log_q.back());
+  }
+  return d;
+}
+
+// Halves every interval whose midpoint misses the exact law; false when none does. Intervals
+// where the exact Q falls (replaced by the running maximum) are left alone.
+bool refine(const CrossSection& s, double sqrt_slope, const TabulatedFlux& table,
+            const TableOptions& o, std::vector<Sample>& samples) {
+  std::vector<Sample> added;
+  for (std::size_t j = 0; j + 1 < samples.size(); ++j) {
+    const double h0 = samples[j].depth_m, h1 = samples[j + 1].depth_m;
+    if (h1 - h0 <= 1e-9 * h1) continue;
+    const double h = 0.5 * (h0 + h1), a = s.area_m2(h), t = s.top_width_m(h);
+    const double q = sqrt_slope * s.conveyance_m3s(h);
+    const double c = t > 0.0 ? sqrt_slope * s.conveyance_slope_m2s(h) / t : 0.0;
+    if (c < 0.0 || q < table.discharge_m3s(std::exp(samples[j].log_area))) continue;
+    const bool q_off = std::abs(table.discharge_m3s(a) / q - 1.0) > o.discharge_tolerance;
+    const bool c_off = std::abs(table.celerity_m_s(a) - c) > o.celerity_tolerance * q / a;
+    if (q_off || c_off) added.push_back(sample(s, sqrt_slope, h));
+  }
+  if (added.empty()) return false;
+  samples.insert(samples.end(), added.begin(), added.end());
+  std::sort(samples.begin(), samples.end(),
+            [](const Sample& x, const Sample& y) { return x.depth_m < y.depth_m; });
+  return true;
+}
+
 }  // namespace
 
 TabulatedFlux TabulatedFlux::from_section(const CrossSection& section, double bed_slope,
                                           const TableOptions& options) {
-  const std::vector<double> depths = table_depths(section, options);
-  const std::size_t n = depths.size();
-  const double sqrt_s = std::sqrt(bed_slope);
-  TabulatedFlux t;
-  std::vector<double> slope_below(n), slope_above(n);
-  for (std::size_t j = 0; j < n; ++j) {
-    const double h = depths[j];
-    const double a = section.area_m2(h), k = section.conveyance_m3s(h);
-    const double w = section.top_width_m(h);
-    t.log_area_.push_back(std::log(a));
-    t.log_q_.push_back(std::log(sqrt_s * k));
-    slope_below[j] = log_slope(section.conveyance_slope_m2s(h), a, w, k);
-    slope_above[j] = log_slope(section.conveyance_slope_above_m2s(h), a, w, k);
-  }
+  const double sqrt_slope = std::sqrt(bed_slope);
   const bool closed = std::isfinite(section.capacity_depth_m());
-  if (closed) slope_below[n - 1] = 0.0;  // dK/dh = 0 at the capacity depth, exactly
-
-  for (std::size_t j = 0; j + 1 < n; ++j) {
-    if (t.log_q_[j + 1] < t.log_q_[j]) {
-      t.log_q_[j + 1] = t.log_q_[j];  // running maximum keeps Q non-decreasing
-      ++t.monotone_corrections_;
-    }
-    double m0 = slope_above[j], m1 = slope_below[j + 1];
-    limit_slopes((t.log_q_[j + 1] - t.log_q_[j]) / (t.log_area_[j + 1] - t.log_area_[j]), m0, m1);
-    t.slope_start_.push_back(m0);
-    t.slope_end_.push_back(m1);
+  std::vector<Sample> samples;
+  for (double h : initial_depths(section, options)) samples.push_back(sample(section, sqrt_slope, h));
+  TabulatedFlux table(assemble(samples, closed));
+  constexpr int kMaxPasses = 40;
+  for (int pass = 0; pass < kMaxPasses; ++pass) {
+    if (samples.size() >= static_cast<std::size_t>(options.max_nodes)) break;
+    if (!refine(section, sqrt_slope, table, options, samples)) break;
+    table = TabulatedFlux(assemble(samples, closed));
   }
-  t.exponent_below_ = t.slope_start_.front();
-  t.exponent_above_ = closed ? 0.0 : t.slope_end_.back();
-  if (closed) {
-    t.capacity_area_m2_ = std::exp(t.log_area_.back());
-    t.max_discharge_m3s_ = std::exp(t.log_q_.back());
-  }
-  return t;
+  return table;
 }
 
 TabulatedFlux::LogEval TabulatedFlux::evaluate(double x) const noexcept {
-  if (x <= log_area_.front()) {
-    return {log_q_.front() + exponent_below_ * (x - log_area_.front()), exponent_below_};
+  const Data& d = *data_;
+  if (x <= d.log_area.front()) {
+    return {d.log_q.front() + d.exponent_below * (x - d.log_area.front()), d.exponent_below};
   }
-  if (x >= log_area_.back()) {
-    return {log_q_.back() + exponent_above_ * (x - log_area_.back()), exponent_above_};
+  if (x >= d.log_area.back()) {
+    return {d.log_q.back() + d.exponent_above * (x - d.log_area.back()), d.exponent_above};
   }
   const auto k = static_cast<std::size_t>(
-      std::upper_bound(log_area_.begin(), log_area_.end(), x) - log_area_.begin());
+      std::upper_bound(d.log_area.begin(), d.log_area.end(), x) - d.log_area.begin());
   const std::size_t j = k - 1;
-  const double dx = log_area_[k] - log_area_[j];
-  const double u = (x - log_area_[j]) / dx;
-  const double y0 = log_q_[j], y1 = log_q_[k];
-  const double m0 = slope_start_[j] * dx, m1 = slope_end_[j] * dx;
-  // Cubic Hermite basis h00, h10, h01, h11 and their derivatives in u.
-  const double v = 1.0 - u;
-  const double y = (1.0 + 2.0 * u) * v * v * y0 + u * v * v * m0 + u * u * (3.0 - 2.0 * u) * y1 +
-                   u * u * (u - 1.0) * m1;
-  const double dy_du = 6.0 * u * v * (y1 - y0) + v * (1.0 - 3.0 * u) * m0 + u * (3.0 * u - 2.0) * m1;
+  const double dx = d.log_area[k] - d.log_area[j];
+  const double u = (x - d.log_area[j]) / dx, v = 1.0 - u;
+  const double y0 = d.log_q[j], y1 = d.log_q[k];
+  const double m0 = d.slope_start[j] * dx, m1 = d.slope_end[j] * dx;
+  // Cubic Hermite basis h00, h10, h01, h11 and their derivatives in u; written with
+  // h00 = 1 - h01 so that a flat interval (y0 = y1, m0 = m1 = 0) returns y0 exactly.
+  const double y = y0 + u * u * (3.0 - 2.0 * u) * (y1 - y0) + u * v * v * m0 + u * u * (u - 1.0) * m1;
+  const double dy_du =
+      6.0 * u * v * (y1 - y0) + v * (1.0 - 3.0 * u) * m0 + u * (3.0 * u - 2.0) * m1;
   return {y, dy_du / dx};
 }
 
@@ -144,26 +194,27 @@ double TabulatedFlux::celerity_m_s(double a) const noexcept {
 
 double TabulatedFlux::area_for_discharge_m2(double q) const noexcept {
   if (!(q > 0.0)) return 0.0;
+  const Data& d = *data_;
   const double y = std::log(q);
-  if (y <= log_q_.front()) {
-    return exponent_below_ > 0.0
-               ? std::exp(log_area_.front() + (y - log_q_.front()) / exponent_below_)
-               : std::exp(log_area_.front());
+  if (y <= d.log_q.front()) {
+    return d.exponent_below > 0.0
+               ? std::exp(d.log_area.front() + (y - d.log_q.front()) / d.exponent_below)
+               : std::exp(d.log_area.front());
   }
-  if (y >= log_q_.back()) {
-    return exponent_above_ > 0.0
-               ? std::exp(log_area_.back() + (y - log_q_.back()) / exponent_above_)
-               : std::exp(log_area_.back());  // at or above the cap: the capacity area
+  if (y >= d.log_q.back()) {
+    return d.exponent_above > 0.0
+               ? std::exp(d.log_area.back() + (y - d.log_q.back()) / d.exponent_above)
+               : std::exp(d.log_area.back());  // at or above the cap: the capacity area
   }
   const auto k = static_cast<std::size_t>(
-      std::lower_bound(log_q_.begin(), log_q_.end(), y) - log_q_.begin());
-  if (log_q_[k] == y) return std::exp(log_area_[k]);  // smallest area on a plateau
+      std::lower_bound(d.log_q.begin(), d.log_q.end(), y) - d.log_q.begin());
+  if (d.log_q[k] == y) return std::exp(d.log_area[k]);  // smallest area on a plateau
   auto fdf = [&](double x, double& f, double& df) {
     const LogEval e = evaluate(x);
     f = e.log_q - y;
     df = e.dlogq_dloga;
   };
-  return std::exp(solve_bracketed_newton(fdf, log_area_[k - 1], log_area_[k]).x);
+  return std::exp(solve_bracketed_newton(fdf, d.log_area[k - 1], d.log_area[k]).x);
 }
 
 }  // namespace freshet::geometry

@@ -277,7 +277,7 @@ class IrregularSection final : public CrossSection {
 
  private:
   struct Segment {
-    double x0, y0, x1, y1;  // station and elevation of both ends, x0 <= x1
+    double x0, y0, x1, y1;  // station and height above the thalweg of both ends, x0 <= x1
     int subsection;         // 0 left overbank, 1 main channel, 2 right overbank
   };
   struct Hydraulics;  // per-subsection A, P, T, dP/dh at one water level
@@ -288,7 +288,7 @@ class IrregularSection final : public CrossSection {
   std::vector<Segment> segments_;
   std::array<double, 3> n_;
   double thalweg_m_;
-  double left_end_elevation_m_, right_end_elevation_m_;
+  double left_end_elevation_m_, right_end_elevation_m_;  // above the thalweg
   int left_wall_subsection_, right_wall_subsection_;
   double relief_m_;
   std::vector<double> breakpoints_m_;

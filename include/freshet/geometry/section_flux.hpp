@@ -83,24 +83,29 @@ PowerLawFlux make_triangular_flux(double left_side_slope, double right_side_slop
 // Unit-width sheet: q = (sqrt(S0)/n) h^(5/3), with A = h.
 PowerLawFlux make_sheet_flux(double manning_n, double bed_slope);
 
-// Table options for TabulatedFlux. Defaults give relative errors near 1e-8 (docs/sections.md).
+// Table options for TabulatedFlux. The defaults hold the table within about 1e-8 of the exact
+// Q and 1e-6 of the exact c (relative to the mean velocity) at every interval midpoint.
 struct TableOptions {
-  double top_depth_m = 0.0;          // deepest node (m); 0 = automatic: 3 x the section's depth
-                                     // scale (open), the capacity depth (closed conduits)
-  double bottom_depth_ratio = 1e-6;  // shallowest node as a fraction of top_depth_m
-  int nodes_per_decade = 64;         // geometric depth spacing between the two
+  double top_depth_m = 0.0;             // deepest node (m); 0 = automatic: 3 x the section's
+                                        // depth scale (open), the capacity depth (conduits)
+  double bottom_depth_ratio = 1e-6;     // shallowest node as a fraction of the top depth
+  int nodes_per_decade = 32;            // initial geometric depth spacing between the two
+  double discharge_tolerance = 1e-8;    // refine while |Q_table / Q - 1| exceeds this ...
+  double celerity_tolerance = 1e-6;     // ... or |c_table - c| / (Q / A) exceeds this
+  int max_nodes = 4000;                 // refinement stops at this many nodes
   void validate(ProblemList& problems) const;
 };
 
-// Q(A) on a table of depths h_j (geometric spacing, refined towards the bed, plus every corner
-// of the geometry), interpolated as a monotone cubic Hermite curve in (ln A, ln Q) with slopes
-// d ln Q / d ln A = c A / Q taken from the exact law on each side of every node and limited
-// after Fritsch & Carlson (1980, SIAM J. Numer. Anal. 17(2), 238-246) so that the curve is
-// non-decreasing. The celerity is the exact derivative of that curve, so Q and c are
+// Q(A) on a table of depths h_j, interpolated as a monotone cubic Hermite curve in
+// (ln A, ln Q) with slopes d ln Q / d ln A = c A / Q from the exact law on each side of every
+// node, limited after Fritsch & Carlson (1980, SIAM J. Numer. Anal. 17(2), 238-246) so that the
+// curve never decreases. Nodes: a geometric depth grid (refined towards the bed) plus every
+// corner of the geometry, then intervals are halved until the table meets the tolerances at
+// their midpoints. The celerity is the exact derivative of the curve, so Q and c are
 // consistent. Below the first node and above the last, Q is the power law through the end node
-// with the end slope (exact for shapes that are power laws there). Power laws are reproduced
-// exactly by the cubic; any drop of the exact Q between nodes (a conveyance that falls as a
-// flat bench floods) is replaced by its running maximum, counted in monotone_corrections().
+// with the end slope (exact where the shape is a power law). Any drop of the exact Q (a
+// conveyance that falls as a flat bench inside one subsection floods) is replaced by its running
+// maximum and counted in monotone_corrections(). Copies share the table (immutable).
 class TabulatedFlux {
  public:
   static TabulatedFlux from_section(const CrossSection& section, double bed_slope,
@@ -111,24 +116,29 @@ class TabulatedFlux {
   [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
 
   // Closed conduits: the area where Q reaches its cap, and the cap. Open: infinity.
-  [[nodiscard]] double capacity_area_m2() const noexcept { return capacity_area_m2_; }
-  [[nodiscard]] double max_discharge_m3s() const noexcept { return max_discharge_m3s_; }
-  [[nodiscard]] std::size_t node_count() const noexcept { return log_area_.size(); }
-  [[nodiscard]] int monotone_corrections() const noexcept { return monotone_corrections_; }
+  [[nodiscard]] double capacity_area_m2() const noexcept { return data_->capacity_area_m2; }
+  [[nodiscard]] double max_discharge_m3s() const noexcept { return data_->max_discharge_m3s; }
+  [[nodiscard]] std::size_t node_count() const noexcept { return data_->log_area.size(); }
+  [[nodiscard]] int monotone_corrections() const noexcept { return data_->monotone_corrections; }
+
+  struct Data {
+    std::vector<double> log_area, log_q;         // nodes
+    std::vector<double> slope_start, slope_end;  // per interval: d ln Q / d ln A at its ends
+    double exponent_below = 1.0, exponent_above = 1.0;
+    double capacity_area_m2 = kNoCapacityArea_m2;
+    double max_discharge_m3s = kNoDischargeLimit_m3s;
+    int monotone_corrections = 0;
+  };
 
  private:
+  explicit TabulatedFlux(std::shared_ptr<const Data> data) : data_(std::move(data)) {}
   struct LogEval {
     double log_q;
     double dlogq_dloga;
   };
   [[nodiscard]] LogEval evaluate(double log_area) const noexcept;
 
-  std::vector<double> log_area_, log_q_;       // nodes
-  std::vector<double> slope_start_, slope_end_;  // per interval: d ln Q / d ln A at each end
-  double exponent_below_ = 1.0, exponent_above_ = 1.0;
-  double capacity_area_m2_ = kNoCapacityArea_m2;
-  double max_discharge_m3s_ = kNoDischargeLimit_m3s;
-  int monotone_corrections_ = 0;
+  std::shared_ptr<const Data> data_;
 };
 
 // The exact law through any section, with the closed-conduit cap described above.
