@@ -245,6 +245,37 @@ TEST(NetcdfWriter, StageWithAKnownDatumGetsTheStandardNameAndCrsGetsAGridMapping
   EXPECT_FALSE(f.getVar("crs").isNull());
 }
 
+TEST(NetcdfWriter, ProfileFileHasOneInstancePerCell) {
+  TempDir dir;
+  InstanceSet cells;
+  cells.kind = "cell";
+  for (int i = 0; i < 40; ++i) {
+    cells.instances.push_back({"alder:" + std::to_string(i), "", "alder", 25.0 * i + 12.5, NAN,
+                               NAN});
+  }
+  {
+    NetcdfTimeSeriesWriter w(dir / "profiles.nc");
+    w.begin(metadata(), cells, {OutputVariable::depth});
+    std::vector<double> row(40);
+    for (int k = 0; k < 3; ++k) {
+      for (int i = 0; i < 40; ++i) row[static_cast<std::size_t>(i)] = 0.01 * (k + i);
+      w.record(300.0 * k, row);
+    }
+    w.commit();
+  }
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f((dir / "profiles.nc").string(), nc::NcFile::read);
+  expect_cf_timeseries(f);
+  EXPECT_EQ(f.getDim("cell").getSize(), 40u);
+  EXPECT_EQ(text_att(f.getVar("depth"), "coordinates"), "cell_id cell_name reach_id chainage");
+  std::vector<double> chainage(40);
+  f.getVar("chainage").getVar(chainage.data());
+  EXPECT_EQ(chainage[39], 987.5);
+  float depth = 0.0f;
+  f.getVar("depth").getVar(std::vector<size_t>{2, 5}, &depth);
+  EXPECT_FLOAT_EQ(depth, 0.07f);
+}
+
 TEST(NetcdfWriter, UncommittedWriterLeavesNoFile) {
   TempDir dir;
   {
