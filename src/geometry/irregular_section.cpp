@@ -84,23 +84,40 @@ IrregularSection::IrregularSection(const IrregularSpec& spec, std::string elemen
 
   // Elevations are stored relative to the thalweg, so that the water level is the depth itself
   // and shallow depths keep full relative precision.
-  const double thalweg = std::min_element(spec.points.begin(), spec.points.end(),
-                                          [](const auto& a, const auto& b) {
-                                            return a.elevation_m < b.elevation_m;
-                                          })->elevation_m;
+  thalweg_m_ = std::min_element(spec.points.begin(), spec.points.end(),
+                                [](const auto& a, const auto& b) {
+                                  return a.elevation_m < b.elevation_m;
+                                })->elevation_m;
+  build_segments(spec);
+  relief_m_ = 0.0;
+  for (const auto& p : spec.points) {
+    relief_m_ = std::max(relief_m_, p.elevation_m - thalweg_m_);
+    if (p.elevation_m > thalweg_m_) breakpoints_m_.push_back(p.elevation_m - thalweg_m_);
+  }
+  std::sort(breakpoints_m_.begin(), breakpoints_m_.end());
+  breakpoints_m_.erase(std::unique(breakpoints_m_.begin(), breakpoints_m_.end()),
+                       breakpoints_m_.end());
+  left_end_elevation_m_ = spec.points.front().elevation_m - thalweg_m_;
+  right_end_elevation_m_ = spec.points.back().elevation_m - thalweg_m_;
+  left_wall_subsection_ = segments_.front().subsection;
+  right_wall_subsection_ = segments_.back().subsection;
+}
+
+// Segments between consecutive points, split at bank stations strictly inside them, each
+// assigned to the subsection that holds its midpoint (a vertical segment at a bank station
+// belongs to the main channel).
+void IrregularSection::build_segments(const IrregularSpec& spec) {
   const double banks[2] = {spec.left_bank_station_m, spec.right_bank_station_m};
-  auto subsection_of = [&](double x0, double x1) {
-    const double mid = 0.5 * (x0 + x1);
-    return mid < banks[0] ? 0 : (mid > banks[1] ? 2 : 1);
-  };
   auto push = [&](double x0, double y0, double x1, double y1) {
     if (x0 == x1 && y0 == y1) return;  // repeated point: no segment
-    segments_.push_back({x0, y0, x1, y1, subsection_of(x0, x1)});
+    const double mid = 0.5 * (x0 + x1);
+    const int subsection = mid < banks[0] ? 0 : (mid > banks[1] ? 2 : 1);
+    segments_.push_back({x0, y0, x1, y1, subsection});
   };
   for (std::size_t i = 1; i < spec.points.size(); ++i) {
-    double x0 = spec.points[i - 1].station_m, y0 = spec.points[i - 1].elevation_m - thalweg;
-    const double x1 = spec.points[i].station_m, y1 = spec.points[i].elevation_m - thalweg;
-    for (double xb : banks) {  // split at a bank station strictly inside the segment
+    double x0 = spec.points[i - 1].station_m, y0 = spec.points[i - 1].elevation_m - thalweg_m_;
+    const double x1 = spec.points[i].station_m, y1 = spec.points[i].elevation_m - thalweg_m_;
+    for (double xb : banks) {
       if (xb > x0 && xb < x1) {
         const double yb = y0 + (y1 - y0) * (xb - x0) / (x1 - x0);
         push(x0, y0, xb, yb);
@@ -110,20 +127,6 @@ IrregularSection::IrregularSection(const IrregularSpec& spec, std::string elemen
     }
     push(x0, y0, x1, y1);
   }
-
-  thalweg_m_ = thalweg;
-  relief_m_ = 0.0;
-  for (const auto& p : spec.points) {
-    relief_m_ = std::max(relief_m_, p.elevation_m - thalweg);
-    if (p.elevation_m > thalweg) breakpoints_m_.push_back(p.elevation_m - thalweg);
-  }
-  left_end_elevation_m_ = spec.points.front().elevation_m - thalweg;
-  right_end_elevation_m_ = spec.points.back().elevation_m - thalweg;
-  left_wall_subsection_ = segments_.front().subsection;
-  right_wall_subsection_ = segments_.back().subsection;
-  std::sort(breakpoints_m_.begin(), breakpoints_m_.end());
-  breakpoints_m_.erase(std::unique(breakpoints_m_.begin(), breakpoints_m_.end()),
-                       breakpoints_m_.end());
 }
 
 // Hydraulics at depth h. At a survey vertex the top width and dP/dh jump; `limit` chooses the

@@ -247,6 +247,28 @@ TEST(TabulatedFlux, FlatBenchInsideOneSubsectionIsMadeMonotone) {
   EXPECT_EQ(TabulatedFlux::from_section(*divided, kSlope).monotone_corrections(), 0);
 }
 
+TEST(TableOptions, DefaultsAreValidAndTheToleranceGovernsTheError) {
+  ProblemList problems;
+  TableOptions{}.validate(problems);
+  EXPECT_TRUE(problems.empty());
+  // A looser tolerance gives a smaller table whose error grows accordingly (still bounded by
+  // a few times the tolerance); the exact reference is the surveyed trapezoid's closed form.
+  const IrregularSection survey(testing::surveyed_trapezoid_spec());
+  const TrapezoidalSection exact_section(testing::trapezoid_spec());
+  const TrapezoidalFlux exact(3.0, 1.5, 2.5, 0.035, kSlope);
+  const TableOptions coarse{.nodes_per_decade = 4, .discharge_tolerance = 1e-5,
+                            .celerity_tolerance = 1e-3};
+  const TabulatedFlux fine_table = TabulatedFlux::from_section(survey, kSlope);
+  const TabulatedFlux coarse_table = TabulatedFlux::from_section(survey, kSlope, coarse);
+  const auto depths = log_spaced(1.2e-5, 3.9999, 2000);
+  const auto e_fine = compare(fine_table, exact, exact_section, depths);
+  const auto e_coarse = compare(coarse_table, exact, exact_section, depths);
+  EXPECT_LT(coarse_table.node_count(), fine_table.node_count());
+  EXPECT_GT(e_coarse.discharge, e_fine.discharge);
+  EXPECT_LT(e_coarse.discharge, 3e-5);
+  EXPECT_LT(e_coarse.celerity, 1e-2);
+}
+
 // ---- Closed conduits ----------------------------------------------------------------------
 
 TEST(CircularFlux, IsCappedAtItsPeakAndStaysMonotone) {

@@ -282,6 +282,7 @@ class IrregularSection final : public CrossSection {
   };
   struct Hydraulics;  // per-subsection A, P, T, dP/dh at one water level
   enum class Limit { from_below, from_above };
+  void build_segments(const IrregularSpec& spec);
   [[nodiscard]] Hydraulics evaluate(double depth_m, Limit limit) const noexcept;
   [[nodiscard]] double conveyance_slope(double depth_m, Limit limit) const noexcept;
 
