@@ -1,19 +1,43 @@
-// freshet command-line entry point.
-#include <CLI/CLI.hpp>
+// freshet command-line entry point: parses the command line, runs the chosen subcommand and
+// maps failures to the documented exit codes.
 #include <iostream>
 
-#include "freshet/core/caution.hpp"
-#include "freshet_version.hpp"
+#include "commands.hpp"
+#include "freshet/core/error.hpp"
 
 int main(int argc, char** argv) {
-  CLI::App app{"freshet: kinematic-wave flood routing for drainage and stormwater studies"};
+  using namespace freshet::cli;
+  CLI::App app{
+      "freshet: kinematic-wave flood routing for drainage and stormwater studies.\n"
+      "Exit codes: 0 success, 1 bad command line, 2 bad input file, 3 numerical failure,\n"
+      "4 file could not be read or written, 5 verification case failed."};
   app.require_subcommand(1);
-  auto* version = app.add_subcommand("version", "Print version and build information");
-  CLI11_PARSE(app, argc, argv);
-  if (*version) {
-    std::cout << "freshet " << FRESHET_VERSION << " (" << FRESHET_BUILD_TYPE << ", "
-              << FRESHET_COMPILER << ")\n\n"
-              << freshet::kCautionText << "\n";
+  GlobalOptions global;
+  app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
+  Action action;
+  add_route_command(app, global, action);
+  add_check_command(app, global, action);
+  add_compare_command(app, global, action);
+  add_storm_command(app, global, action);
+  add_verify_command(app, global, action);
+  add_version_command(app, global, action);
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    const int code = app.exit(e);
+    return code == 0 ? kExitOk : kExitUsage;
   }
-  return 0;
+  try {
+    return action ? action() : kExitOk;
+  } catch (const freshet::InputError& e) {
+    std::cerr << "freshet: the input has " << e.problems().size() << " problem(s):\n"
+              << e.what() << "\n";
+    return kExitBadInput;
+  } catch (const freshet::NumericalError& e) {
+    std::cerr << "freshet: numerical failure: " << e.what() << "\n";
+    return kExitNumerical;
+  } catch (const freshet::IoError& e) {
+    std::cerr << "freshet: " << e.what() << "\n";
+    return kExitIo;
+  }
 }

@@ -1,0 +1,34 @@
+// The subcommands of the `freshet` executable. Each add_*_command registers its subcommand
+// (options, help with an example) on `app` and, when the user selects it, the action that
+// runs it. main() runs the selected action and maps exceptions to the documented exit codes.
+#pragma once
+
+#include <CLI/CLI.hpp>
+#include <functional>
+
+namespace freshet::cli {
+
+// Documented in docs/user-guide.md and `freshet --help`.
+enum ExitCode : int {
+  kExitOk = 0,
+  kExitUsage = 1,           // bad command line
+  kExitBadInput = 2,        // a basin, storm or hydrograph file has problems
+  kExitNumerical = 3,       // a numerical method failed
+  kExitIo = 4,              // a file could not be read or written
+  kExitVerifyFailed = 5,    // `freshet verify`: a case missed its published value
+};
+
+struct GlobalOptions {
+  bool quiet = false;  // no progress on stderr
+};
+
+using Action = std::function<int()>;
+
+void add_route_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_check_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_compare_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_storm_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_verify_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_version_command(CLI::App& app, const GlobalOptions& global, Action& action);
+
+}  // namespace freshet::cli
