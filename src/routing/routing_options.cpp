@@ -1,5 +1,6 @@
 #include "freshet/routing/routing_options.hpp"
 
+#include <algorithm>
 #include <array>
 #include <cmath>
 #include <string>
@@ -54,12 +55,29 @@ std::vector<Problem> ShockDetectionOptions::validate() const {
   ProblemList p("shock detection options");
   p.require(steep_fraction > 0.0 && steep_fraction <= 1.0, "steep_fraction", steep_fraction,
             "must be in (0, 1]");
-  p.require(front_cells >= 1, "front_cells", front_cells, "must be >= 1");
-  p.require(plateau_cells >= front_cells, "plateau_cells", plateau_cells,
-            "must be >= front_cells");
+  p.require(front_cells >= 0, "front_cells", front_cells, "must be >= 0 (0 = automatic)");
+  p.require(plateau_cells == 0 || plateau_cells >= front_cells, "plateau_cells", plateau_cells,
+            "must be 0 (automatic) or >= front_cells");
   p.require_non_negative("min_relative_jump", min_relative_jump);
+  p.require(steepening_rate_min > 0.0 && steepening_rate_min <= 1.0, "steepening_rate_min",
+            steepening_rate_min, "must be in (0, 1]");
   p.require(persistence >= 1, "persistence", persistence, "must be >= 1");
   return p.problems();
+}
+
+ShockDetectionOptions resolved_shock_options(const RoutingOptions& routing) {
+  ShockDetectionOptions s = routing.shock;
+  if (s.front_cells == 0) {
+    switch (routing.scheme) {
+      case SchemeKind::kMethodOfLines: s.front_cells = 8; break;
+      case SchemeKind::kImplicitUpwind:
+        s.front_cells = static_cast<int>(std::lround(8.0 * (1.0 + std::min(routing.implicit_courant, 50.0))));
+        break;
+      default: s.front_cells = 4; break;
+    }
+  }
+  if (s.plateau_cells == 0) s.plateau_cells = 3 * s.front_cells;
+  return s;
 }
 
 std::vector<Problem> RoutingOptions::validate() const {

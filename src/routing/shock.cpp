@@ -7,6 +7,8 @@ ShockDetector::ShockDetector(const ShockDetectionOptions& options, double cell_w
     : options_(options), dx_(cell_width_m), n_(cell_count) {}
 
 void ShockDetector::reset() {
+  estimated_break_time_s_ = estimated_break_position_m_ = std::numeric_limits<double>::quiet_NaN();
+  last_gradient_time_s_ = last_inverse_gradient_s_ = std::numeric_limits<double>::quiet_NaN();
   consecutive_ = 0;
   pending_.clear();
   report_ = ShockReport{};
@@ -27,6 +29,9 @@ bool ShockDetector::find_steep_front(std::span<const double> a, std::span<const 
     a_top = std::max(a_top, a[i + 1]);
   }
   a_top = std::max(a_top, a[0]);
+  // A front whose downstream plateau window reaches past the outlet cannot be measured (it
+  // is leaving the reach); the tracker then extrapolates along the fitted path.
+  if (k + 1 + options_.plateau_cells > n - 1) return false;
   int left = k, right = k + 1;
   for (int i = std::max(0, k - options_.plateau_cells); i <= k; ++i) if (a[i] > a[left]) left = i;
   for (int i = k + 1; i <= std::min(n - 1, k + 1 + options_.plateau_cells); ++i) {
@@ -55,14 +60,42 @@ bool ShockDetector::find_steep_front(std::span<const double> a, std::span<const 
 }
 
 void ShockDetector::observe(double t_s, std::span<const double> cell_area_m2,
-                            std::span<const double> cell_discharge_m3s) {
+                            std::span<const double> cell_discharge_m3s,
+                            std::span<const double> cell_celerity_m_s) {
   ShockSample s;
   s.time_s = t_s;
+  if (!report_.formed) update_breaking_estimate(t_s, cell_area_m2, cell_celerity_m_s);
   if (find_steep_front(cell_area_m2, cell_discharge_m3s, s)) {
     accept_front(s);
   } else {
     lose_front(t_s);
   }
+}
+
+// Extrapolates t_b = t + 1 / G, G = max_i (c_i - c_{i+1}) / dx. Exactly, 1/G falls at rate 1
+// until breaking; a captured front stops steepening once it is a few cells wide. So an
+// estimate is taken only while 1/G still falls at least `steepening_rate_min` times as fast
+// as the characteristics say (the computed gradient still follows the exact one).
+void ShockDetector::update_breaking_estimate(double t_s, std::span<const double> a,
+                                             std::span<const double> c) {
+  const int n = static_cast<int>(a.size());
+  int k = -1;
+  double g = 0.0;
+  for (int i = 0; i + 1 < n; ++i) {
+    const double gi = (c[i] - c[i + 1]) / dx_;
+    if (gi > g) g = gi, k = i;
+  }
+  const double previous_t = last_gradient_time_s_, previous_inverse = last_inverse_gradient_s_;
+  last_gradient_time_s_ = t_s;
+  last_inverse_gradient_s_ = k < 0 ? std::numeric_limits<double>::quiet_NaN() : 1.0 / g;
+  if (k < 0 || !(t_s > previous_t)) return;
+  const double rate = (previous_inverse - last_inverse_gradient_s_) / (t_s - previous_t);
+  if (!(rate >= options_.steepening_rate_min)) return;
+  const double drop = a[static_cast<std::size_t>(std::max(0, k - options_.plateau_cells))] -
+                      a[static_cast<std::size_t>(std::min(n - 1, k + 1 + options_.plateau_cells))];
+  if (!(drop > options_.min_relative_jump * *std::max_element(a.begin(), a.end()))) return;
+  estimated_break_time_s_ = t_s + last_inverse_gradient_s_;
+  estimated_break_position_m_ = (k + 1) * dx_ + 0.5 * (c[k] + c[k + 1]) * last_inverse_gradient_s_;
 }
 
 void ShockDetector::accept_front(const ShockSample& s) {
@@ -78,6 +111,10 @@ void ShockDetector::accept_front(const ShockSample& s) {
   report_.formed = true;
   report_.formation_time_s = pending_.front().time_s;
   report_.formation_position_m = pending_.front().position_m;
+  if (estimated_break_time_s_ <= report_.formation_time_s) {
+    report_.formation_time_s = estimated_break_time_s_;
+    report_.formation_position_m = estimated_break_position_m_;
+  }
   report_.path = pending_;
   pending_.clear();
   update_speeds();

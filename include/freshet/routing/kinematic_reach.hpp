@@ -201,8 +201,9 @@ KinematicReach<F>::KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOp
   area_.assign(cells, 0.0);
   face_.assign(cells + 1, 0.0);
   next_.assign(cells, 0.0);
-  if (opt_.scheme == SchemeKind::kMusclHeun) stage_.assign(cells, 0.0);
-  detector_ = ShockDetector(opt_.shock, dx_, spec_.cell_count);
+  // stage_: MUSCL-Heun stage areas, and celerities for the shock detector at observations.
+  if (opt_.scheme == SchemeKind::kMusclHeun || opt_.shock.enabled) stage_.assign(cells, 0.0);
+  detector_ = ShockDetector(resolved_shock_options(opt_), dx_, spec_.cell_count);
   diag_.scheme = std::string(to_string(opt_.scheme));
   restart_ledger();
 }
@@ -601,8 +602,8 @@ void KinematicReach<F>::finish_advance(double t0, double /*t1*/, AdvanceResult& 
 template <geometry::FluxLaw F>
 void KinematicReach<F>::observe_shock(double t) {
   if (!opt_.shock.enabled) return;
-  for (std::size_t i = 0; i < n(); ++i) next_[i] = law(i).discharge_m3s(area_[i]);
-  detector_.observe(t, area_, next_);
+  for (std::size_t i = 0; i < n(); ++i) detail::flux_and_celerity(law(i), area_[i], next_[i], stage_[i]);
+  detector_.observe(t, area_, next_, stage_);
 }
 
 // Method of lines: dA_i/dt = (F_i - F_{i+1})/dx + q_lat,i with upwind fluxes, plus one extra

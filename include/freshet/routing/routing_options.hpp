@@ -36,18 +36,28 @@ enum class Limiter { kMinmod, kVanLeer };
 struct ShockDetectionOptions {
   bool enabled = true;
   // A front is "steep" when this fraction of the jump (A_left - A_right) happens across
-  // `front_cells` consecutive cells.
+  // `front_cells` consecutive cells. 0 = automatic: the width over which the scheme smears a
+  // captured shock (4 explicit upwind and MUSCL-Heun, 8 method of lines, 8 (1 + Courant)
+  // implicit upwind; see docs/methods-routing.md).
   double steep_fraction = 0.9;
-  int front_cells = 4;
+  int front_cells = 0;
   // Cells either side of the steepest drop searched for the plateau states A_left, A_right.
-  int plateau_cells = 12;
+  // 0 = automatic: 3 x front_cells.
+  int plateau_cells = 0;
   // Jumps smaller than this fraction of the largest area in the reach are ignored.
   double min_relative_jump = 0.02;
+  // Breaking-time extrapolation: an observation is used while 1/max(-dc/dx) still falls at
+  // least this fast (exact value 1 s/s before breaking; ~0 once the front is grid-limited).
+  double steepening_rate_min = 0.95;
   // Consecutive observations a steep front must persist before it is reported as a shock.
   int persistence = 3;
 
   [[nodiscard]] std::vector<Problem> validate() const;
 };
+
+struct RoutingOptions;
+// The detection options with automatic (0) widths replaced for the scheme in `routing`.
+[[nodiscard]] ShockDetectionOptions resolved_shock_options(const RoutingOptions& routing);
 
 struct RoutingOptions {
   SchemeKind scheme = SchemeKind::kExplicitUpwind;

@@ -125,15 +125,21 @@ struct ShockReport {
   double outlet_arrival_time_s = std::numeric_limits<double>::quiet_NaN();
 };
 
-// Watches one reach. observe() is called at increasing times with the cell areas and the
-// cell discharges Q_i(A_i); it tracks the dominant front (largest downstream drop in area).
+// Watches one reach. observe() is called at increasing times with the cell areas, discharges
+// Q_i(A_i) and celerities c_i(A_i); it tracks the dominant front (largest downstream drop in
+// area). Formation time and place are refined from the last observation in which the
+// compression still steepened as the characteristics predict: along a
+// characteristic, d c/dx = c0' / (1 + c0' t), so 1 / max(-dc/dx) falls linearly to zero at
+// the breaking time, t_b = t + 1 / max(-dc/dx), and the break is at x* + c(x*) (t_b - t),
+// where x* is the steepest point (Whitham 1974, Linear and Nonlinear Waves, sec. 2.3).
 class ShockDetector {
  public:
   ShockDetector() = default;
   ShockDetector(const ShockDetectionOptions& options, double cell_width_m, int cell_count);
 
   void observe(double t_s, std::span<const double> cell_area_m2,
-               std::span<const double> cell_discharge_m3s);
+               std::span<const double> cell_discharge_m3s,
+               std::span<const double> cell_celerity_m_s);
   [[nodiscard]] const ShockReport& report() const noexcept { return report_; }
   [[nodiscard]] int shocks_found() const noexcept { return report_.formed ? 1 : 0; }
   void reset();
@@ -146,6 +152,8 @@ class ShockDetector {
 
  private:
   void accept_front(const ShockSample& sample);
+  void update_breaking_estimate(double t_s, std::span<const double> a,
+                                std::span<const double> c);
   void lose_front(double t_s);
   void update_speeds();
 
@@ -155,6 +163,11 @@ class ShockDetector {
   int consecutive_ = 0;
   std::vector<ShockSample> pending_;
   ShockReport report_;
+  // Latest breaking estimate from a resolved compression (NaN when none yet).
+  double estimated_break_time_s_ = std::numeric_limits<double>::quiet_NaN();
+  double estimated_break_position_m_ = std::numeric_limits<double>::quiet_NaN();
+  double last_gradient_time_s_ = std::numeric_limits<double>::quiet_NaN();
+  double last_inverse_gradient_s_ = std::numeric_limits<double>::quiet_NaN();
 };
 
 }  // namespace freshet::routing
