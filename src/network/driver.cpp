@@ -75,7 +75,7 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
                     const ProgressFn& progress) {
   clock.validate();
   const auto wall_start = std::chrono::steady_clock::now();
-  for (auto& e : model.elements) e->reset();
+  for (auto& e : model.elements) e->reset(clock.start_s);
 
   const double dt_s = clock.coupling_step_s();
   const auto steps_per_output =

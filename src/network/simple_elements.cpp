@@ -2,7 +2,7 @@
 
 namespace freshet::network {
 
-void PassThrough::reset() {
+void PassThrough::reset(double /*start_s*/) {
   end_m3s_ = 0.0;
   ledger_ = {};
 }
@@ -23,8 +23,8 @@ StationSample PassThrough::sample() const {
   return s;
 }
 
-void InflowHydrograph::reset() {
-  t_s_ = 0.0;
+void InflowHydrograph::reset(double start_s) {
+  t_s_ = start_s;
   ledger_ = {};
 }
 

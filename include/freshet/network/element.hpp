@@ -73,8 +73,9 @@ class Element {
   Element(const Element&) = delete;
   Element& operator=(const Element&) = delete;
 
-  // Restores the initial state (a dry network unless the element says otherwise).
-  virtual void reset() = 0;
+  // Restores the initial state at the run's start time (a dry network unless the element
+  // says otherwise).
+  virtual void reset(double start_s) = 0;
   // Advances over the step; returns the outflow over it.
   virtual StepOutflow advance(const StepInflow& in) = 0;
   // The state at the end of the last step.

@@ -11,7 +11,7 @@ namespace freshet::network {
 class PassThrough final : public Element {
  public:
   PassThrough(std::string id, ElementKind kind) : Element(std::move(id), kind) {}
-  void reset() override;
+  void reset(double start_s) override;
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override { return ledger_; }
@@ -26,7 +26,7 @@ class InflowHydrograph final : public Element {
  public:
   InflowHydrograph(std::string id, PiecewiseLinearSeries discharge_m3s)
       : Element(std::move(id), ElementKind::inflow), q_(std::move(discharge_m3s)) {}
-  void reset() override;
+  void reset(double start_s) override;
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override { return ledger_; }

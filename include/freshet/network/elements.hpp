@@ -1,0 +1,95 @@
+// The network elements that carry the numerics of the other modules: a channel or pipe
+// reach (routing), a subcatchment (hydrology) and a level pool behind a road culvert or in a
+// detention basin (structures). Each adapts its model to the driver's Element interface and
+// keeps its own reports (shocks, overtopping, peaks) for the summaries.
+#pragma once
+
+#include <memory>
+#include <optional>
+
+#include "freshet/geometry/section_flux.hpp"
+#include "freshet/hydrology/subcatchment.hpp"
+#include "freshet/network/element.hpp"
+#include "freshet/network/structures/level_pool.hpp"
+#include "freshet/routing/kinematic_reach.hpp"
+
+namespace freshet::network {
+
+// A reach routed by the kinematic wave. Its station is the downstream end: discharge,
+// depth and velocity of the last cell, and stage = outlet invert elevation + depth when
+// the invert is known (otherwise the depth).
+class ReachElement final : public Element {
+ public:
+  ReachElement(std::string id, geometry::FlowSection section,
+               std::unique_ptr<routing::ReachModel> reach,
+               std::optional<double> outlet_invert_m);
+  void reset(double start_s) override;
+  StepOutflow advance(const StepInflow& in) override;
+  [[nodiscard]] StationSample sample() const override;
+  [[nodiscard]] VolumeLedger ledger() const override;
+  [[nodiscard]] std::vector<ElementNote> notes() const override;
+  [[nodiscard]] bool takes_lateral_inflow() const override { return true; }
+
+  [[nodiscard]] const routing::ReachModel& reach() const { return *reach_; }
+  [[nodiscard]] const geometry::FlowSection& section() const { return section_; }
+  // Coupling steps at whose end the outlet cell carried the conduit's capacity (kinematic
+  // wave at its limit: surcharge is not represented).
+  [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
+  // Time-averaged inflow peak and outflow peak (m3/s), for attenuation reports.
+  [[nodiscard]] double peak_inflow_m3s() const { return peak_inflow_m3s_; }
+
+ private:
+  geometry::FlowSection section_;
+  std::unique_ptr<routing::ReachModel> reach_;
+  std::optional<double> outlet_invert_m_;
+  long capacity_steps_ = 0;
+  double peak_inflow_m3s_ = 0.0;
+};
+
+// A subcatchment: rain, losses and overland planes. Its station reports the runoff, the
+// rainfall intensity and the rainfall excess (means over the last coupling step).
+class SubcatchmentElement final : public Element {
+ public:
+  SubcatchmentElement(std::string id, std::unique_ptr<hydrology::Subcatchment> model);
+  void reset(double start_s) override;
+  StepOutflow advance(const StepInflow& in) override;
+  [[nodiscard]] StationSample sample() const override { return sample_; }
+  [[nodiscard]] VolumeLedger ledger() const override;
+  [[nodiscard]] const hydrology::Subcatchment& model() const { return *model_; }
+
+ private:
+  std::unique_ptr<hydrology::Subcatchment> model_;
+  StationSample sample_;
+};
+
+// A level pool: the ponding area upstream of a road culvert crossing, or a detention basin.
+// Its station reports the outflow, the pool stage (headwater at a culvert) and the depth
+// above the pool's lowest point.
+class PoolElement final : public Element {
+ public:
+  // For a culvert crossing: `crossing` owns the rating the pool's outflow reads.
+  PoolElement(std::string id, ElementKind kind,
+              std::unique_ptr<structures::CulvertCrossing> crossing,
+              structures::StageStorage ponding, structures::LevelPoolOptions options);
+  // For a detention basin: outflow through the riser's outlets.
+  PoolElement(std::string id, std::unique_ptr<structures::Riser> riser,
+              structures::StageStorage basin, structures::LevelPoolOptions options,
+              double initial_stage_m);
+  void reset(double start_s) override;
+  StepOutflow advance(const StepInflow& in) override;
+  [[nodiscard]] StationSample sample() const override;
+  [[nodiscard]] VolumeLedger ledger() const override;
+  [[nodiscard]] std::vector<ElementNote> notes() const override;
+
+  [[nodiscard]] const structures::LevelPool& pool() const { return *pool_; }
+  [[nodiscard]] const structures::CulvertCrossing* crossing() const { return crossing_.get(); }
+
+ private:
+  std::unique_ptr<structures::CulvertCrossing> crossing_;
+  std::unique_ptr<structures::Riser> riser_;
+  std::unique_ptr<structures::LevelPool> pool_;
+  double initial_stage_m_ = 0.0;
+  double peak_inflow_m3s_ = 0.0;
+};
+
+}  // namespace freshet::network

@@ -1,0 +1,209 @@
+#include "freshet/network/elements.hpp"
+
+#include <cmath>
+#include <cstdio>
+
+namespace freshet::network {
+
+namespace {
+std::string fixed(double v, int digits) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
+  return buf;
+}
+}  // namespace
+
+// ---- ReachElement ------------------------------------------------------------------------
+
+ReachElement::ReachElement(std::string id, geometry::FlowSection section,
+                           std::unique_ptr<routing::ReachModel> reach,
+                           std::optional<double> outlet_invert_m)
+    : Element(std::move(id), ElementKind::reach),
+      section_(std::move(section)),
+      reach_(std::move(reach)),
+      outlet_invert_m_(outlet_invert_m) {}
+
+void ReachElement::reset(double /*start_s*/) {
+  reach_->set_uniform_discharge(0.0);  // dry; restarts the reach's clock and ledger
+  capacity_steps_ = 0;
+  peak_inflow_m3s_ = 0.0;
+}
+
+StepOutflow ReachElement::advance(const StepInflow& in) {
+  const double length_m = reach_->spec().length_m;
+  const auto inflow = PiecewiseLinearSeries::constant(in.inflow_mean_m3s);
+  const auto lateral =
+      in.lateral_mean_m3s > 0.0
+          ? routing::LateralInflow::uniform(
+                length_m, PiecewiseLinearSeries::constant(in.lateral_mean_m3s / length_m))
+          : routing::LateralInflow::none();
+  const routing::AdvanceResult r = reach_->advance(in.t0_s, in.t1_s, inflow, lateral);
+  if (!r.ok()) {
+    throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) + " s: " +
+                         r.message);
+  }
+  peak_inflow_m3s_ = std::max(peak_inflow_m3s_, in.inflow_mean_m3s + in.lateral_mean_m3s);
+  const int last = reach_->spec().cell_count - 1;
+  if (section_.at_capacity(reach_->cell_area_m2()[static_cast<std::size_t>(last)])) {
+    ++capacity_steps_;
+  }
+  return {r.mean_outflow_m3s, reach_->cell_discharge_m3s(last)};
+}
+
+StationSample ReachElement::sample() const {
+  const auto areas = reach_->cell_area_m2();
+  const double a = areas.back();
+  StationSample s;
+  s.discharge_m3s = reach_->cell_discharge_m3s(reach_->spec().cell_count - 1);
+  s.depth_m = section_.depth_m(a);
+  s.velocity_m_s = section_.velocity_m_s(a);
+  s.stage_m = outlet_invert_m_ ? *outlet_invert_m_ + s.depth_m : s.depth_m;
+  return s;
+}
+
+VolumeLedger ReachElement::ledger() const {
+  const routing::VolumeLedger& r = reach_->ledger();
+  VolumeLedger l;
+  l.inflow_m3 = r.inflow_m3;
+  l.lateral_m3 = r.lateral_m3;
+  l.outflow_m3 = r.outflow_m3;
+  l.initial_storage_m3 = r.initial_storage_m3;
+  l.storage_m3 = r.storage_m3;
+  return l;
+}
+
+std::vector<ElementNote> ReachElement::notes() const {
+  std::vector<ElementNote> out;
+  const routing::ShockReport& shock = reach_->shock_report();
+  if (shock.formed) {
+    std::string text = "kinematic shock formed at t = " + fixed(shock.formation_time_s / 60.0, 1) +
+                       " min, " + fixed(shock.formation_position_m, 0) + " m downstream, speed " +
+                       fixed(shock.speed_m_s, 2) + " m/s";
+    text += shock.reached_outlet
+                ? ", reached the outlet at t = " + fixed(shock.outlet_arrival_time_s / 60.0, 1) +
+                      " min"
+                : ", did not reach the outlet";
+    out.push_back({text});
+  }
+  if (capacity_steps_ > 0) {
+    out.push_back({"conduit at capacity at the outlet for " + std::to_string(capacity_steps_) +
+                   " coupling step(s): surcharge is not represented by the kinematic wave; "
+                   "peak flows above capacity are held back"});
+  }
+  return out;
+}
+
+// ---- SubcatchmentElement -----------------------------------------------------------------
+
+SubcatchmentElement::SubcatchmentElement(std::string id,
+                                         std::unique_ptr<hydrology::Subcatchment> model)
+    : Element(std::move(id), ElementKind::subcatchment), model_(std::move(model)) {}
+
+void SubcatchmentElement::reset(double /*start_s*/) {
+  model_->reset();
+  sample_ = {};
+  sample_.discharge_m3s = 0.0;
+  sample_.rain_mm_h = 0.0;
+  sample_.excess_mm_h = 0.0;
+}
+
+StepOutflow SubcatchmentElement::advance(const StepInflow& in) {
+  const hydrology::SubcatchmentStep s = model_->advance(in.t0_s, in.t1_s);
+  constexpr double kMmPerHourPerMetrePerSecond = 1000.0 * 3600.0;
+  sample_.discharge_m3s = s.runoff_end_m3s;
+  sample_.rain_mm_h = s.rain_mean_m_s * kMmPerHourPerMetrePerSecond;
+  sample_.excess_mm_h = s.excess_mean_m_s * kMmPerHourPerMetrePerSecond;
+  return {s.runoff_mean_m3s, s.runoff_end_m3s};
+}
+
+VolumeLedger SubcatchmentElement::ledger() const {
+  const hydrology::SubcatchmentLedger h = model_->ledger();
+  VolumeLedger l;
+  l.rain_m3 = h.rain_m3;
+  l.loss_m3 = h.loss_m3;
+  l.outflow_m3 = h.runoff_m3;
+  l.storage_m3 = h.storage_m3;
+  return l;
+}
+
+// ---- PoolElement -------------------------------------------------------------------------
+
+PoolElement::PoolElement(std::string id, ElementKind kind,
+                         std::unique_ptr<structures::CulvertCrossing> crossing,
+                         structures::StageStorage ponding, structures::LevelPoolOptions options)
+    : Element(std::move(id), kind), crossing_(std::move(crossing)) {
+  pool_ = std::make_unique<structures::LevelPool>(
+      structures::make_crossing_pool(*crossing_, std::move(ponding), options));
+  initial_stage_m_ = crossing_->culvert().spec().inlet_invert_stage_m;
+}
+
+PoolElement::PoolElement(std::string id, std::unique_ptr<structures::Riser> riser,
+                         structures::StageStorage basin, structures::LevelPoolOptions options,
+                         double initial_stage_m)
+    : Element(std::move(id), ElementKind::detention),
+      riser_(std::move(riser)),
+      initial_stage_m_(initial_stage_m) {
+  const structures::Riser* r = riser_.get();
+  pool_ = std::make_unique<structures::LevelPool>(
+      "detention basin '" + this->id() + "'", std::move(basin),
+      [r](double stage_m) { return r->discharge_m3s(stage_m); }, options);
+}
+
+void PoolElement::reset(double start_s) {
+  pool_->reset(start_s, initial_stage_m_);
+  peak_inflow_m3s_ = 0.0;
+}
+
+StepOutflow PoolElement::advance(const StepInflow& in) {
+  const double inflow = in.inflow_mean_m3s + in.lateral_mean_m3s;
+  peak_inflow_m3s_ = std::max(peak_inflow_m3s_, inflow);
+  const structures::LevelPoolStep s = pool_->advance(in.t0_s, in.t1_s, inflow);
+  return {s.mean_outflow_m3s, pool_->state().outflow_m3s};
+}
+
+StationSample PoolElement::sample() const {
+  const structures::LevelPoolState& st = pool_->state();
+  StationSample s;
+  s.discharge_m3s = st.outflow_m3s;
+  s.stage_m = st.stage_m;
+  s.depth_m = std::max(0.0, st.stage_m - pool_->storage().bottom_stage_m());
+  return s;
+}
+
+VolumeLedger PoolElement::ledger() const {
+  const structures::VolumeLedger& p = pool_->ledger();
+  VolumeLedger l;
+  l.inflow_m3 = p.inflow_m3;
+  l.outflow_m3 = p.outflow_m3;
+  l.initial_storage_m3 = p.initial_storage_m3;
+  l.storage_m3 = p.storage_m3;
+  return l;
+}
+
+std::vector<ElementNote> PoolElement::notes() const {
+  std::vector<ElementNote> out;
+  if (crossing_) {
+    const structures::CrossingReport r = structures::crossing_report(*crossing_, *pool_);
+    std::string text = "peak headwater " + fixed(r.peak_headwater_stage_m, 2) + " m (" +
+                       fixed(r.peak_headwater_depth_m, 2) + " m above the inlet invert) at t = " +
+                       fixed(r.time_of_peak_headwater_s / 60.0, 1) + " min, " +
+                       (r.control_at_peak == structures::Control::inlet ? "inlet" : "outlet") +
+                       " control; ";
+    text += r.road_overtopped ? "road overtopped for " + fixed(r.overtopping_duration_s / 60.0, 1) +
+                                    " min (" + fixed(r.overtopping_discharge_at_peak_m3s, 2) +
+                                    " m3/s over the road at the peak)"
+                              : "road not overtopped";
+    if (r.stage_beyond_rating) text += "; WARNING: headwater above the tabulated rating";
+    out.push_back({text});
+  } else {
+    const structures::DetentionReport r = structures::detention_report(*pool_);
+    out.push_back({"peak stage " + fixed(r.peak_stage_m, 2) + " m at t = " +
+                   fixed(r.time_of_peak_stage_s / 60.0, 1) + " min, peak storage " +
+                   fixed(r.peak_storage_m3, 0) + " m3, peak outflow " +
+                   fixed(r.peak_outflow_m3s, 3) + " m3/s (peak inflow " +
+                   fixed(peak_inflow_m3s_, 3) + " m3/s)"});
+  }
+  return out;
+}
+
+}  // namespace freshet::network
