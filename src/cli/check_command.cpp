@@ -1,18 +1,42 @@
-// Placeholder registration while the subcommand is being written (replaced in this session).
+// freshet check: read and check a basin file without running it; every problem at once.
 #include <iostream>
+#include <map>
 
+#include "batch.hpp"
 #include "commands.hpp"
 
 namespace freshet::cli {
 
+namespace {
+
+int check(const std::string& basin) {
+  const io::Study study = io::Study::load(basin);  // InputError lists every problem
+  std::map<std::string, int> counts;
+  for (const auto& s : study.stations()) ++counts[s.kind];
+  std::cout << basin << ": no problems found.\n"
+            << "  title: " << study.settings().title << "\n"
+            << "  units: " << units::to_string(study.settings().units) << "\n  elements:";
+  for (const auto& [kind, n] : counts) std::cout << " " << n << " " << kind;
+  std::cout << "\n  storms:";
+  for (const auto& s : study.storms()) {
+    std::cout << " " << s.id << " (" << number(s.rain.total_depth_m() * 1000.0, 1) << " mm)";
+  }
+  std::cout << "\n  scenarios:";
+  if (study.scenarios().empty()) std::cout << " none";
+  for (const auto& s : study.scenarios()) std::cout << " " << s.id;
+  std::cout << "\n";
+  return kExitOk;
+}
+
+}  // namespace
+
 void add_check_command(CLI::App& app, const GlobalOptions& /*global*/, Action& action) {
-  auto* cmd = app.add_subcommand("check", "(in preparation)");
-  cmd->callback([&action] {
-    action = [] {
-      std::cerr << "freshet check: not available in this build\n";
-      return kExitUsage;
-    };
-  });
+  auto basin = std::make_shared<std::string>();
+  auto* cmd = app.add_subcommand("check",
+                                 "Check a basin file (and its scenarios) without running it.\n"
+                                 "Example: freshet check basins/tansy-brook.toml");
+  cmd->add_option("basin", *basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->callback([&action, basin] { action = [basin] { return check(*basin); }; });
 }
 
 }  // namespace freshet::cli

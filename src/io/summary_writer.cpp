@@ -228,13 +228,13 @@ nlohmann::json array_of(const std::vector<T>& records) {
 
 }  // namespace
 
-std::string format_summary_table(const RunSummary& summary) {
+std::string format_summary_table(const RunSummary& summary, bool with_caution) {
   std::string out;
   if (!summary.title.empty()) out += summary.title + "\n\n";
   out += "Stations\n" + station_table(summary);
   if (!summary.pairs.empty()) out += "\nStation pairs\n" + pair_table(summary);
   out += check_lines(summary);
-  return out + "\n" + wrapped(kCautionText, 96);
+  return with_caution ? out + "\n" + wrapped(kCautionText, 96) : out;
 }
 
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,

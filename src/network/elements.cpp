@@ -1,5 +1,6 @@
 #include "freshet/network/elements.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 
@@ -37,16 +38,21 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
           ? routing::LateralInflow::uniform(
                 length_m, PiecewiseLinearSeries::constant(in.lateral_mean_m3s / length_m))
           : routing::LateralInflow::none();
-  const routing::AdvanceResult r = reach_->advance(in.t0_s, in.t1_s, inflow, lateral);
+  routing::AdvanceResult r;
+  try {
+    r = reach_->advance(in.t0_s, in.t1_s, inflow, lateral);
+  } catch (const InputError& e) {
+    throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) +
+                         " s received an invalid forcing: " + e.what());
+  }
   if (!r.ok()) {
     throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) + " s: " +
                          r.message);
   }
   peak_inflow_m3s_ = std::max(peak_inflow_m3s_, in.inflow_mean_m3s + in.lateral_mean_m3s);
   const int last = reach_->spec().cell_count - 1;
-  if (section_.at_capacity(reach_->cell_area_m2()[static_cast<std::size_t>(last)])) {
-    ++capacity_steps_;
-  }
+  const auto areas = reach_->cell_area_m2();
+  if (section_.at_capacity(*std::max_element(areas.begin(), areas.end()))) ++capacity_steps_;
   return {r.mean_outflow_m3s, reach_->cell_discharge_m3s(last)};
 }
 
@@ -86,7 +92,7 @@ std::vector<ElementNote> ReachElement::notes() const {
     out.push_back({text});
   }
   if (capacity_steps_ > 0) {
-    out.push_back({"conduit at capacity at the outlet for " + std::to_string(capacity_steps_) +
+    out.push_back({"conduit at capacity for " + std::to_string(capacity_steps_) +
                    " coupling step(s): surcharge is not represented by the kinematic wave; "
                    "peak flows above capacity are held back"});
   }
@@ -158,7 +164,9 @@ StepOutflow PoolElement::advance(const StepInflow& in) {
   const double inflow = in.inflow_mean_m3s + in.lateral_mean_m3s;
   peak_inflow_m3s_ = std::max(peak_inflow_m3s_, inflow);
   const structures::LevelPoolStep s = pool_->advance(in.t0_s, in.t1_s, inflow);
-  return {s.mean_outflow_m3s, pool_->state().outflow_m3s};
+  // The pool's mean outflow is I - dS/dt, which round-off can leave a few 1e-14 m3/s below
+  // zero on an empty pool; nothing negative is handed downstream.
+  return {std::max(0.0, s.mean_outflow_m3s), pool_->state().outflow_m3s};
 }
 
 StationSample PoolElement::sample() const {

@@ -17,8 +17,9 @@
 namespace freshet::io {
 
 // Console table: stations, pairs, shocks, mass balance and warnings, columns aligned, units
-// in the headings (m3/s, h, m, m3), ending with the caution.
-std::string format_summary_table(const RunSummary& summary);
+// in the headings (m3/s, h, m, m3), ending with the caution unless the caller prints it
+// itself at the end of a longer report (with_caution = false).
+std::string format_summary_table(const RunSummary& summary, bool with_caution = true);
 
 // Writes `<prefix>_stations.csv`, `<prefix>_pairs.csv` and `<prefix>_checks.csv` (shocks,
 // mass-balance records and applicability warnings, one row each); returns the paths written.

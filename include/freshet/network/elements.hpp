@@ -32,7 +32,7 @@ class ReachElement final : public Element {
 
   [[nodiscard]] const routing::ReachModel& reach() const { return *reach_; }
   [[nodiscard]] const geometry::FlowSection& section() const { return section_; }
-  // Coupling steps at whose end the outlet cell carried the conduit's capacity (kinematic
+  // Coupling steps at whose end some cell held the conduit's capacity area (the kinematic
   // wave at its limit: surcharge is not represented).
   [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
   // Time-averaged inflow peak and outflow peak (m3/s), for attenuation reports.

@@ -52,6 +52,7 @@ class FieldReader {
   void finish();  // reports every key that was never read
 
   [[nodiscard]] const std::string& file() const { return file_; }
+  [[nodiscard]] std::vector<Problem>& problems() const { return problems_; }
   [[nodiscard]] const std::string& element() const { return element_; }
   [[nodiscard]] int line() const { return static_cast<int>(table_.source().begin.line); }
   [[nodiscard]] int column() const { return static_cast<int>(table_.source().begin.column); }

@@ -1,0 +1,91 @@
+// A study read from a basin file: run settings, design storms, the network, and the
+// scenarios that change it. The format (TOML, keys of freshet's own) is documented in
+// docs/basin-file.md.
+//
+// Loading checks everything at once: syntax, unknown keys, values out of range, unknown or
+// duplicate ids, cycles, CSV files named by the study, and every scenario applied to the base.
+// Problems are reported together in one InputError, each with file, line, element and field.
+// US customary input (units = "us") is converted to SI here, once.
+//
+//   Study study = Study::load("basins/tansy-brook.toml");
+//   for (const StormDefinition& storm : study.storms()) {
+//     network::Model model = study.build_model("", storm);   // "" = the base network
+//     ...
+//   }
+#pragma once
+
+#include <filesystem>
+#include <memory>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "freshet/core/units.hpp"
+#include "freshet/hydrology/hyetograph.hpp"
+#include "freshet/network/driver.hpp"
+#include "freshet/routing/routing_options.hpp"
+
+namespace freshet::io {
+
+struct StudySettings {
+  std::string title;
+  units::System units = units::System::si;
+  std::string start_iso = "2000-01-01T00:00:00Z";  // the time origin of every output
+  double duration_s = 0.0;
+  double output_interval_s = 300.0;
+  double coupling_step_s = 60.0;
+  double default_cell_length_m = 25.0;      // reaches without cells / cell_length
+  routing::RoutingOptions channel_routing;  // reaches
+  routing::RoutingOptions plane_routing;    // overland planes
+};
+
+struct StormDefinition {
+  std::string id;
+  std::string description;  // e.g. "alternating block, 60 min, 5 min blocks"
+  hydrology::Hyetograph rain;
+};
+
+struct ScenarioDefinition {
+  std::string id;
+  std::string description;
+  std::vector<std::string> changed_elements;
+};
+
+// Where a station sits, for outputs.
+struct StationDescription {
+  std::string id;
+  std::string kind;        // "reach", "culvert", ...
+  std::string name;        // human label, e.g. "Mill Lane culvert"
+  std::string to;          // downstream element id ("" for outlets)
+  bool stage_is_elevation = false;  // stage is a water-surface elevation (else a depth)
+};
+
+class Study {
+ public:
+  // Reads and checks the file; throws InputError listing every problem found.
+  static Study load(const std::filesystem::path& basin_file);
+
+  [[nodiscard]] const std::filesystem::path& file() const noexcept;
+  [[nodiscard]] const StudySettings& settings() const noexcept;
+  [[nodiscard]] const std::vector<StormDefinition>& storms() const noexcept;
+  [[nodiscard]] const std::vector<ScenarioDefinition>& scenarios() const noexcept;
+  [[nodiscard]] const StormDefinition& storm(std::string_view id) const;  // InputError if unknown
+  // Stations of the base network, in model order (one per element).
+  [[nodiscard]] std::vector<StationDescription> stations() const;
+
+  // A fresh model of the base network (scenario_id empty) or of a scenario, with every
+  // subcatchment receiving `storm`. Throws InputError for an unknown scenario.
+  [[nodiscard]] network::Model build_model(std::string_view scenario_id,
+                                           const StormDefinition& storm) const;
+
+  Study(Study&&) noexcept;
+  Study& operator=(Study&&) noexcept;
+  ~Study();
+
+ private:
+  struct Impl;
+  explicit Study(std::unique_ptr<Impl> impl);
+  std::unique_ptr<Impl> impl_;
+};
+
+}  // namespace freshet::io

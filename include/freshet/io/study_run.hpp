@@ -1,0 +1,60 @@
+// Runs one (scenario, storm) of a study end to end: builds the model, drives it, streams the
+// station series to CF NetCDF, accumulates the summaries, checks kinematic-wave
+// applicability, and writes the summary CSV and JSON files. Every output file is written
+// under a temporary name and renamed only when the run has completed.
+//
+//   Study study = Study::load("basins/tansy-brook.toml");
+//   RunRequest req{"", "aep1-60min", "out/tansy-brook", Overwrite::no, "freshet route ..."};
+//   RunOutcome r = run_study(study, req);
+//   std::cout << format_summary_table(r.summary);
+#pragma once
+
+#include <filesystem>
+#include <string>
+#include <vector>
+
+#include "freshet/io/atomic_file.hpp"
+#include "freshet/io/study.hpp"
+#include "freshet/io/summary.hpp"
+#include "freshet/network/driver.hpp"
+
+namespace freshet::io {
+
+struct RunRequest {
+  std::string scenario_id;  // empty: the base network
+  std::string storm_id;
+  std::filesystem::path out_dir;  // files go to out_dir/<scenario or "base">/<storm>...
+  Overwrite overwrite = Overwrite::no;
+  std::string history;      // command line, recorded in the NetCDF history attribute
+  std::string source;       // "freshet <version>"
+};
+
+// What one station did, for the cross-storm and cross-scenario tables.
+struct StationPeak {
+  std::string id;
+  std::string name;
+  std::string kind;
+  double peak_discharge_m3s = kNotApplicable;
+  double peak_time_s = kNotApplicable;
+  double peak_stage_m = kNotApplicable;
+  double volume_m3 = kNotApplicable;
+};
+
+struct RunOutcome {
+  std::string scenario_id;
+  std::string storm_id;
+  RunSummary summary;                  // peaks, pairs, shocks, mass balance, warnings
+  network::RunSummary numerics;        // steps, wall time, ledgers, element notes
+  std::vector<StationPeak> peaks;      // one per station, model order
+  std::vector<std::filesystem::path> files;  // written and renamed into place
+};
+
+// Runs and writes; throws InputError, NumericalError or IoError (no final file is left
+// under its final name after a failure). `progress` receives the fraction of simulated time.
+RunOutcome run_study(const Study& study, const RunRequest& request,
+                     const network::ProgressFn& progress = {});
+
+// The output folder of one run: out_dir/<scenario id, or "base">.
+std::filesystem::path run_folder(const RunRequest& request);
+
+}  // namespace freshet::io

@@ -1,0 +1,121 @@
+#include "batch.hpp"
+
+#include <atomic>
+#include <cmath>
+#include <cstdio>
+#include <exception>
+#include <mutex>
+#include <sstream>
+#include <thread>
+
+#include "freshet/core/caution.hpp"
+#include "progress.hpp"
+
+namespace freshet::cli {
+
+std::vector<io::RunOutcome> run_batch(const io::Study& study,
+                                      const std::vector<io::RunRequest>& requests,
+                                      const BatchOptions& options) {
+  const std::size_t n = requests.size();
+  std::vector<io::RunOutcome> results(n);
+  std::vector<std::exception_ptr> errors(n);
+  std::vector<double> fraction(n, 0.0);
+  std::mutex fraction_mutex;
+  Progress progress("freshet: routing " + std::to_string(n) + " run(s)", options.quiet);
+  std::atomic<std::size_t> next{0};
+
+  auto worker = [&] {
+    for (std::size_t k = next++; k < n; k = next++) {
+      try {
+        results[k] = io::run_study(study, requests[k], [&, k](double f) {
+          double total = 0.0;
+          {
+            std::lock_guard lock(fraction_mutex);
+            fraction[k] = f;
+            for (double x : fraction) total += x;
+          }
+          progress.update(total / static_cast<double>(n));
+        });
+      } catch (...) {
+        errors[k] = std::current_exception();
+      }
+    }
+  };
+  const auto threads = static_cast<std::size_t>(std::max(1, options.jobs));
+  std::vector<std::thread> pool;
+  for (std::size_t t = 1; t < std::min(threads, n); ++t) pool.emplace_back(worker);
+  worker();
+  for (auto& t : pool) t.join();
+  progress.finish();
+  for (const auto& e : errors) {
+    if (e) std::rethrow_exception(e);
+  }
+  return results;
+}
+
+std::string clock_hm(double seconds) {
+  if (!std::isfinite(seconds)) return "-";
+  const long minutes = std::lround(seconds / 60.0);
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%ld:%02ld", minutes / 60, minutes % 60);
+  return buf;
+}
+
+std::string number(double value, int digits) {
+  if (!std::isfinite(value)) return "-";
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", digits, value);
+  return buf;
+}
+
+std::string cell(const std::string& text, std::size_t width, bool right) {
+  if (text.size() >= width) return text.substr(0, width);
+  const std::string pad(width - text.size(), ' ');
+  return right ? pad + text : text + pad;
+}
+
+std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
+                                   const std::vector<io::StationDescription>& stations) {
+  std::ostringstream out;
+  out << "Critical storm at each point (highest peak discharge, m3/s):\n";
+  out << cell("point", 22);
+  for (const auto& r : runs) out << cell(r.storm_id, 14, true);
+  out << "  critical storm\n";
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    out << cell(stations[i].id, 22);
+    std::size_t best = 0;
+    for (std::size_t k = 0; k < runs.size(); ++k) {
+      const double q = runs[k].peaks[i].peak_discharge_m3s;
+      out << cell(number(q, 3), 14, true);
+      if (q > runs[best].peaks[i].peak_discharge_m3s) best = k;
+    }
+    out << "  " << runs[best].storm_id << "\n";
+  }
+  return out.str();
+}
+
+std::string format_notes(const io::RunOutcome& run) {
+  std::ostringstream out;
+  for (const auto& [id, note] : run.numerics.notes) out << "  " << id << ": " << note.text << "\n";
+  return out.str();
+}
+
+std::string wrapped_caution() {
+  std::string out;
+  std::size_t line = 0;
+  std::istringstream words{std::string(kCautionText)};
+  for (std::string w; words >> w;) {
+    if (line + w.size() + 1 > 92 && line > 0) {
+      out += "\n";
+      line = 0;
+    } else if (line > 0) {
+      out += " ";
+      ++line;
+    }
+    out += w;
+    line += w.size();
+  }
+  return out + "\n";
+}
+
+}  // namespace freshet::cli

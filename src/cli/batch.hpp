@@ -1,0 +1,46 @@
+// Runs a batch of (scenario, storm) pairs of one study on a small pool of threads, with one
+// progress line for the whole batch, and formats the tables the route and compare commands
+// print.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "freshet/io/study.hpp"
+#include "freshet/io/study_run.hpp"
+
+namespace freshet::cli {
+
+struct BatchOptions {
+  std::filesystem::path out_dir;
+  io::Overwrite overwrite = io::Overwrite::no;
+  std::string history;  // the command line
+  int jobs = 2;         // threads
+  bool quiet = false;
+};
+
+// Runs every request; results come back in request order. The first failure (by request
+// order) is rethrown after all threads have stopped; outputs of completed runs stay.
+std::vector<io::RunOutcome> run_batch(const io::Study& study,
+                                      const std::vector<io::RunRequest>& requests,
+                                      const BatchOptions& options);
+
+// "1:05" for 3900 s (hours:minutes), "-" for NaN.
+std::string clock_hm(double seconds);
+// Fixed-point with `digits` decimals, "-" for NaN.
+std::string number(double value, int digits);
+// Pads or cuts to `width` (left-aligned text, right-aligned numbers).
+std::string cell(const std::string& text, std::size_t width, bool right = false);
+
+// The storms giving the highest peak discharge at each station: one row per station with
+// the peak for every storm and the critical one.
+std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
+                                   const std::vector<io::StationDescription>& stations);
+
+// Element reports (culvert crossings, detention basins, shocks, capacity) of one run.
+std::string format_notes(const io::RunOutcome& run);
+
+// The caution, wrapped for a terminal.
+std::string wrapped_caution();
+
+}  // namespace freshet::cli

@@ -1,0 +1,65 @@
+// Builds a network::Model from the element tables of a basin file (after any scenario
+// changes were applied to them). Every problem is appended to `problems` with file, line,
+// element and field; the model is complete only when no problem was added.
+#pragma once
+
+#include <filesystem>
+#include <string>
+#include <vector>
+
+#include <toml++/toml.h>
+
+#include "field_reader.hpp"
+#include "freshet/hydrology/hyetograph.hpp"
+#include "freshet/io/study.hpp"
+#include "freshet/network/driver.hpp"
+#include "input_units.hpp"
+
+namespace freshet::io::detail {
+
+// The element arrays of a basin file, in the order they are read.
+inline constexpr std::string_view kElementArrays[] = {
+    "inflow", "subcatchment", "reach", "junction", "culvert", "detention", "outlet"};
+
+class ModelBuilder {
+ public:
+  ModelBuilder(const toml::table& root, std::string file, std::filesystem::path base_dir,
+               const StudySettings& settings, const hydrology::Hyetograph& storm,
+               std::vector<Problem>& problems);
+
+  // Reads every element; returns the model (finalized) when no problem was found, and an
+  // empty model otherwise (the problems are in the list).
+  network::Model build();
+  // The stations of the model, in model order (valid after build()).
+  [[nodiscard]] const std::vector<StationDescription>& stations() const { return stations_; }
+
+ private:
+  using Reader = FieldReader;
+  // Reads the common keys (id, to, name) and runs `read` for one element table; `read`
+  // returns the element, or nullptr when its fields had problems.
+  template <class ReadFn>
+  void element(const toml::table& table, network::ElementKind kind, ReadFn&& read);
+  void read_array(std::string_view key, network::ElementKind kind);
+
+  std::unique_ptr<network::Element> read_inflow(Reader& r, const std::string& id);
+  std::unique_ptr<network::Element> read_subcatchment(Reader& r, const std::string& id);
+  std::unique_ptr<network::Element> read_reach(Reader& r, const std::string& id);
+  std::unique_ptr<network::Element> read_culvert(Reader& r, const std::string& id);
+  std::unique_ptr<network::Element> read_detention(Reader& r, const std::string& id);
+
+  const toml::table& root_;
+  std::string file_;
+  std::filesystem::path base_dir_;
+  const StudySettings& settings_;
+  InputUnits units_;
+  const hydrology::Hyetograph& storm_;
+  std::vector<Problem>& problems_;
+  network::Model model_;
+  std::vector<StationDescription> stations_;
+  bool complete_ = true;
+};
+
+// Converts an InputError raised by a library constructor into located problems.
+void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& problems);
+
+}  // namespace freshet::io::detail

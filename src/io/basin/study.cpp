@@ -1,0 +1,339 @@
+#include "freshet/io/study.hpp"
+
+#include <map>
+#include <sstream>
+
+#include "field_reader.hpp"
+#include "freshet/hydrology/design_storm.hpp"
+#include "freshet/hydrology/idf_curve.hpp"
+#include "freshet/hydrology/nrcs_distribution.hpp"
+#include "freshet/io/csv_series.hpp"
+#include "input_units.hpp"
+#include "model_builder.hpp"
+
+namespace freshet::io {
+
+using detail::FieldReader;
+using detail::InputUnits;
+
+struct Study::Impl {
+  std::filesystem::path path;
+  std::string file;  // as named in messages
+  toml::table root;
+  StudySettings settings;
+  std::vector<StormDefinition> storms;
+  std::vector<ScenarioDefinition> scenarios;
+  std::map<std::string, toml::table, std::less<>> changes;  // scenario id -> change tables
+  std::vector<StationDescription> stations;
+
+  void read_settings(FieldReader& r, std::vector<Problem>& problems);
+  void read_storms(std::vector<Problem>& problems);
+  void read_scenarios(std::vector<Problem>& problems);
+  [[nodiscard]] toml::table apply_changes(std::string_view scenario_id,
+                                          std::vector<Problem>& problems) const;
+  network::Model build(const toml::table& tree, const hydrology::Hyetograph& rain,
+                       std::vector<Problem>& problems,
+                       std::vector<StationDescription>* stations_out = nullptr) const;
+};
+
+// ---- settings ------------------------------------------------------------------------------
+
+namespace {
+
+std::string iso_of(const toml::date_time& dt) {
+  std::ostringstream out;
+  out << dt;  // toml++ prints RFC 3339
+  return out.str();
+}
+
+routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::SchemeKind fallback) {
+  const std::string text = r.choice(
+      key, {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun"},
+      std::string(routing::to_string(fallback)));
+  return text.empty() ? fallback : routing::parse_scheme_kind(text);
+}
+
+}  // namespace
+
+void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems) {
+  const toml::table* t = top.optional_table("study");
+  if (!t) {
+    top.report_here("is missing the [study] table (title, units, duration, output interval)");
+    return;
+  }
+  FieldReader r(*t, file, "study", problems);
+  settings.title = r.text("title");
+  const std::string system = r.choice("units", {"si", "us"});
+  settings.units = units::parse_system(system).value_or(units::System::si);
+  if (const toml::node* start = r.optional_node("start")) {
+    if (auto dt = start->value<toml::date_time>()) {
+      settings.start_iso = iso_of(*dt);
+    } else {
+      r.report("start", "must be a date-time with offset, e.g. 2026-07-14T00:00:00Z");
+    }
+  }
+  settings.duration_s = r.positive("duration_h") * units::kSecondsPerHour;
+  settings.output_interval_s = r.positive("output_interval_min") * units::kSecondsPerMinute;
+  settings.coupling_step_s = r.optional_positive("coupling_step_s").value_or(60.0);
+  const InputUnits u{settings.units};
+  if (auto dx = r.optional_positive("cell_length")) settings.default_cell_length_m = u.length_m(*dx);
+  settings.channel_routing.scheme =
+      read_scheme(r, "channel_scheme", routing::SchemeKind::kExplicitUpwind);
+  // Overland planes: MUSCL-Heun by default, the scheme that meets the analytical plane
+  // solution within 1% on modest grids (tests/hydrology).
+  settings.plane_routing.scheme = read_scheme(r, "plane_scheme", routing::SchemeKind::kMusclHeun);
+  r.finish();
+  try {
+    network::ClockOptions clock{0.0, settings.duration_s, settings.output_interval_s,
+                                settings.coupling_step_s};
+    if (problems.empty()) clock.validate();
+  } catch (const InputError& e) {
+    detail::relocate(e, r, problems);
+  }
+}
+
+// ---- storms --------------------------------------------------------------------------------
+
+namespace {
+
+hydrology::Hyetograph read_series_storm(FieldReader& r, const std::filesystem::path& dir,
+                                        const std::string& label) {
+  const SeriesTable t = read_hyetograph_csv(dir / r.text("file"));
+  std::vector<double> depth_m;
+  for (std::size_t k = 1; k < t.times_s.size(); ++k) {
+    const double dt = t.times_s[k] - t.times_s[k - 1];
+    // Intensity rows are instants, linear between them: a block's depth is the exact
+    // integral. Depth rows already give the depth of the interval ending at the row.
+    depth_m.push_back(t.quantity == SeriesQuantity::rain_depth
+                          ? t.values_si[k]
+                          : 0.5 * (t.values_si[k] + t.values_si[k - 1]) * dt);
+  }
+  return hydrology::Hyetograph::from_depths(t.times_s, depth_m, label);
+}
+
+hydrology::IdfCurve read_idf(FieldReader& r, const InputUnits& u, const std::string& label) {
+  if (const toml::table* t = r.optional_table("idf")) {
+    FieldReader f(*t, r.file(), label + " idf", r.problems());
+    hydrology::IdfFormula formula;
+    formula.a = u.rain_depth_m(f.positive("a")) * 1000.0;  // to mm/h: a scales the intensity
+    formula.b_min = f.non_negative("b");
+    formula.c = f.positive("c");
+    f.finish();
+    return hydrology::IdfCurve::from_formula(formula, label);
+  }
+  if (const toml::table* t = r.optional_table("idf_table")) {
+    FieldReader f(*t, r.file(), label + " idf_table", r.problems());
+    std::vector<double> duration_s = f.numbers("durations_min");
+    std::vector<double> intensity = f.numbers("intensities");
+    for (double& d : duration_s) d *= units::kSecondsPerMinute;
+    for (double& i : intensity) i = u.rate_m_s(i);
+    f.finish();
+    return hydrology::IdfCurve::from_table(std::move(duration_s), std::move(intensity), label);
+  }
+  throw InputError(Problem{r.file(), r.line(), r.column(), label, "idf",
+                           "is missing: give idf = {a, b, c} or idf_table"});
+}
+
+}  // namespace
+
+void Study::Impl::read_storms(std::vector<Problem>& problems) {
+  const toml::array* list = root.get_as<toml::array>("storm");
+  const InputUnits u{settings.units};
+  for (const toml::node& node : list ? *list : toml::array{}) {
+    const toml::table* t = node.as_table();
+    if (!t) continue;
+    const std::string id = t->get("id") ? t->get("id")->value_or(std::string{}) : "";
+    const std::string label = "storm '" + id + "'";
+    FieldReader r(*t, file, label, problems);
+    r.text("id");
+    const std::string method =
+        r.choice("method", {"alternating-block", "chicago", "nrcs-24h", "series"});
+    const std::string description = r.optional_text("description").value_or(method);
+    try {
+      std::optional<hydrology::Hyetograph> rain;
+      if (method == "series") {
+        rain = read_series_storm(r, path.parent_path(), label);
+      } else if (method == "nrcs-24h") {
+        const std::string type = r.text("distribution");
+        const auto parsed = hydrology::parse_nrcs_rain_type(type);
+        if (!parsed) r.report("distribution", "= '" + type + "': must be one of I, IA, II, III");
+        const double depth = u.rain_depth_m(r.positive("depth"));
+        const double step = r.positive("step_min") * units::kSecondsPerMinute;
+        if (parsed) rain = hydrology::nrcs_24h_storm(*parsed, depth, step, label);
+      } else if (!method.empty()) {
+        hydrology::DesignStormOptions o;
+        o.duration_s = r.positive("duration_min") * units::kSecondsPerMinute;
+        o.step_s = r.positive("step_min") * units::kSecondsPerMinute;
+        o.peak_ratio = r.optional_number("peak_ratio").value_or(0.5);
+        const hydrology::IdfCurve idf = read_idf(r, u, label);
+        rain = method == "chicago" ? hydrology::chicago_storm(idf, o, label)
+                                   : hydrology::alternating_block_storm(idf, o, label);
+      }
+      if (rain) storms.push_back({id, description, std::move(*rain)});
+    } catch (const InputError& e) {
+      detail::relocate(e, r, problems);
+    } catch (const IoError& e) {
+      r.report_here(e.what());
+    }
+    r.finish();
+  }
+}
+
+// ---- scenarios -------------------------------------------------------------------------------
+
+void Study::Impl::read_scenarios(std::vector<Problem>& problems) {
+  const toml::array* list = root.get_as<toml::array>("scenario");
+  for (const toml::node& node : list ? *list : toml::array{}) {
+    const toml::table* t = node.as_table();
+    if (!t) continue;
+    const std::string id = t->get("id") ? t->get("id")->value_or(std::string{}) : "";
+    FieldReader r(*t, file, "scenario '" + id + "'", problems);
+    ScenarioDefinition s;
+    s.id = r.text("id");
+    s.description = r.optional_text("description").value_or("");
+    const toml::table* change = r.optional_table("change");
+    if (!change || change->empty()) r.report_here("needs a [scenario.change.<element-id>] table");
+    if (change) {
+      for (const auto& [key, value] : *change) s.changed_elements.emplace_back(key.str());
+      changes.emplace(s.id, *change);
+    }
+    for (const auto& other : scenarios) {
+      if (other.id == s.id) r.report("id", "= '" + s.id + "': another scenario has this id");
+    }
+    r.finish();
+    scenarios.push_back(std::move(s));
+  }
+}
+
+namespace {
+
+// Each key of `change` replaces the element's key whole (a table is not merged), so a
+// scenario states every field of what it changes, and no field of the old design lingers.
+void merge_into(toml::table& target, const toml::table& change) {
+  for (const auto& [key, value] : change) target.insert_or_assign(key.str(), value);
+}
+
+toml::table* find_element(toml::table& tree, std::string_view id) {
+  for (std::string_view array : detail::kElementArrays) {
+    toml::array* list = tree.get_as<toml::array>(array);
+    if (!list) continue;
+    for (toml::node& node : *list) {
+      toml::table* t = node.as_table();
+      if (t && t->get("id") && t->get("id")->value_or(std::string{}) == id) return t;
+    }
+  }
+  return nullptr;
+}
+
+}  // namespace
+
+toml::table Study::Impl::apply_changes(std::string_view scenario_id,
+                                       std::vector<Problem>& problems) const {
+  toml::table tree = root;
+  if (scenario_id.empty()) return tree;
+  const auto it = changes.find(scenario_id);
+  if (it == changes.end()) {
+    problems.push_back({file, 0, 0, "scenario '" + std::string(scenario_id) + "'", "",
+                        "is not defined in this basin file"});
+    return tree;
+  }
+  for (const auto& [element_id, value] : it->second) {
+    const auto& where = value.source().begin;
+    const std::string label = "scenario '" + std::string(scenario_id) + "'";
+    toml::table* target = find_element(tree, element_id.str());
+    if (!target) {
+      problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
+                          label, "change." + std::string(element_id.str()),
+                          "names no element of the basin"});
+    } else if (!value.is_table()) {
+      problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
+                          label, "change." + std::string(element_id.str()), "must be a table"});
+    } else if (value.as_table()->get("id") || value.as_table()->get("to")) {
+      problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
+                          label, "change." + std::string(element_id.str()),
+                          "cannot change an element's id or its 'to' link"});
+    } else {
+      merge_into(*target, *value.as_table());
+    }
+  }
+  return tree;
+}
+
+network::Model Study::Impl::build(const toml::table& tree, const hydrology::Hyetograph& rain,
+                                  std::vector<Problem>& problems,
+                                  std::vector<StationDescription>* stations_out) const {
+  detail::ModelBuilder builder(tree, file, path.parent_path(), settings, rain, problems);
+  network::Model model = builder.build();
+  if (stations_out) *stations_out = builder.stations();
+  return model;
+}
+
+// ---- Study -----------------------------------------------------------------------------------
+
+Study::Study(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
+Study::Study(Study&&) noexcept = default;
+Study& Study::operator=(Study&&) noexcept = default;
+Study::~Study() = default;
+
+Study Study::load(const std::filesystem::path& basin_file) {
+  auto impl = std::make_unique<Impl>();
+  impl->path = basin_file;
+  impl->file = basin_file.string();
+  std::vector<Problem> problems;
+  try {
+    impl->root = toml::parse_file(impl->file);
+  } catch (const toml::parse_error& e) {
+    const auto& where = e.source().begin;
+    throw InputError(Problem{impl->file, static_cast<int>(where.line),
+                             static_cast<int>(where.column), "", "",
+                             std::string(e.description())});
+  }
+  FieldReader top(impl->root, impl->file, "", problems);
+  impl->read_settings(top, problems);
+  for (std::string_view key : detail::kElementArrays) top.optional_node(key);
+  top.optional_node("storm");
+  top.optional_node("scenario");
+  top.finish();
+  impl->read_storms(problems);
+  impl->read_scenarios(problems);
+  if (impl->storms.empty() && problems.empty()) {
+    problems.push_back({impl->file, 0, 0, "", "storm", "no [[storm]] is defined"});
+  }
+  if (problems.empty()) {
+    impl->build(impl->root, impl->storms.front().rain, problems, &impl->stations);
+    for (const auto& s : impl->scenarios) {
+      const toml::table tree = impl->apply_changes(s.id, problems);
+      impl->build(tree, impl->storms.front().rain, problems);
+    }
+  }
+  if (!problems.empty()) throw InputError(std::move(problems));
+  return Study(std::move(impl));
+}
+
+const std::filesystem::path& Study::file() const noexcept { return impl_->path; }
+const StudySettings& Study::settings() const noexcept { return impl_->settings; }
+const std::vector<StormDefinition>& Study::storms() const noexcept { return impl_->storms; }
+const std::vector<ScenarioDefinition>& Study::scenarios() const noexcept {
+  return impl_->scenarios;
+}
+std::vector<StationDescription> Study::stations() const { return impl_->stations; }
+
+const StormDefinition& Study::storm(std::string_view id) const {
+  for (const auto& s : impl_->storms) {
+    if (s.id == id) return s;
+  }
+  throw InputError(Problem{impl_->file, 0, 0, "storm '" + std::string(id) + "'", "",
+                           "is not defined in this basin file"});
+}
+
+network::Model Study::build_model(std::string_view scenario_id,
+                                  const StormDefinition& storm) const {
+  std::vector<Problem> problems;
+  const toml::table tree = impl_->apply_changes(scenario_id, problems);
+  if (!problems.empty()) throw InputError(std::move(problems));
+  network::Model model = impl_->build(tree, storm.rain, problems);
+  if (!problems.empty()) throw InputError(std::move(problems));
+  return model;
+}
+
+}  // namespace freshet::io

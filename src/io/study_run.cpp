@@ -1,0 +1,321 @@
+#include "freshet/io/study_run.hpp"
+
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <ctime>
+
+#include "freshet/core/caution.hpp"
+#include "freshet/io/netcdf_writer.hpp"
+#include "freshet/io/summary_writer.hpp"
+#include "freshet/network/elements.hpp"
+
+namespace freshet::io {
+
+namespace {
+
+using network::ElementKind;
+using network::StationSample;
+
+constexpr double kMmPerHourPerMetrePerSecond = 1000.0 * 3600.0;
+
+// Ponce, Li & Simons (1978), "Applicability of kinematic and diffusion models", J. Hydraulics
+// Div. ASCE 104(HY3): kinematic waves are accurate when the dimensionless wave period
+// T S0 u0 / d0 is at least 171 (from memory).
+constexpr double kPonceKinematicLimit = 171.0;
+
+std::string fixed(double v, int digits) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
+  return buf;
+}
+
+// Streams station samples to the two NetCDF files and keeps per-station accumulators.
+class StudySink final : public network::RecordSink {
+ public:
+  StudySink(const std::vector<StationDescription>& stations, NetcdfTimeSeriesWriter* channel,
+            NetcdfTimeSeriesWriter* sub)
+      : stations_(stations), channel_(channel), sub_(sub), acc_(stations.size()),
+        at_peak_(stations.size()) {
+    for (std::size_t i = 0; i < stations.size(); ++i) {
+      (stations[i].kind == "subcatchment" ? sub_index_ : channel_index_).push_back(i);
+    }
+  }
+
+  void record(double time_s, std::span<const StationSample> samples) override {
+    for (std::size_t i = 0; i < samples.size(); ++i) {
+      const StationSample& s = samples[i];
+      if (acc_[i].sample_count() == 0 || s.discharge_m3s > acc_[i].peak_discharge_m3s()) {
+        at_peak_[i] = s;
+      }
+      acc_[i].add_sample(time_s, s.discharge_m3s, s.stage_m);
+    }
+    if (channel_) write_channel(time_s, samples);
+    if (sub_) write_sub(time_s, samples);
+  }
+
+  [[nodiscard]] const SummaryAccumulator& accumulator(std::size_t i) const { return acc_[i]; }
+  [[nodiscard]] const StationSample& at_peak(std::size_t i) const { return at_peak_[i]; }
+  [[nodiscard]] const std::vector<std::size_t>& channel_index() const { return channel_index_; }
+  [[nodiscard]] const std::vector<std::size_t>& sub_index() const { return sub_index_; }
+
+ private:
+  void write_channel(double time_s, std::span<const StationSample> samples) {
+    const std::size_t n = channel_index_.size();
+    row_.assign(4 * n, 0.0);
+    for (std::size_t k = 0; k < n; ++k) {
+      const StationSample& s = samples[channel_index_[k]];
+      row_[k] = s.discharge_m3s;
+      row_[n + k] = s.stage_m;
+      row_[2 * n + k] = s.depth_m;
+      row_[3 * n + k] = s.velocity_m_s;
+    }
+    channel_->record(time_s, row_);
+  }
+
+  void write_sub(double time_s, std::span<const StationSample> samples) {
+    const std::size_t n = sub_index_.size();
+    row_.assign(3 * n, 0.0);
+    for (std::size_t k = 0; k < n; ++k) {
+      const StationSample& s = samples[sub_index_[k]];
+      row_[k] = s.discharge_m3s;
+      row_[n + k] = s.rain_mm_h / kMmPerHourPerMetrePerSecond;    // writer expects m s-1
+      row_[2 * n + k] = s.excess_mm_h / kMmPerHourPerMetrePerSecond;
+    }
+    sub_->record(time_s, row_);
+  }
+
+  const std::vector<StationDescription>& stations_;
+  NetcdfTimeSeriesWriter* channel_;
+  NetcdfTimeSeriesWriter* sub_;
+  std::vector<SummaryAccumulator> acc_;
+  std::vector<StationSample> at_peak_;
+  std::vector<std::size_t> channel_index_;
+  std::vector<std::size_t> sub_index_;
+  std::vector<double> row_;
+};
+
+std::string now_iso() {
+  const std::time_t t = std::time(nullptr);
+  char buf[32];
+  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", std::gmtime(&t));
+  return buf;
+}
+
+constexpr const char* kReferences =
+    "Kinematic-wave routing: Lighthill & Whitham (1955) Proc. R. Soc. A 229; conservative "
+    "upwind finite volumes: LeVeque (2002) Finite Volume Methods for Hyperbolic Problems; "
+    "Manning's law and sections: Chow (1959) Open-Channel Hydraulics; losses and design storms: "
+    "NRCS (1986) TR-55, Chow, Maidment & Mays (1988) Applied Hydrology, Keifer & Chu (1957); "
+    "culverts: FHWA HDS-5 (Schall et al. 2012); applicability: Ponce, Li & Simons (1978).";
+
+NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std::string& what) {
+  NetcdfRunMetadata m;
+  m.title = study.settings().title + " - " + what + ", storm " + req.storm_id +
+            (req.scenario_id.empty() ? ", base" : ", scenario " + req.scenario_id);
+  m.summary = "Kinematic-wave routing results computed by freshet from " + study.file().string();
+  m.source = req.source;
+  m.history = now_iso() + " " + req.history;
+  m.references = kReferences;
+  m.comment = "Times are seconds since the study start; design storms begin at the study start.";
+  m.time_origin = study.settings().start_iso;
+  m.date_created = now_iso();
+  return m;
+}
+
+InstanceSet instances(const std::vector<StationDescription>& stations,
+                      const std::vector<std::size_t>& index, std::string kind) {
+  InstanceSet set;
+  set.kind = std::move(kind);
+  for (std::size_t i : index) {
+    InstanceInfo info;
+    info.id = stations[i].id;
+    info.name = stations[i].name;
+    if (stations[i].kind == "reach") info.reach_id = stations[i].id;
+    set.instances.push_back(info);
+  }
+  set.stage_datum = "the basin file's elevation datum; where a station has no bed elevation "
+                    "(junctions, reaches without outlet_invert) stage is the flow depth";
+  return set;
+}
+
+double storm_centroid_s(const hydrology::Hyetograph& rain) {
+  const auto t = rain.boundary_times_s();
+  const auto d = rain.block_depths_m();
+  double moment = 0.0, total = 0.0;
+  for (std::size_t k = 0; k < d.size(); ++k) {
+    moment += d[k] * 0.5 * (t[k] + t[k + 1]);
+    total += d[k];
+  }
+  return total > 0.0 ? moment / total : kNotApplicable;
+}
+
+}  // namespace
+
+std::filesystem::path run_folder(const RunRequest& request) {
+  return request.out_dir / (request.scenario_id.empty() ? "base" : request.scenario_id);
+}
+
+namespace {
+
+// Inflow against outflow of every element fed by exactly one other station (subcatchment
+// runoff entering along a reach counts as lateral inflow, not as a station upstream). At a
+// confluence the pair would compare a part with the whole, so confluences are left out.
+void add_pairs(const network::Model& model, RunSummary& summary) {
+  for (std::size_t i = 0; i < model.links.size(); ++i) {
+    std::vector<std::size_t> feeders;
+    for (std::size_t u : model.topology.upstream[i]) {
+      if (model.links[u].kind != ElementKind::subcatchment) feeders.push_back(u);
+    }
+    if (feeders.size() == 1) {
+      summary.pairs.push_back(compare_stations(summary.stations[feeders[0]], summary.stations[i]));
+    }
+  }
+}
+
+void add_balances(const network::RunSummary& numerics, RunSummary& summary) {
+  for (std::size_t i = 0; i < numerics.balances.size(); ++i) {
+    const network::VolumeLedger& l = numerics.balances[i].ledger;
+    MassBalanceRecord r;
+    r.element = numerics.balances[i].id;
+    r.inflow_volume_m3 = l.supplied_m3();
+    r.outflow_volume_m3 = l.outflow_m3 + l.loss_m3;
+    r.storage_change_m3 = l.storage_m3 - l.initial_storage_m3;
+    r.error_m3 = l.imbalance_m3();
+    const double scale = std::max(r.inflow_volume_m3, r.outflow_volume_m3);
+    r.relative_error = scale > 0.0 ? std::abs(r.error_m3) / scale : 0.0;
+    summary.mass_balance.push_back(r);
+  }
+}
+
+void add_shocks(const network::Model& model, RunSummary& summary) {
+  for (const auto& e : model.elements) {
+    const auto* reach = dynamic_cast<const network::ReachElement*>(e.get());
+    if (!reach) continue;
+    const routing::ShockReport& s = reach->reach().shock_report();
+    if (!s.formed) continue;
+    ShockRecord r;
+    r.element = e->id();
+    r.time_s = s.formation_time_s;
+    r.chainage_m = s.formation_position_m;
+    r.message = "speed " + fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+                fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " +
+                (s.reached_outlet ? "reached the outlet at t = " +
+                                        fixed(s.outlet_arrival_time_s / 60.0, 1) + " min"
+                                  : "did not reach the outlet");
+    summary.shocks.push_back(r);
+  }
+}
+
+// Kinematic-wave applicability per reach, backwater from pools, conduits at capacity.
+void add_warnings(const network::Model& model, const StudySink& sink,
+                  const std::vector<StationDescription>& stations, double start_s,
+                  RunSummary& summary) {
+  for (std::size_t i = 0; i < model.elements.size(); ++i) {
+    const auto* reach = dynamic_cast<const network::ReachElement*>(model.elements[i].get());
+    if (!reach) continue;
+    const StationSample& p = sink.at_peak(i);
+    const double tp_s = sink.accumulator(i).peak_time_s() - start_s;
+    const double slope = reach->section().bed_slope;
+    if (p.depth_m > 0.0 && p.velocity_m_s > 0.0 && tp_s > 0.0) {
+      // Wave period taken as twice the time to peak (common practice, no source).
+      const double tau = 2.0 * tp_s * slope * p.velocity_m_s / p.depth_m;
+      if (tau < kPonceKinematicLimit) {
+        summary.warnings.push_back(
+            {model.links[i].id, "dimensionless wave period T S0 u0/d0 = " + fixed(tau, 0) +
+                                    " < 171 (Ponce, Li & Simons 1978): the kinematic wave may "
+                                    "misstate attenuation here; consider a diffusion-wave check"});
+      }
+    }
+    if (reach->capacity_steps() > 0) {
+      summary.warnings.push_back(
+          {model.links[i].id, "conduit reached its part-full capacity; surcharge is not "
+                              "represented and inflow above capacity is held back in the reach"});
+    }
+    const std::ptrdiff_t down = model.topology.downstream[i];
+    if (down < 0) continue;
+    const auto d = static_cast<std::size_t>(down);
+    const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[d].get());
+    const double pond_m = sink.accumulator(d).peak_stage_m();
+    const double reach_m = sink.accumulator(i).peak_stage_m();
+    if (pool && stations[i].stage_is_elevation && std::isfinite(pond_m) &&
+        std::isfinite(reach_m) && pond_m > reach_m) {
+      summary.warnings.push_back(
+          {model.links[i].id, "the pond at '" + model.links[d].id + "' peaks at " +
+                                  fixed(pond_m, 2) + " m, above this reach's computed outlet "
+                                  "water level " + fixed(reach_m, 2) + " m: backwater into the "
+                                  "reach is not represented by the kinematic wave"});
+    }
+  }
+}
+
+RunSummary summarise(const Study& study, const RunRequest& req, const network::Model& model,
+                     const network::RunSummary& numerics, const StudySink& sink,
+                     const std::vector<StationDescription>& stations) {
+  RunSummary s;
+  s.title = study.settings().title + ", storm " + req.storm_id +
+            (req.scenario_id.empty() ? " (base)" : ", scenario " + req.scenario_id);
+  s.source = req.source;
+  const double centroid = storm_centroid_s(study.storm(req.storm_id).rain);
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    StationSummary st = sink.accumulator(i).station_summary(stations[i].id, stations[i].name,
+                                                            centroid);
+    st.runoff_volume_m3 = numerics.balances[i].ledger.outflow_m3;  // exact, from the ledger
+    s.stations.push_back(st);
+  }
+  add_pairs(model, s);
+  add_shocks(model, s);
+  add_balances(numerics, s);
+  add_warnings(model, sink, stations, 0.0, s);
+  return s;
+}
+
+}  // namespace
+
+RunOutcome run_study(const Study& study, const RunRequest& req,
+                     const network::ProgressFn& progress) {
+  const StormDefinition& storm = study.storm(req.storm_id);
+  network::Model model = study.build_model(req.scenario_id, storm);
+  const std::vector<StationDescription> stations = study.stations();
+  const std::filesystem::path folder = run_folder(req);
+  std::error_code ec;
+  std::filesystem::create_directories(folder, ec);
+  if (ec) throw IoError("cannot create output folder '" + folder.string() + "': " + ec.message());
+
+  NetcdfWriterOptions nc;
+  nc.overwrite = req.overwrite;
+  NetcdfTimeSeriesWriter channel(folder / (req.storm_id + ".nc"), nc);
+  NetcdfTimeSeriesWriter sub(folder / (req.storm_id + "_subcatchments.nc"), nc);
+  StudySink sink(stations, &channel, &sub);
+  channel.begin(metadata(study, req, "stations"), instances(stations, sink.channel_index(), "station"),
+                {OutputVariable::discharge, OutputVariable::stage, OutputVariable::depth,
+                 OutputVariable::velocity});
+  sub.begin(metadata(study, req, "subcatchments"),
+            instances(stations, sink.sub_index(), "subcatchment"),
+            {OutputVariable::discharge, OutputVariable::rainfall_intensity,
+             OutputVariable::rainfall_excess});
+
+  const StudySettings& set = study.settings();
+  network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s, set.coupling_step_s};
+  RunOutcome out;
+  out.scenario_id = req.scenario_id;
+  out.storm_id = req.storm_id;
+  out.numerics = network::simulate(model, clock, sink, progress);
+  out.summary = summarise(study, req, model, out.numerics, sink, stations);
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    const StationSummary& st = out.summary.stations[i];
+    out.peaks.push_back({st.station_id, st.name, stations[i].kind, st.peak_discharge_m3s,
+                         st.peak_time_s, st.peak_stage_m, st.runoff_volume_m3});
+  }
+  const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
+  for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
+  const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
+  write_summary_json(json, out.summary, req.overwrite);
+  out.files.push_back(json);
+  channel.commit();
+  sub.commit();
+  out.files.insert(out.files.begin(), {channel.final_path(), sub.final_path()});
+  return out;
+}
+
+}  // namespace freshet::io
