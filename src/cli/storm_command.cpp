@@ -173,12 +173,13 @@ struct PrintUnits {
   double depth_factor_m;  // metres per printed depth unit
   const char* depth;      // "mm" / "in"
   const char* intensity;  // "mm/h" / "in/h"
+  const char* intensity_column;  // "intensity_mm_per_h" / "intensity_in_per_h"
   int decimals;
 };
 
 PrintUnits print_units(const std::string& system) {
-  if (system == "us") return {units::kMetresPerInch, "in", "in/h", 4};
-  return {1e-3, "mm", "mm/h", 3};
+  if (system == "us") return {units::kMetresPerInch, "in", "in/h", "intensity_in_per_h", 4};
+  return {1e-3, "mm", "mm/h", "intensity_mm_per_h", 3};
 }
 
 std::string fixed(double value, int decimals) {
@@ -192,7 +193,7 @@ std::string pad_left(const std::string& text, std::size_t width) {
 }
 
 void print_table(const hydrology::Hyetograph& storm, const PrintUnits& u) {
-  const std::vector<std::string> head{"start_min", "end_min", std::string("intensity_") + u.intensity,
+  const std::vector<std::string> head{"start_min", "end_min", u.intensity_column,
                                       std::string("depth_") + u.depth,
                                       std::string("cumulative_") + u.depth};
   std::vector<std::vector<std::string>> rows{head};
@@ -247,13 +248,13 @@ int run_storm(const StormArgs& a) {
   const hydrology::Hyetograph storm = build_storm(a, method);
   const PrintUnits u = print_units(a.units);
   const std::string what = describe(a, method);
+  if (!a.out.empty()) write_csv(storm, a, what);
   std::cout << "freshet storm: " << what << "\n";
   if (a.out.empty()) {
     std::cout << "\n";
     print_table(storm, u);
     std::cout << "\n";
   } else {
-    write_csv(storm, a, what);
     std::cout << "wrote " << storm.block_count() << " blocks to " << a.out << "\n";
   }
   print_totals(storm, u);
@@ -288,7 +289,7 @@ void add_storm_command(CLI::App& app, const GlobalOptions& /*global*/, Action& a
       "      --duration-min 120 --step-min 10 --peak-ratio 0.4\n"
       "  freshet storm --method alternating-block --idf-a 2000 --idf-b 10 --idf-c 0.8 \\\n"
       "      --duration-min 60 --step-min 5 --out storm-t10.csv\n"
-      "  freshet storm --method nrcs-24h --type II --depth-in 5 --step-min 15 --units us");
+      "  freshet storm --method nrcs-24h --type II --depth-in 5 --step-min 15 --units us\n");
   cmd->callback([&action, a] { action = [a] { return run_storm(*a); }; });
 }
 

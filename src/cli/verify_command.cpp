@@ -155,7 +155,8 @@ std::string markdown_table(const std::vector<Row>& rows) {
   return out;
 }
 
-std::string report_header(ReportFormat format, std::size_t case_count) {
+std::string report_header(ReportFormat format, std::size_t case_count,
+                          const std::set<std::string>& perturbed) {
   const std::string bullet = format == ReportFormat::markdown ? "- " : "";
   std::string out = format == ReportFormat::markdown ? "# freshet verification report\n\n"
                                                      : "freshet verification report\n";
@@ -165,18 +166,25 @@ std::string report_header(ReportFormat format, std::size_t case_count) {
   out += bullet + "machine: " + machine_text() + "\n";
   out += bullet + "cases: " + std::to_string(case_count) +
          ", each computed live and compared with the published value; values in the unit "
-         "shown\n\n";
-  return out;
+         "shown\n";
+  if (!perturbed.empty()) {
+    std::string ids;
+    for (const std::string& id : perturbed) ids += (ids.empty() ? "" : ", ") + id;
+    out += bullet + "SELF-TEST: " + kPerturbVariable + " multiplied the published value of " +
+           ids + " by 1.1; this report is not a verification record\n";
+  }
+  return out + "\n";
 }
 
-std::string format_report(const std::vector<CaseResult>& results, ReportFormat format) {
+std::string format_report(const std::vector<CaseResult>& results, ReportFormat format,
+                          const std::set<std::string>& perturbed) {
   std::vector<Row> rows{header_row()};
   int failed = 0;
   for (const CaseResult& r : results) {
     rows.push_back(result_row(r));
     failed += r.passed ? 0 : 1;
   }
-  std::string out = report_header(format, results.size());
+  std::string out = report_header(format, results.size(), perturbed);
   out += format == ReportFormat::markdown ? markdown_table(rows) : text_table(rows);
   out += "\n" + std::to_string(static_cast<int>(results.size()) - failed) + " passed, " +
          std::to_string(failed) + " failed\n\n";
@@ -201,12 +209,12 @@ int run_verify(const VerifyArgs& args) {
     const bool perturb = perturbed.count(std::string(c.id)) > 0;
     results.push_back(run_case(c, perturb ? kPerturbFactor : 1.0));
   }
-  std::cout << format_report(results, ReportFormat::text);
+  std::cout << format_report(results, ReportFormat::text, perturbed);
   if (!args.out.empty()) {
     const std::filesystem::path path(args.out);
     const ReportFormat format =
         path.extension() == ".md" ? ReportFormat::markdown : ReportFormat::text;
-    io::write_file_atomically(path, format_report(results, format),
+    io::write_file_atomically(path, format_report(results, format, perturbed),
                               args.overwrite ? io::Overwrite::yes : io::Overwrite::no);
   }
   std::string failures;
@@ -236,7 +244,7 @@ void add_verify_command(CLI::App& app, const GlobalOptions& /*global*/, Action& 
       "  freshet verify\n"
       "  freshet verify --out verification-report.md\n"
       "  freshet verify --list\n"
-      "The cases and their sources are described in docs/verification.md.");
+      "The cases and their sources are described in docs/verification.md.\n");
   cmd->callback([&action, args] { action = [args] { return run_verify(*args); }; });
 }
 
