@@ -32,6 +32,7 @@
 #include "freshet/core/root_finding.hpp"
 #include "freshet/core/time_series.hpp"
 #include "freshet/geometry/flux_law.hpp"
+#include "freshet/routing/detail/celerity_envelope.hpp"
 #include "freshet/routing/detail/flux_eval.hpp"
 #include "freshet/routing/detail/kernels.hpp"
 #include "freshet/routing/diagnostics.hpp"
@@ -68,7 +69,9 @@ class ReachModel {
   [[nodiscard]] virtual const VolumeLedger& ledger() const noexcept = 0;
   [[nodiscard]] virtual RunDiagnostics diagnostics() const = 0;
   [[nodiscard]] virtual const ShockReport& shock_report() const noexcept = 0;
-  // Bytes of per-cell arrays held (state, faces, scratch, per-cell laws) divided by N.
+  // Bytes of per-cell arrays held (state, faces, scratch, per-cell laws, lateral map) divided
+  // by N. Per-reach constants (a 6.4 kB celerity envelope for laws whose celerity may fall
+  // with area) are not included.
   [[nodiscard]] virtual double memory_bytes_per_cell() const noexcept = 0;
 };
 
@@ -140,8 +143,10 @@ class KinematicReach final : public ReachModel {
   void observe_shock(double t);
   double clear_negative_areas_into_outflow();
 
-  template <bool kUniform, bool kMonotone, bool kLateral>
+  template <bool kUniform, bool kLateral>
   StepResult explicit_step(double dt, double inflow_m3);
+  // Uniform law: a bound on max_i c(A_i) from the largest area (exact for monotone c).
+  [[nodiscard]] double celerity_bound(double max_area_m2, std::span<const double> areas) const noexcept;
   template <bool kUniform, bool kLateral>
   StepResult implicit_step(double dt, double inflow_m3);
   template <bool kUniform, Limiter kLimiter>
@@ -149,22 +154,24 @@ class KinematicReach final : public ReachModel {
                              const PiecewiseLinearSeries& inflow);
   template <bool kUniform, Limiter kLimiter>
   void muscl_fluxes(const double* a, double a_ghost, double flux_in, double* face) const;
-  bool solve_implicit_cell(const F& law, double lambda, double rhs, double guess, double& area,
-                           double& flux, double& celerity) const;
+  bool solve_implicit_cell(const F& law, double lambda, double rhs, double guess, double q_guess,
+                           double c_guess, double& area, double& flux, double& celerity) const;
 
   ReachSpec spec_;
   RoutingOptions opt_;
   double dx_ = 0.0;
   bool monotone_ = false;             // uniform law whose celerity never decreases with A
+  detail::CelerityEnvelope envelope_; // uniform law with possibly decreasing celerity
   std::vector<F> laws_;               // size 1 (uniform) or N
   std::vector<double> area_;          // N: the state
   std::vector<double> face_;          // N+1: fluxes applied by the last step
   std::vector<double> next_;          // N: candidate state of the step being tried
-  std::vector<double> stage_;         // N: MUSCL-Heun stage / scratch
+  std::vector<double> stage_;         // N: MUSCL-Heun stage, implicit Q at the guesses, scratch
   std::vector<double> lateral_m3_;    // N: lateral volume per cell over the step (if any)
   CellLateralMap lateral_map_;
   double time_s_ = std::numeric_limits<double>::quiet_NaN();
   double c_max_ = 0.0;                // celerity bound of the current state
+  bool previous_state_valid_ = false; // next_ holds the state before the last step
   double dt_cap_ = std::numeric_limits<double>::infinity();  // shrinks after rejections
   VolumeLedger ledger_;
   RunDiagnostics diag_;
@@ -198,11 +205,12 @@ KinematicReach<F>::KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOp
   const auto cells = static_cast<std::size_t>(spec_.cell_count);
   dx_ = spec_.length_m / spec_.cell_count;
   monotone_ = uniform() && detail::celerity_non_decreasing(laws_.front());
+  if (uniform() && !monotone_) envelope_ = detail::CelerityEnvelope(laws_.front());
   area_.assign(cells, 0.0);
   face_.assign(cells + 1, 0.0);
   next_.assign(cells, 0.0);
-  // stage_: MUSCL-Heun stage areas, and celerities for the shock detector at observations.
-  if (opt_.scheme == SchemeKind::kMusclHeun || opt_.shock.enabled) stage_.assign(cells, 0.0);
+  // stage_: MUSCL-Heun stage areas, implicit Q at the Newton guesses, detector celerities.
+  if (opt_.scheme != SchemeKind::kExplicitUpwind || opt_.shock.enabled) stage_.assign(cells, 0.0);
   detector_ = ShockDetector(resolved_shock_options(opt_), dx_, spec_.cell_count);
   diag_.scheme = std::string(to_string(opt_.scheme));
   restart_ledger();
@@ -241,6 +249,7 @@ void KinematicReach<F>::restart_ledger() {
   for (std::size_t i = 0; i < n(); ++i) face_[i + 1] = law(i).discharge_m3s(area_[i]);
   face_[0] = face_[1];
   time_s_ = std::numeric_limits<double>::quiet_NaN();
+  previous_state_valid_ = false;
   c_max_ = current_c_max();
   detector_.reset();
 }
@@ -253,8 +262,20 @@ double KinematicReach<F>::storage_m3() const noexcept {
 }
 
 template <geometry::FluxLaw F>
+double KinematicReach<F>::celerity_bound(double max_area_m2,
+                                         std::span<const double> areas) const noexcept {
+  const double c_at_max = laws_.front().celerity_m_s(max_area_m2);
+  if (monotone_) return c_at_max;
+  const double bound = envelope_.bound(max_area_m2, c_at_max);
+  if (bound >= 0.0) return bound;
+  double c = 0.0;  // beyond the envelope table: evaluate every cell
+  for (double a : areas) c = std::max(c, laws_.front().celerity_m_s(a));
+  return c;
+}
+
+template <geometry::FluxLaw F>
 double KinematicReach<F>::current_c_max() const noexcept {
-  if (monotone_) return laws_.front().celerity_m_s(*std::max_element(area_.begin(), area_.end()));
+  if (uniform()) return celerity_bound(*std::max_element(area_.begin(), area_.end()), area_);
   double c = 0.0;
   for (std::size_t i = 0; i < n(); ++i) c = std::max(c, law(i).celerity_m_s(area_[i]));
   return c;
@@ -313,14 +334,9 @@ typename KinematicReach<F>::StepResult KinematicReach<F>::try_step(
         return muscl_heun_step<decltype(u)::value, Limiter::kVanLeer>(t, dt, forcing.inflow_m3, inflow);
       });
     default:
-      if (monotone_) {
-        return detail::with_flag(lat, [&](auto l) {
-          return explicit_step<true, true, decltype(l)::value>(dt, forcing.inflow_m3);
-        });
-      }
       return detail::with_flag(uniform(), [&](auto u) {
         return detail::with_flag(lat, [&](auto l) {
-          return explicit_step<decltype(u)::value, false, decltype(l)::value>(dt, forcing.inflow_m3);
+          return explicit_step<decltype(u)::value, decltype(l)::value>(dt, forcing.inflow_m3);
         });
       });
   }
@@ -330,7 +346,7 @@ typename KinematicReach<F>::StepResult KinematicReach<F>::try_step(
 // upwind flux, sec. 4.8): A_i^{n+1} = A_i^n - dt/dx (Q_i(A_i^n) - Q_{i-1}(A_{i-1}^n)) + V_lat,i/dx.
 // One flux evaluation per cell; no allocation, no virtual call.
 template <geometry::FluxLaw F>
-template <bool kUniform, bool kMonotone, bool kLateral>
+template <bool kUniform, bool kLateral>
 typename KinematicReach<F>::StepResult KinematicReach<F>::explicit_step(double dt,
                                                                         double inflow_m3) {
   const std::size_t cells = n();
@@ -352,36 +368,44 @@ typename KinematicReach<F>::StepResult KinematicReach<F>::explicit_step(double d
     next[i] = a_new;
     a_min = std::min(a_min, a_new);
     a_max = std::max(a_max, a_new);
-    if constexpr (!kMonotone) c_max = std::max(c_max, law_i.celerity_m_s(a_new));
+    if constexpr (!kUniform) c_max = std::max(c_max, law_i.celerity_m_s(a_new));
     flux_left = flux_right;
   }
-  if constexpr (kMonotone) c_max = laws_[0].celerity_m_s(a_max);
+  if constexpr (kUniform) c_max = celerity_bound(a_max, next_);
   return {a_min >= 0.0, c_max, dt * face[cells]};
 }
 
 // Safeguarded Newton for the implicit cell equation g(A) = A + lambda Q(A) - rhs = 0 on
-// [0, rhs] (g is increasing, g(0) <= 0 <= g(rhs)). Newton steps leaving the shrinking bracket
-// are replaced by bisection (Press et al. 2007, Numerical Recipes 3rd ed., sec. 9.4); if the
-// fast loop does not converge, core's solve_bracketed_newton finishes the job. The flux is
-// returned as (rhs - A) / lambda so that the cell balance holds exactly.
+// [0, rhs] (g is increasing, g(0) <= 0 <= g(rhs)), starting from `guess` where Q and c are
+// already known. Newton steps leaving the shrinking bracket are replaced by bisection (Press
+// et al. 2007, Numerical Recipes 3rd ed., sec. 9.4); if the loop does not converge, core's
+// solve_bracketed_newton finishes the job. A Newton step smaller than 1e-6 A is accepted
+// without a further evaluation (quadratic convergence leaves an error near 1e-12 A); the
+// flux is returned as (rhs - A) / lambda, so the cell balance holds exactly whatever A is.
 template <geometry::FluxLaw F>
 bool KinematicReach<F>::solve_implicit_cell(const F& law_i, double lambda, double rhs,
-                                            double guess, double& area, double& flux,
-                                            double& celerity) const {
+                                            double guess, double q, double c, double& area,
+                                            double& flux, double& celerity) const {
   if (!(rhs > 0.0)) {
     area = 0.0, flux = 0.0, celerity = law_i.celerity_m_s(0.0);
     return true;
   }
-  double lo = 0.0, hi = rhs, x = std::clamp(guess, 0.0, rhs), q = 0.0, c = 0.0;
-  bool converged = false;
-  for (int it = 0; it < opt_.newton_max_iterations && !converged; ++it) {
+  double lo = 0.0, hi = rhs, x = guess;
+  if (!(x >= 0.0 && x <= rhs)) {
+    x = std::clamp(guess, 0.0, rhs);
     detail::flux_and_celerity(law_i, x, q, c);
+  }
+  bool converged = false;
+  for (int it = 0; it < opt_.newton_max_iterations; ++it) {
     const double g = x + lambda * q - rhs;
+    if (g == 0.0) { converged = true; break; }
     (g > 0.0 ? hi : lo) = x;
     double x_new = x - g / (1.0 + lambda * c);
     if (!(x_new > lo && x_new < hi)) x_new = 0.5 * (lo + hi);
-    converged = std::abs(x_new - x) <= 1e-13 * x_new || g == 0.0;
-    x = g == 0.0 ? x : x_new;
+    const bool small_step = std::abs(x_new - x) <= 1e-6 * x_new;
+    x = x_new;
+    if (small_step) { converged = true; break; }
+    detail::flux_and_celerity(law_i, x, q, c);
   }
   if (!converged) {
     auto fdf = [&](double y, double& g, double& dg) {
@@ -410,6 +434,14 @@ typename KinematicReach<F>::StepResult KinematicReach<F>::implicit_step(double d
   const std::size_t cells = n();
   const double lambda = dt / dx_;
   const double inv_dx = 1.0 / dx_;
+  // Pass 1, independent per cell (so evaluations overlap): the guess, linear extrapolation
+  // in time from the previous state when next_ still holds it, and Q, c there.
+  for (std::size_t i = 0; i < cells; ++i) {
+    const double guess = previous_state_valid_ ? std::max(0.0, 2.0 * area_[i] - next_[i]) : area_[i];
+    next_[i] = guess;
+    detail::flux_and_celerity(laws_[kUniform ? 0 : i], guess, stage_[i], face_[i + 1]);
+  }
+  // Pass 2, downstream: the cell equations, each needing the flux just found upstream.
   double flux_left = inflow_m3 / dt;
   face_[0] = flux_left;
   double c_max = 0.0;
@@ -418,7 +450,11 @@ typename KinematicReach<F>::StepResult KinematicReach<F>::implicit_step(double d
     double rhs = area_[i] + lambda * flux_left;
     if constexpr (kLateral) rhs += lateral_m3_[i] * inv_dx;
     double a_new = 0.0, flux_right = 0.0, c = 0.0;
-    if (!solve_implicit_cell(law_i, lambda, rhs, area_[i], a_new, flux_right, c)) return {};
+    if (!solve_implicit_cell(law_i, lambda, rhs, next_[i], stage_[i], face_[i + 1], a_new,
+                             flux_right, c)) {
+      previous_state_valid_ = false;
+      return {};
+    }
     next_[i] = a_new;
     face_[i + 1] = flux_right;
     c_max = std::max(c_max, c);
@@ -481,12 +517,12 @@ typename KinematicReach<F>::StepResult KinematicReach<F>::muscl_heun_step(
     next_[i] = 0.5 * (area_[i] + a2);
     a_min = std::min(a_min, next_[i]);
     a_max = std::max(a_max, next_[i]);
-    if (!monotone_) c_max = std::max(c_max, law_i.celerity_m_s(next_[i]));
+    if constexpr (!kUniform) c_max = std::max(c_max, law_i.celerity_m_s(next_[i]));
     a_prev = stage_[i];
     flux_left = flux_right;
   }
   face_[cells] = 0.5 * (face_[cells] + flux_left);
-  if (monotone_) c_max = law0.celerity_m_s(a_max);
+  if constexpr (kUniform) c_max = celerity_bound(a_max, next_);
   return {a_min >= 0.0, c_max, dt * face_[cells]};
 }
 
@@ -566,6 +602,7 @@ void KinematicReach<F>::accept_step(const StepResult& s, double dt, const Forcin
                                     AdvanceResult& r) {
   const double courant = dt * std::max(c_max_, s.c_max_after_m_s) / dx_;
   area_.swap(next_);
+  previous_state_valid_ = true;
   c_max_ = s.c_max_after_m_s;
   ledger_.inflow_m3 += forcing.inflow_m3;
   ledger_.lateral_m3 += forcing.lateral_m3;
@@ -604,6 +641,7 @@ void KinematicReach<F>::observe_shock(double t) {
   if (!opt_.shock.enabled) return;
   for (std::size_t i = 0; i < n(); ++i) detail::flux_and_celerity(law(i), area_[i], next_[i], stage_[i]);
   detector_.observe(t, area_, next_, stage_);
+  previous_state_valid_ = false;  // next_ now holds discharges
 }
 
 // Method of lines: dA_i/dt = (F_i - F_{i+1})/dx + q_lat,i with upwind fluxes, plus one extra

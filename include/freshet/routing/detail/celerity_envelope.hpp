@@ -1,0 +1,55 @@
+// Upper bound of the celerity over all areas up to A, for Courant checks without evaluating
+// c in every cell (detail).
+//
+// bound(A) = max(c(A), max_{A_j < A} c(A_j)) over a geometric table of areas A_j = 2^(j/16)
+// m2, 2^-25 .. 2^25 m2, built once per reach. Since every cell has A_i <= max_i A_i,
+// max_i c(A_i) <= bound(max_i A_i) up to the table's sampling of c between nodes (one
+// sixteenth of an octave apart); for a law whose c never decreases, bound(A) = c(A) exactly.
+// Laws whose c falls with A (a part-full pipe above 0.8 D, the capped region of a conduit)
+// get a bound from the rising branch, so the Courant check stays conservative.
+#pragma once
+
+#include <algorithm>
+#include <cmath>
+#include <vector>
+
+namespace freshet::routing::detail {
+
+class CelerityEnvelope {
+ public:
+  static constexpr int kNodesPerOctave = 16;
+  static constexpr int kOctaves = 25;
+
+  CelerityEnvelope() = default;
+  template <class F>
+  explicit CelerityEnvelope(const F& law) {
+    running_max_.resize(2 * kNodesPerOctave * kOctaves + 1);
+    double m = 0.0;
+    for (std::size_t j = 0; j < running_max_.size(); ++j) {
+      m = std::max(m, law.celerity_m_s(node_area(static_cast<int>(j))));
+      running_max_[j] = m;
+    }
+  }
+
+  // c_at_area is c(area_m2), evaluated by the caller. Returns a negative value when area_m2
+  // lies beyond the table (the caller then evaluates every cell).
+  [[nodiscard]] double bound(double area_m2, double c_at_area) const noexcept {
+    if (!(area_m2 > node_area(0))) return std::max(c_at_area, 0.0);
+    const int j = static_cast<int>(std::ceil(kNodesPerOctave * std::log2(area_m2))) +
+                  kNodesPerOctave * kOctaves - 1;  // last node strictly below area_m2
+    if (j >= static_cast<int>(running_max_.size())) return -1.0;
+    return std::max(c_at_area, running_max_[static_cast<std::size_t>(j)]);
+  }
+  [[nodiscard]] bool empty() const noexcept { return running_max_.empty(); }
+  [[nodiscard]] std::size_t memory_bytes() const noexcept {
+    return running_max_.capacity() * sizeof(double);
+  }
+
+ private:
+  static double node_area(int j) noexcept {
+    return std::exp2(static_cast<double>(j - kNodesPerOctave * kOctaves) / kNodesPerOctave);
+  }
+  std::vector<double> running_max_;
+};
+
+}  // namespace freshet::routing::detail

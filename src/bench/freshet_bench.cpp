@@ -1,0 +1,140 @@
+// freshet-bench: cell-update rates of the routing schemes, side by side with a bare loop that
+// only evaluates the same flux law over the same cells in the same run.
+//
+//   ./freshet-bench [cells] [repeats]     (defaults 20000 cells, best of 3)
+//
+// Prints, per flux law: bare Q(A) evaluations per second; per scheme: cell updates per second
+// (accepted steps x cells), the ratio to the bare loop, the cost per step relative to the
+// explicit scheme, and the bytes per cell the reach holds. Not a test: figures depend on the
+// machine (see docs/performance.md for measured values and how to reproduce them).
+#include <algorithm>
+#include <chrono>
+#include <cstdio>
+#include <cstdlib>
+#include <string>
+#include <vector>
+
+#include "freshet/geometry/section_flux.hpp"
+#include "freshet/routing/kinematic_reach.hpp"
+
+namespace {
+
+using namespace freshet;
+using namespace freshet::routing;
+using Clock = std::chrono::steady_clock;
+
+double seconds_since(Clock::time_point start) {
+  return std::chrono::duration<double>(Clock::now() - start).count();
+}
+
+struct Measured {
+  double cell_updates_per_s = 0.0;
+  double seconds_per_step = 0.0;
+  double bytes_per_cell = 0.0;
+  double max_courant = 0.0;
+};
+
+// Every cell active in every step: the reach starts with a discharge falling linearly from
+// 10 x base at the inlet to base at the outlet (a long compression wave) and takes 10 x base in.
+template <class Law>
+Measured run_scheme(const Law& law, int cells, SchemeKind scheme, double implicit_courant,
+                    double base_q, int repeats) {
+  Measured best;
+  for (int r = 0; r < repeats; ++r) {
+    RoutingOptions opt;
+    opt.scheme = scheme;
+    opt.implicit_courant = implicit_courant;
+    const double length = 10.0 * cells;  // dx = 10 m
+    KinematicReach<Law> reach({"bench", length, cells}, law, opt);
+    std::vector<double> a0(static_cast<std::size_t>(cells));
+    for (int i = 0; i < cells; ++i) {
+      a0[static_cast<std::size_t>(i)] = law.area_for_discharge_m2(base_q * (10.0 - 9.0 * i / cells));
+    }
+    reach.set_initial_areas(a0);
+    const double c = law.celerity_m_s(law.area_for_discharge_m2(10.0 * base_q));
+    const double t_end = 200.0 * 10.0 / c;  // ~200 explicit steps at the peak celerity
+    const auto inflow = PiecewiseLinearSeries::constant(10.0 * base_q);
+    const auto start = Clock::now();
+    (void)reach.advance(0.0, t_end, inflow, LateralInflow::none());
+    const double wall = seconds_since(start);
+    const RunDiagnostics d = reach.diagnostics();
+    const double rate = static_cast<double>(d.cell_updates) / wall;
+    if (rate > best.cell_updates_per_s) {
+      best.cell_updates_per_s = rate;
+      best.seconds_per_step = wall / static_cast<double>(d.steps_taken);
+      best.bytes_per_cell = reach.memory_bytes_per_cell();
+      best.max_courant = d.max_courant;
+    }
+  }
+  return best;
+}
+
+// The bare loop: Q(A) over the same number of cells, as many sweeps as `sweeps`.
+template <class Law>
+double bare_rate(const Law& law, int cells, double base_q, int sweeps, int repeats) {
+  std::vector<double> a(static_cast<std::size_t>(cells));
+  for (int i = 0; i < cells; ++i) {
+    a[static_cast<std::size_t>(i)] = law.area_for_discharge_m2(base_q * (1.0 + 9.0 * i / cells));
+  }
+  double best = 0.0, sink = 0.0;
+  for (int r = 0; r < repeats; ++r) {
+    const auto start = Clock::now();
+    for (int s = 0; s < sweeps; ++s) {
+      double sum = 0.0;
+      for (double x : a) sum += law.discharge_m3s(x);
+      sink += sum;
+      a[static_cast<std::size_t>(s % cells)] *= 1.0 + 1e-16;  // keep the loop from hoisting
+    }
+    best = std::max(best, static_cast<double>(cells) * sweeps / seconds_since(start));
+  }
+  if (sink == 42.0) std::puts("");  // consume the result
+  return best;
+}
+
+template <class Law>
+void bench_law(const char* name, const Law& law, int cells, double base_q, int repeats) {
+  const double bare = bare_rate(law, cells, base_q, 400, repeats);
+  std::printf("\n%s: bare Q(A) loop %.3g evaluations/s\n", name, bare);
+  std::printf("  %-26s %14s %9s %14s %10s %9s\n", "scheme", "cell-upd/s", "vs bare",
+              "step cost", "B/cell", "Courant");
+  const Measured explicit_run =
+      run_scheme(law, cells, SchemeKind::kExplicitUpwind, 10.0, base_q, repeats);
+  struct Row {
+    const char* label;
+    SchemeKind scheme;
+    double courant;
+  };
+  const Row rows[] = {{"explicit-upwind", SchemeKind::kExplicitUpwind, 10.0},
+                      {"implicit-upwind (C=10)", SchemeKind::kImplicitUpwind, 10.0},
+                      {"muscl-heun (per stage)", SchemeKind::kMusclHeun, 10.0},
+                      {"method-of-lines", SchemeKind::kMethodOfLines, 10.0}};
+  for (const Row& row : rows) {
+    const Measured m = row.scheme == SchemeKind::kExplicitUpwind
+                           ? explicit_run
+                           : run_scheme(law, cells, row.scheme, row.courant, base_q, repeats);
+    std::printf("  %-26s %14.4g %9.3f %13.2fx %10.1f %9.2f\n", row.label, m.cell_updates_per_s,
+                m.cell_updates_per_s / bare, m.seconds_per_step / explicit_run.seconds_per_step,
+                m.bytes_per_cell, m.max_courant);
+  }
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  const int cells = argc > 1 ? std::atoi(argv[1]) : 20000;
+  const int repeats = argc > 2 ? std::atoi(argv[2]) : 3;
+  std::printf("freshet-bench: %d cells (dx = 10 m), best of %d; step cost relative to explicit\n",
+              cells, repeats);
+  const double slope = 0.002;
+  bench_law("wide channel, power law Q = alpha A^(5/3)",
+            geometry::PowerLawFlux(std::sqrt(slope) / (0.03 * std::pow(20.0, 2.0 / 3.0)), 5.0 / 3.0),
+            cells, 5.0, repeats);
+  bench_law("rectangular 20 m (RectangularFlux)", geometry::RectangularFlux(20.0, 0.03, slope),
+            cells, 5.0, repeats);
+  bench_law("trapezoidal 3 m, 2:1 (TrapezoidalFlux)",
+            geometry::TrapezoidalFlux(3.0, 2.0, 2.0, 0.03, slope), cells, 5.0, repeats);
+  const auto pipe = geometry::make_section(geometry::CircularSpec{2.0, 0.013});
+  bench_law("circular 2 m pipe (TabulatedFlux)",
+            geometry::TabulatedFlux::from_section(*pipe, slope), cells, 0.5, repeats);
+  return 0;
+}
