@@ -1,18 +1,126 @@
-// Placeholder registration while the subcommand is being written (replaced in this session).
+// freshet compare: route the base network and its scenarios under the same storms and print,
+// for each point of interest, the results side by side with their differences from the base.
 #include <iostream>
+#include <sstream>
 
+#include "batch.hpp"
 #include "commands.hpp"
+#include "freshet_version.hpp"
 
 namespace freshet::cli {
 
-void add_compare_command(CLI::App& app, const GlobalOptions& /*global*/, Action& action) {
-  auto* cmd = app.add_subcommand("compare", "(in preparation)");
-  cmd->callback([&action] {
-    action = [] {
-      std::cerr << "freshet compare: not available in this build\n";
-      return kExitUsage;
-    };
-  });
+namespace {
+
+struct CompareArgs {
+  std::string basin;
+  std::vector<std::string> storms;
+  std::vector<std::string> scenarios;
+  std::string out_dir;
+  bool overwrite = false;
+  int jobs = 2;
+  bool all_points = false;
+};
+
+std::string signed_number(double v, int digits) {
+  if (!std::isfinite(v)) return "-";
+  return (v >= 0.0 ? "+" : "") + number(v, digits);
+}
+
+// One storm: rows per point of interest, one line per scenario (base first).
+std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
+                             const std::vector<io::StationDescription>& stations,
+                             bool all_points) {
+  std::ostringstream out;
+  out << cell("point", 16) << cell("scenario", 16) << cell("peak Q m3/s", 12, true)
+      << cell("vs base", 9, true) << cell("t peak", 8, true) << cell("peak stage m", 13, true)
+      << cell("vs base", 9, true) << cell("volume m3", 12, true) << cell("overtopping", 13, true)
+      << "\n";
+  const io::RunOutcome& base = *runs.front();
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    if (!all_points && (stations[i].kind == "subcatchment" || stations[i].kind == "inflow")) {
+      continue;
+    }
+    for (std::size_t k = 0; k < runs.size(); ++k) {
+      const io::StationPeak& p = runs[k]->peaks[i];
+      const io::StationPeak& b = base.peaks[i];
+      out << cell(k == 0 ? stations[i].id : "", 16)
+          << cell(runs[k]->scenario_id.empty() ? "base" : runs[k]->scenario_id, 16)
+          << cell(number(p.peak_discharge_m3s, 3), 12, true)
+          << cell(k == 0 ? "" : signed_number(p.peak_discharge_m3s - b.peak_discharge_m3s, 3), 9,
+                  true)
+          << cell(clock_hm(p.peak_time_s), 8, true) << cell(number(p.peak_stage_m, 2), 13, true)
+          << cell(k == 0 ? "" : signed_number(p.peak_stage_m - b.peak_stage_m, 2), 9, true)
+          << cell(number(p.volume_m3, 0), 12, true)
+          << cell(p.overtopping.empty() ? "" : p.overtopping, 13, true) << "\n";
+    }
+  }
+  return out.str();
+}
+
+int compare(const CompareArgs& a, const GlobalOptions& global) {
+  const io::Study study = io::Study::load(a.basin);
+  std::vector<std::string> storms = a.storms;
+  if (storms.empty()) {
+    for (const auto& s : study.storms()) storms.push_back(s.id);
+  }
+  std::vector<std::string> scenarios{""};
+  if (a.scenarios.empty()) {
+    for (const auto& s : study.scenarios()) scenarios.push_back(s.id);
+  } else {
+    scenarios.insert(scenarios.end(), a.scenarios.begin(), a.scenarios.end());
+  }
+  BatchOptions options;
+  options.out_dir = a.out_dir.empty() ? std::filesystem::path("out") /
+                                            std::filesystem::path(a.basin).stem()
+                                      : std::filesystem::path(a.out_dir);
+  options.overwrite = a.overwrite ? io::Overwrite::yes : io::Overwrite::no;
+  options.jobs = a.jobs;
+  options.quiet = global.quiet;
+  std::vector<io::RunRequest> requests;
+  for (const auto& storm : storms) {
+    (void)study.storm(storm);
+    for (const auto& scenario : scenarios) {
+      requests.push_back({scenario, storm, options.out_dir, options.overwrite,
+                          "freshet compare " + a.basin,
+                          std::string("freshet ") + FRESHET_VERSION});
+    }
+  }
+  if (scenarios.size() == 1) {
+    std::cerr << "freshet compare: note: the basin file defines no [[scenario]]; showing the base\n";
+  }
+  const std::vector<io::RunOutcome> runs = run_batch(study, requests, options);
+  std::cout << study.settings().title << "\nComparison of the base network";
+  for (std::size_t k = 1; k < scenarios.size(); ++k) std::cout << (k == 1 ? " with " : ", ") << scenarios[k];
+  std::cout << "\n";
+  for (const auto& s : study.scenarios()) std::cout << "  " << s.id << ": " << s.description << "\n";
+  for (std::size_t j = 0; j < storms.size(); ++j) {
+    std::vector<const io::RunOutcome*> group;
+    for (std::size_t k = 0; k < scenarios.size(); ++k) group.push_back(&runs[j * scenarios.size() + k]);
+    std::cout << "\nStorm " << storms[j] << " (t peak in h:min from the study start)\n"
+              << comparison_table(group, study.stations(), a.all_points);
+  }
+  std::cout << "\nEach run's full results: " << options.out_dir.string()
+            << "/<base or scenario>/<storm>.nc and <storm>_summary.*\n\n"
+            << wrapped_caution();
+  return kExitOk;
+}
+
+}  // namespace
+
+void add_compare_command(CLI::App& app, const GlobalOptions& global, Action& action) {
+  auto args = std::make_shared<CompareArgs>();
+  auto* cmd = app.add_subcommand(
+      "compare",
+      "Route the base network and its scenarios under the same storms; print them side by side.\n"
+      "Example: freshet compare basins/tansy-brook.toml --storm aep1-60min");
+  cmd->add_option("basin", args->basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("-s,--storm", args->storms, "Storm id (repeatable; default: all)");
+  cmd->add_option("--scenario", args->scenarios, "Scenario id (repeatable; default: all)");
+  cmd->add_option("-o,--out", args->out_dir, "Output folder (default: out/<basin name>)");
+  cmd->add_flag("--overwrite", args->overwrite, "Replace existing result files");
+  cmd->add_flag("--all-points", args->all_points, "Also list subcatchments and inflows");
+  cmd->add_option("-j,--jobs", args->jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
+  cmd->callback([&action, &global, args] { action = [&global, args] { return compare(*args, global); }; });
 }
 
 }  // namespace freshet::cli

@@ -12,6 +12,7 @@ int main(int argc, char** argv) {
       "Exit codes: 0 success, 1 bad command line, 2 bad input file, 3 numerical failure,\n"
       "4 file could not be read or written, 5 verification case failed."};
   app.require_subcommand(1);
+  app.fallthrough();  // global flags (--quiet) may also follow the subcommand
   GlobalOptions global;
   app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
   Action action;

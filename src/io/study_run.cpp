@@ -43,6 +43,14 @@ class StudySink final : public network::RecordSink {
   }
 
   void record(double time_s, std::span<const StationSample> samples) override {
+    observe(time_s, samples);
+    if (channel_) write_channel(time_s, samples);
+    if (sub_) write_sub(time_s, samples);
+  }
+
+  // Every coupling step feeds the peak and volume accumulators (finer than the output).
+  [[nodiscard]] bool observes_every_step() const override { return true; }
+  void observe(double time_s, std::span<const StationSample> samples) override {
     for (std::size_t i = 0; i < samples.size(); ++i) {
       const StationSample& s = samples[i];
       if (acc_[i].sample_count() == 0 || s.discharge_m3s > acc_[i].peak_discharge_m3s()) {
@@ -50,8 +58,6 @@ class StudySink final : public network::RecordSink {
       }
       acc_[i].add_sample(time_s, s.discharge_m3s, s.stage_m);
     }
-    if (channel_) write_channel(time_s, samples);
-    if (sub_) write_sub(time_s, samples);
   }
 
   [[nodiscard]] const SummaryAccumulator& accumulator(std::size_t i) const { return acc_[i]; }
@@ -305,7 +311,15 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   for (std::size_t i = 0; i < stations.size(); ++i) {
     const StationSummary& st = out.summary.stations[i];
     out.peaks.push_back({st.station_id, st.name, stations[i].kind, st.peak_discharge_m3s,
-                         st.peak_time_s, st.peak_stage_m, st.runoff_volume_m3});
+                         st.peak_time_s, st.peak_stage_m, st.runoff_volume_m3, "",
+                         kNotApplicable});
+    const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[i].get());
+    if (pool && pool->crossing()) {
+      const auto r = network::structures::crossing_report(*pool->crossing(), pool->pool());
+      out.peaks.back().overtopping_s = r.road_overtopped ? r.overtopping_duration_s : 0.0;
+      out.peaks.back().overtopping =
+          r.road_overtopped ? fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
+    }
   }
   const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);

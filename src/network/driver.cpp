@@ -51,8 +51,12 @@ void sweep(Model& model, double t0_s, double t1_s, std::vector<StepOutflow>& out
   }
 }
 
-void emit(const Model& model, double t_s, std::vector<StationSample>& samples, RecordSink& sink) {
+void take_samples(const Model& model, std::vector<StationSample>& samples) {
   for (std::size_t i = 0; i < model.elements.size(); ++i) samples[i] = model.elements[i]->sample();
+}
+
+void emit(const Model& model, double t_s, std::vector<StationSample>& samples, RecordSink& sink) {
+  take_samples(model, samples);
   sink.record(t_s, samples);
 }
 
@@ -99,6 +103,10 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
       sweep(model, t0, t1, outflow);
       t0 = t1;
       ++steps;
+      if (j < steps_per_output && sink.observes_every_step()) {
+        take_samples(model, samples);
+        sink.observe(t1, samples);
+      }
     }
     emit(model, output_end, samples, sink);
     if (progress) progress(static_cast<double>(k) / static_cast<double>(outputs));

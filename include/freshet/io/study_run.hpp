@@ -38,6 +38,10 @@ struct StationPeak {
   double peak_time_s = kNotApplicable;
   double peak_stage_m = kNotApplicable;
   double volume_m3 = kNotApplicable;
+  // Culvert crossings: whether and how long the road overtopped, e.g. "55 min" or "no";
+  // empty for other elements.
+  std::string overtopping;
+  double overtopping_s = kNotApplicable;
 };
 
 struct RunOutcome {

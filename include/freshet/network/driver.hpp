@@ -41,11 +41,15 @@ struct ClockOptions {
   [[nodiscard]] double coupling_step_s() const;
 };
 
-// Receives one sample per station (in links order) at the start and at every output time.
+// Receives one sample per station (in links order) at the start and at every output time
+// (record), and, if it asks for them, at the end of every other coupling step (observe), so
+// that peaks between output times are not missed.
 class RecordSink {
  public:
   virtual ~RecordSink() = default;
   virtual void record(double time_s, std::span<const StationSample> samples) = 0;
+  [[nodiscard]] virtual bool observes_every_step() const { return false; }
+  virtual void observe(double /*time_s*/, std::span<const StationSample> /*samples*/) {}
 };
 
 struct ElementBalance {
