@@ -71,6 +71,7 @@ TEST(PredictBreaking, FromInflowMatchesCharacteristicCrossing) {
               x_exact, p.time_s, t_exact);
   EXPECT_NEAR(p.position_m, x_exact, 0.005 * x_exact);
   EXPECT_NEAR(p.time_s, t_exact, 0.005 * t_exact);
+  EXPECT_NEAR(p.nearest_position_m, x_exact, 0.005 * x_exact);  // same point for a linear rise
 }
 
 // The computed Burgers solution must show a persistent steep front forming within 2% of the

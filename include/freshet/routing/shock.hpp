@@ -8,8 +8,9 @@
 // Prediction (no time stepping):
 //   * from an initial profile A0(x): t_b = -1 / min_x d c(A0(x))/dx, at x_b = x* + c(A0(x*)) t_b;
 //   * from an inflow hydrograph at x = 0: the characteristic launched at time tau travels
-//     x = c(tau) (t - tau); neighbours cross first at x_b = min_tau c^2 / (dc/dtau),
-//     t_b = tau* + x_b / c(tau*).
+//     x = c(tau) (t - tau); neighbours cross at x = c^2 / (dc/dtau), t = tau + c / (dc/dtau).
+//     The shock is born at the earliest such t; the crossing nearest the inlet,
+//     min_tau c^2 / (dc/dtau), is reported too (the two coincide for a linear rise).
 // Detection: ShockDetector watches the cell areas at observation times for a persistent
 // front that is resolved within a few cells, and reports its formation, path and speed.
 //
@@ -31,10 +32,16 @@ namespace freshet::routing {
 
 struct BreakingPrediction {
   bool breaks = false;  // false: no compressive characteristics in the data
+  // The shock's birth: the earliest crossing of neighbouring characteristics.
   double time_s = std::numeric_limits<double>::infinity();
   double position_m = std::numeric_limits<double>::quiet_NaN();
   // Where the first-crossing characteristic starts: x* (profile) or launch time tau* (inflow).
   double origin = std::numeric_limits<double>::quiet_NaN();
+  // Inflow only: the crossing nearest the inlet, x = min_tau c^2 / (dc/dtau), and its time.
+  // Equal to the birth for a linear rise; for a curved rise it can lie nearer the inlet but
+  // later than the birth.
+  double nearest_position_m = std::numeric_limits<double>::quiet_NaN();
+  double nearest_time_s = std::numeric_limits<double>::quiet_NaN();
 };
 
 namespace detail {
@@ -86,20 +93,17 @@ template <geometry::FluxLaw F>
   auto celerity_at = [&](double tau) {
     return law.celerity_m_s(law.area_for_discharge_m2(inflow_m3s.value_at(tau)));
   };
-  double best = std::numeric_limits<double>::infinity();
+  double nearest = std::numeric_limits<double>::infinity();
   for (int k = 1; k + 1 < samples; ++k) {
     const double tau = t_begin_s + k * h;
     const double dc = (celerity_at(tau + h) - celerity_at(tau - h)) / (2.0 * h);
     const double c = celerity_at(tau);
     if (!(dc > 0.0)) continue;
-    const double x = c * c / dc;
-    if (x < best) {
-      best = x;
-      p.breaks = true;
-      p.position_m = x;
-      p.origin = tau;
-      p.time_s = c > 0.0 ? tau + x / c : tau;
-    }
+    const double x = c * c / dc;      // where characteristics tau and tau + dtau cross
+    const double t = tau + c / dc;    // and when
+    p.breaks = true;
+    if (t < p.time_s) p.time_s = t, p.position_m = x, p.origin = tau;
+    if (x < nearest) nearest = x, p.nearest_position_m = x, p.nearest_time_s = t;
   }
   return p;
 }
