@@ -18,6 +18,8 @@ struct RouteArgs {
   std::string out_dir;
   bool overwrite = false;
   int jobs = 2;
+  std::vector<std::string> exports;
+  double export_interval_min = 0.0;
 };
 
 std::string command_line(const RouteArgs& a) {
@@ -26,6 +28,7 @@ std::string command_line(const RouteArgs& a) {
   if (!a.scenario.empty()) s += " --scenario " + a.scenario;
   if (!a.out_dir.empty()) s += " --out " + a.out_dir;
   if (a.overwrite) s += " --overwrite";
+  for (const auto& e : a.exports) s += " --export " + e;
   return s;
 }
 
@@ -46,7 +49,8 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   for (const auto& storm : storms) {
     (void)study.storm(storm);  // unknown storm: InputError before anything runs
     requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, command_line(a),
-                        std::string("freshet ") + FRESHET_VERSION});
+                        std::string("freshet ") + FRESHET_VERSION, a.exports,
+                        a.export_interval_min * 60.0});
   }
   std::cout << study.settings().title << "\n"
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)
@@ -84,6 +88,11 @@ void add_route_command(CLI::App& app, const GlobalOptions& global, Action& actio
   cmd->add_option("--scenario", args->scenario, "Route a scenario instead of the base network");
   cmd->add_option("-o,--out", args->out_dir, "Output folder (default: out/<basin name>)");
   cmd->add_flag("--overwrite", args->overwrite, "Replace existing result files");
+  cmd->add_option("--export", args->exports,
+                  "Station whose hydrograph is written as CSV for downstream models (repeatable)");
+  cmd->add_option("--export-interval-min", args->export_interval_min,
+                  "Interval of exported hydrographs (default: the output interval)")
+      ->check(CLI::PositiveNumber);
   cmd->add_option("-j,--jobs", args->jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
   cmd->callback([&action, &global, args] { action = [&global, args] { return route(*args, global); }; });
 }

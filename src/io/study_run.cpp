@@ -4,9 +4,12 @@
 #include <cmath>
 #include <cstdio>
 #include <ctime>
+#include <map>
 
 #include "freshet/core/caution.hpp"
+#include "freshet/io/csv_series.hpp"
 #include "freshet/io/netcdf_writer.hpp"
+#include "freshet/io/series_resample.hpp"
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/network/elements.hpp"
 
@@ -51,6 +54,10 @@ class StudySink final : public network::RecordSink {
   // Every coupling step feeds the peak and volume accumulators (finer than the output).
   [[nodiscard]] bool observes_every_step() const override { return true; }
   void observe(double time_s, std::span<const StationSample> samples) override {
+    for (auto& [i, series] : exports_) {
+      series.first.push_back(time_s);
+      series.second.push_back(samples[i].discharge_m3s);
+    }
     for (std::size_t i = 0; i < samples.size(); ++i) {
       const StationSample& s = samples[i];
       if (acc_[i].sample_count() == 0 || s.discharge_m3s > acc_[i].peak_discharge_m3s()) {
@@ -64,6 +71,12 @@ class StudySink final : public network::RecordSink {
   [[nodiscard]] const StationSample& at_peak(std::size_t i) const { return at_peak_[i]; }
   [[nodiscard]] const std::vector<std::size_t>& channel_index() const { return channel_index_; }
   [[nodiscard]] const std::vector<std::size_t>& sub_index() const { return sub_index_; }
+  // Keeps the full discharge series of station i (every coupling step) for export.
+  void keep_series(std::size_t i) { exports_[i]; }
+  [[nodiscard]] PiecewiseLinearSeries series(std::size_t i, const std::string& what) const {
+    const auto& [t, q] = exports_.at(i);
+    return PiecewiseLinearSeries(t, q, what);
+  }
 
  private:
   void write_channel(double time_s, std::span<const StationSample> samples) {
@@ -99,6 +112,7 @@ class StudySink final : public network::RecordSink {
   std::vector<std::size_t> channel_index_;
   std::vector<std::size_t> sub_index_;
   std::vector<double> row_;
+  std::map<std::size_t, std::pair<std::vector<double>, std::vector<double>>> exports_;
 };
 
 std::string now_iso() {
@@ -276,6 +290,56 @@ RunSummary summarise(const Study& study, const RunRequest& req, const network::M
   return s;
 }
 
+std::vector<std::size_t> export_indices(const RunRequest& req,
+                                        const std::vector<StationDescription>& stations) {
+  std::vector<std::size_t> out;
+  std::vector<Problem> problems;
+  for (const auto& id : req.export_stations) {
+    std::size_t k = 0;
+    while (k < stations.size() && stations[k].id != id) ++k;
+    if (k == stations.size()) {
+      problems.push_back({"", 0, 0, "hydrograph export", "station",
+                          "= '" + id + "': no element of the basin has this id"});
+    } else {
+      out.push_back(k);
+    }
+  }
+  if (!problems.empty()) throw InputError(std::move(problems));
+  return out;
+}
+
+std::filesystem::path write_export(const Study& study, const RunRequest& req,
+                                   const StudySink& sink, std::size_t i,
+                                   const StationDescription& station,
+                                   const std::filesystem::path& folder) {
+  const StudySettings& set = study.settings();
+  const double dt_s = req.export_interval_s > 0.0 ? req.export_interval_s : set.output_interval_s;
+  const auto n = static_cast<std::size_t>(std::llround(set.duration_s / dt_s));
+  if (n < 1 || std::abs(static_cast<double>(n) * dt_s - set.duration_s) > 1e-9 * set.duration_s) {
+    throw InputError(Problem{"", 0, 0, "hydrograph export", "interval",
+                             "= " + format_value(dt_s) + " s: must divide the run length (" +
+                                 format_value(set.duration_s) + " s) into whole intervals"});
+  }
+  const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
+  const PiecewiseLinearSeries r =
+      resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::scaled_samples);
+  SeriesTable table;
+  table.quantity = SeriesQuantity::discharge;
+  table.times_s.assign(r.times_s().begin(), r.times_s().end());
+  table.values_si.assign(r.values().begin(), r.values().end());
+  table.metadata = {"station " + station.id + " (" + station.name + "), storm " + req.storm_id +
+                        (req.scenario_id.empty() ? ", base" : ", scenario " + req.scenario_id),
+                    "resampled to " + format_value(dt_s) +
+                        " s keeping the volume of the computed hydrograph (scaled samples)"};
+  CsvWriteOptions options;
+  options.title = "freshet hydrograph";
+  options.time_base = set.start_iso + " (study start)";
+  options.overwrite = req.overwrite;
+  const auto path = folder / (req.storm_id + "_" + station.id + "_hydrograph.csv");
+  write_series_csv(path, table, options);
+  return path;
+}
+
 }  // namespace
 
 RunOutcome run_study(const Study& study, const RunRequest& req,
@@ -293,6 +357,8 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   NetcdfTimeSeriesWriter channel(folder / (req.storm_id + ".nc"), nc);
   NetcdfTimeSeriesWriter sub(folder / (req.storm_id + "_subcatchments.nc"), nc);
   StudySink sink(stations, &channel, &sub);
+  const std::vector<std::size_t> exported = export_indices(req, stations);
+  for (std::size_t i : exported) sink.keep_series(i);
   channel.begin(metadata(study, req, "stations"), instances(stations, sink.channel_index(), "station"),
                 {OutputVariable::discharge, OutputVariable::stage, OutputVariable::depth,
                  OutputVariable::velocity});
@@ -326,6 +392,9 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
   write_summary_json(json, out.summary, req.overwrite);
   out.files.push_back(json);
+  for (std::size_t i : exported) {
+    out.files.push_back(write_export(study, req, sink, i, stations[i], folder));
+  }
   channel.commit();
   sub.commit();
   out.files.insert(out.files.begin(), {channel.final_path(), sub.final_path()});

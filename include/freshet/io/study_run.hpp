@@ -27,6 +27,11 @@ struct RunRequest {
   Overwrite overwrite = Overwrite::no;
   std::string history;      // command line, recorded in the NetCDF history attribute
   std::string source;       // "freshet <version>"
+  // Hydrograph export for downstream models: these stations' discharge, resampled to
+  // export_interval_s keeping the run's total volume (io::ResampleMethod::scaled_samples),
+  // written as CSV files <storm>_<station>_hydrograph.csv that the inflow reader accepts.
+  std::vector<std::string> export_stations;
+  double export_interval_s = 0.0;  // 0: the study's output interval
 };
 
 // What one station did, for the cross-storm and cross-scenario tables.
