@@ -55,6 +55,12 @@ class ReachModel {
   virtual ~ReachModel() = default;
   virtual AdvanceResult advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s,
                                 const LateralInflow& lateral) = 0;
+  // Hand-over form for a driver: the inflow is constant at mean_inflow_m3s over [t0, t1] (for
+  // example the mean_outflow_m3s of the elements upstream), so exactly mean x (t1 - t0) enters.
+  AdvanceResult advance(double t0_s, double t1_s, double mean_inflow_m3s,
+                        const LateralInflow& lateral) {
+    return advance(t0_s, t1_s, PiecewiseLinearSeries::constant(mean_inflow_m3s), lateral);
+  }
   // Initial states; both restart the volume ledger and the clock.
   virtual void set_initial_areas(std::span<const double> area_m2) = 0;
   virtual void set_uniform_discharge(double discharge_m3s) = 0;  // normal depth in every cell
@@ -84,6 +90,7 @@ class KinematicReach final : public ReachModel {
   // One law per cell (size cell_count), or a single law.
   KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOptions options = {});
 
+  using ReachModel::advance;
   AdvanceResult advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s,
                         const LateralInflow& lateral) override;
   void set_initial_areas(std::span<const double> area_m2) override;
