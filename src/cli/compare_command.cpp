@@ -82,7 +82,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
     for (const auto& scenario : scenarios) {
       requests.push_back({scenario, storm, options.out_dir, options.overwrite,
                           "freshet compare " + a.basin,
-                          std::string("freshet ") + FRESHET_VERSION, {}, 0.0});
+                          std::string("freshet ") + FRESHET_VERSION, {}, 0.0, {}});
     }
   }
   if (scenarios.size() == 1) {

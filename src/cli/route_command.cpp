@@ -20,6 +20,7 @@ struct RouteArgs {
   int jobs = 2;
   std::vector<std::string> exports;
   double export_interval_min = 0.0;
+  std::vector<std::string> profiles;
 };
 
 std::string command_line(const RouteArgs& a) {
@@ -29,6 +30,7 @@ std::string command_line(const RouteArgs& a) {
   if (!a.out_dir.empty()) s += " --out " + a.out_dir;
   if (a.overwrite) s += " --overwrite";
   for (const auto& e : a.exports) s += " --export " + e;
+  for (const auto& p : a.profiles) s += " --profile " + p;
   return s;
 }
 
@@ -50,7 +52,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
     (void)study.storm(storm);  // unknown storm: InputError before anything runs
     requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, command_line(a),
                         std::string("freshet ") + FRESHET_VERSION, a.exports,
-                        a.export_interval_min * 60.0});
+                        a.export_interval_min * 60.0, a.profiles});
   }
   std::cout << study.settings().title << "\n"
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)
@@ -93,6 +95,8 @@ void add_route_command(CLI::App& app, const GlobalOptions& global, Action& actio
   cmd->add_option("--export-interval-min", args->export_interval_min,
                   "Interval of exported hydrographs (default: the output interval)")
       ->check(CLI::PositiveNumber);
+  cmd->add_option("--profile", args->profiles,
+                  "Reach whose every cell is written to <storm>_profiles.nc (repeatable)");
   cmd->add_option("-j,--jobs", args->jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
   cmd->callback([&action, &global, args] { action = [&global, args] { return route(*args, global); }; });
 }

@@ -4,7 +4,9 @@
 #include <cmath>
 #include <cstdio>
 #include <ctime>
+#include <functional>
 #include <map>
+#include <optional>
 
 #include "freshet/core/caution.hpp"
 #include "freshet/io/csv_series.hpp"
@@ -49,7 +51,10 @@ class StudySink final : public network::RecordSink {
     observe(time_s, samples);
     if (channel_) write_channel(time_s, samples);
     if (sub_) write_sub(time_s, samples);
+    if (after_record) after_record(time_s);
   }
+
+  std::function<void(double)> after_record;  // extra writers (profiles)
 
   // Every coupling step feeds the peak and volume accumulators (finer than the output).
   [[nodiscard]] bool observes_every_step() const override { return true; }
@@ -290,6 +295,64 @@ RunSummary summarise(const Study& study, const RunRequest& req, const network::M
   return s;
 }
 
+// Writes every cell of the chosen reaches at each output time.
+class ProfileWriter {
+ public:
+  ProfileWriter(const network::Model& model, const std::vector<std::string>& reach_ids) {
+    std::vector<Problem> problems;
+    for (const auto& id : reach_ids) {
+      const network::ReachElement* found = nullptr;
+      for (const auto& e : model.elements) {
+        if (e->id() == id) found = dynamic_cast<const network::ReachElement*>(e.get());
+      }
+      if (!found) {
+        problems.push_back({"", 0, 0, "profile output", "reach",
+                            "= '" + id + "': no reach of the basin has this id"});
+      }
+      reaches_.push_back(found);
+    }
+    if (!problems.empty()) throw InputError(std::move(problems));
+  }
+
+  [[nodiscard]] InstanceSet instances() const {
+    InstanceSet set;
+    set.kind = "cell";
+    for (const auto* r : reaches_) {
+      const double dx = r->reach().cell_width_m();
+      for (int k = 0; k < r->reach().spec().cell_count; ++k) {
+        InstanceInfo info;
+        info.id = r->id() + "#" + std::to_string(k + 1);
+        info.name = "cell " + std::to_string(k + 1) + " of reach " + r->id();
+        info.reach_id = r->id();
+        info.chainage_m = (k + 0.5) * dx;
+        set.instances.push_back(info);
+      }
+    }
+    set.stage_datum = "flow depth (profiles report depth as stage)";
+    return set;
+  }
+
+  void write(NetcdfTimeSeriesWriter& out, double time_s) {
+    std::size_t n = 0;
+    for (const auto* r : reaches_) n += static_cast<std::size_t>(r->reach().spec().cell_count);
+    row_.assign(3 * n, 0.0);
+    std::size_t j = 0;
+    for (const auto* r : reaches_) {
+      const auto areas = r->reach().cell_area_m2();
+      for (std::size_t k = 0; k < areas.size(); ++k, ++j) {
+        row_[j] = r->reach().cell_discharge_m3s(static_cast<int>(k));
+        row_[n + j] = r->section().depth_m(areas[k]);
+        row_[2 * n + j] = r->section().velocity_m_s(areas[k]);
+      }
+    }
+    out.record(time_s, row_);
+  }
+
+ private:
+  std::vector<const network::ReachElement*> reaches_;
+  std::vector<double> row_;
+};
+
 std::vector<std::size_t> export_indices(const RunRequest& req,
                                         const std::vector<StationDescription>& stations) {
   std::vector<std::size_t> out;
@@ -359,6 +422,16 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   StudySink sink(stations, &channel, &sub);
   const std::vector<std::size_t> exported = export_indices(req, stations);
   for (std::size_t i : exported) sink.keep_series(i);
+  std::optional<ProfileWriter> profiles;
+  std::optional<NetcdfTimeSeriesWriter> profile_file;
+  if (!req.profile_reaches.empty()) {
+    profiles.emplace(model, req.profile_reaches);
+    profile_file.emplace(folder / (req.storm_id + "_profiles.nc"), nc);
+    profile_file->begin(metadata(study, req, "along-reach profiles"), profiles->instances(),
+                        {OutputVariable::discharge, OutputVariable::depth,
+                         OutputVariable::velocity});
+    sink.after_record = [&](double t) { profiles->write(*profile_file, t); };
+  }
   channel.begin(metadata(study, req, "stations"), instances(stations, sink.channel_index(), "station"),
                 {OutputVariable::discharge, OutputVariable::stage, OutputVariable::depth,
                  OutputVariable::velocity});
@@ -398,6 +471,10 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   channel.commit();
   sub.commit();
   out.files.insert(out.files.begin(), {channel.final_path(), sub.final_path()});
+  if (profile_file) {
+    profile_file->commit();
+    out.files.push_back(profile_file->final_path());
+  }
   return out;
 }
 

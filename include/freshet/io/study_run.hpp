@@ -32,6 +32,9 @@ struct RunRequest {
   // written as CSV files <storm>_<station>_hydrograph.csv that the inflow reader accepts.
   std::vector<std::string> export_stations;
   double export_interval_s = 0.0;  // 0: the study's output interval
+  // Along-reach profiles: every cell of these reaches at every output time, written to
+  // <storm>_profiles.nc (CF timeSeries, one instance per cell, with reach id and chainage).
+  std::vector<std::string> profile_reaches;
 };
 
 // What one station did, for the cross-storm and cross-scenario tables.
