@@ -146,9 +146,12 @@ class KinematicReach final : public ReachModel {
   AdvanceResult advance_method_of_lines(double t0, double t1, const PiecewiseLinearSeries& inflow,
                                         const LateralInflow& lateral);
   AdvanceResult fail(AdvanceResult r, AdvanceStatus status, std::string message) const;
-  void finish_advance(double t0, double t1, AdvanceResult& r);
+  void finish_advance(double t0, AdvanceResult& r);
   void observe_shock(double t);
   double clear_negative_areas_into_outflow();
+  bool integrate_mol_segment(const detail::OdeRhs& rhs, Eigen::VectorXd& y, double ta, double tb,
+                             const PiecewiseLinearSeries& inflow, const LateralInflow& lateral,
+                             AdvanceResult& r);
 
   template <bool kUniform, bool kLateral>
   StepResult explicit_step(double dt, double inflow_m3);
@@ -550,7 +553,7 @@ AdvanceResult KinematicReach<F>::advance(double t0_s, double t1_s,
   AdvanceResult r = opt_.scheme == SchemeKind::kMethodOfLines
                         ? advance_method_of_lines(t0_s, t1_s, inflow_m3s, lateral)
                         : advance_stepping(t0_s, t1_s, inflow_m3s, lateral);
-  finish_advance(t0_s, t1_s, r);
+  finish_advance(t0_s, r);
   diag_.wall_time_s +=
       std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
   if (!r.ok() && opt_.throw_on_failure) throw NumericalError(r.message);
@@ -580,7 +583,8 @@ AdvanceResult KinematicReach<F>::advance_stepping(double t0, double t1,
       dt_cap_ = 0.5 * dt;
       if (++consecutive_rejections > opt_.max_consecutive_rejections) {
         return fail(r, s.ok ? AdvanceStatus::kStepTooSmall : AdvanceStatus::kSolverFailed,
-                    std::to_string(consecutive_rejections) + " consecutive steps rejected (last dt " +
+                    std::to_string(consecutive_rejections) +
+                        " consecutive steps rejected, more than max_consecutive_rejections (last dt " +
                         format_value(dt) + " s)");
       }
       continue;
@@ -633,7 +637,7 @@ AdvanceResult KinematicReach<F>::fail(AdvanceResult r, AdvanceStatus status,
 }
 
 template <geometry::FluxLaw F>
-void KinematicReach<F>::finish_advance(double t0, double /*t1*/, AdvanceResult& r) {
+void KinematicReach<F>::finish_advance(double t0, AdvanceResult& r) {
   ledger_.storage_m3 = storage_m3();
   time_s_ = r.reached_time_s;
   const double span_s = r.reached_time_s - t0;
@@ -661,7 +665,7 @@ AdvanceResult KinematicReach<F>::advance_method_of_lines(double t0, double t1,
                                                          const LateralInflow& lateral) {
   const std::size_t cells = n();
   const bool lat = !lateral_map_.is_none();
-  auto rhs = [&](const Eigen::VectorXd& y, Eigen::VectorXd& dydt, double t) {
+  const detail::OdeRhs rhs = [&](const Eigen::VectorXd& y, Eigen::VectorXd& dydt, double t) {
     if (lat) lateral_map_.rates_m3s(lateral, t, lateral_m3_);
     double flux_left = inflow.value_at(t);
     for (std::size_t i = 0; i < cells; ++i) {
@@ -682,33 +686,48 @@ AdvanceResult KinematicReach<F>::advance_method_of_lines(double t0, double t1,
   r.reached_time_s = t0;
   Eigen::VectorXd y(static_cast<Eigen::Index>(cells) + 1);
   for (std::size_t k = 0; k + 1 < times.size(); ++k) {
-    const double ta = times[k], tb = times[k + 1];
-    for (std::size_t i = 0; i < cells; ++i) y[static_cast<Eigen::Index>(i)] = area_[i];
-    y[static_cast<Eigen::Index>(cells)] = 0.0;
-    const double c_in = laws_.front().celerity_m_s(
-        laws_.front().area_for_discharge_m2(detail::series_max(inflow, ta, tb)));
-    const double c = std::max(c_max_, c_in);
-    const double dt0 = std::min({tb - ta, opt_.max_dt_s, c > 0.0 ? 0.5 * dx_ / c : tb - ta});
-    const detail::OdeSegmentResult seg = detail::integrate_ode_segment(rhs, y, ta, tb, dt0, opt_);
-    r.steps += seg.steps;
-    r.rejected_steps += seg.rejected;
-    if (!seg.ok) return fail(r, AdvanceStatus::kSolverFailed, seg.message);
-    for (std::size_t i = 0; i < cells; ++i) area_[i] = y[static_cast<Eigen::Index>(i)];
-    double outflow = y[static_cast<Eigen::Index>(cells)];
-    outflow += clear_negative_areas_into_outflow();
-    const double inflow_m3 = inflow.integral(ta, tb);
-    const double lateral_m3 = lat ? lateral_map_.volumes_m3(lateral, ta, tb, lateral_m3_) : 0.0;
-    ledger_.inflow_m3 += inflow_m3, r.inflow_m3 += inflow_m3;
-    ledger_.lateral_m3 += lateral_m3, r.lateral_m3 += lateral_m3;
-    ledger_.outflow_m3 += outflow, r.outflow_m3 += outflow;
-    c_max_ = current_c_max();
-    diag_.max_courant = std::max(diag_.max_courant, seg.largest_dt_s * c_max_ / dx_);
-    diag_.cell_updates += static_cast<long>(cells) * seg.steps;
-    r.reached_time_s = tb;
+    if (!integrate_mol_segment(rhs, y, times[k], times[k + 1], inflow, lateral, r)) return r;
   }
   face_[0] = inflow.value_at(r.reached_time_s);
   for (std::size_t i = 0; i < cells; ++i) face_[i + 1] = law(i).discharge_m3s(area_[i]);
   return r;
+}
+
+// One smooth forcing segment [ta, tb] of the method of lines: a fresh controlled stepper,
+// then the areas, the outflow volume (ODE component) and the exact forcing volumes booked.
+template <geometry::FluxLaw F>
+bool KinematicReach<F>::integrate_mol_segment(const detail::OdeRhs& rhs, Eigen::VectorXd& y,
+                                              double ta, double tb,
+                                              const PiecewiseLinearSeries& inflow,
+                                              const LateralInflow& lateral, AdvanceResult& r) {
+  const std::size_t cells = n();
+  const auto outflow_index = static_cast<Eigen::Index>(cells);
+  for (std::size_t i = 0; i < cells; ++i) y[static_cast<Eigen::Index>(i)] = area_[i];
+  y[outflow_index] = 0.0;
+  const double c_in = laws_.front().celerity_m_s(
+      laws_.front().area_for_discharge_m2(detail::series_max(inflow, ta, tb)));
+  const double c = std::max(c_max_, c_in);
+  const double dt0 = std::min({tb - ta, opt_.max_dt_s, c > 0.0 ? 0.5 * dx_ / c : tb - ta});
+  const detail::OdeSegmentResult seg = detail::integrate_ode_segment(rhs, y, ta, tb, dt0, opt_);
+  r.steps += seg.steps;
+  r.rejected_steps += seg.rejected;
+  if (!seg.ok) {
+    r = fail(r, AdvanceStatus::kSolverFailed, seg.message);
+    return false;
+  }
+  for (std::size_t i = 0; i < cells; ++i) area_[i] = y[static_cast<Eigen::Index>(i)];
+  const double outflow_m3 = y[outflow_index] + clear_negative_areas_into_outflow();
+  const double inflow_m3 = inflow.integral(ta, tb);
+  const double lateral_m3 =
+      lateral_map_.is_none() ? 0.0 : lateral_map_.volumes_m3(lateral, ta, tb, lateral_m3_);
+  ledger_.inflow_m3 += inflow_m3, r.inflow_m3 += inflow_m3;
+  ledger_.lateral_m3 += lateral_m3, r.lateral_m3 += lateral_m3;
+  ledger_.outflow_m3 += outflow_m3, r.outflow_m3 += outflow_m3;
+  c_max_ = current_c_max();
+  diag_.max_courant = std::max(diag_.max_courant, seg.largest_dt_s * c_max_ / dx_);
+  diag_.cell_updates += static_cast<long>(cells) * seg.steps;
+  r.reached_time_s = tb;
+  return true;
 }
 
 // Moves round-off-level negative areas (possible inside Runge-Kutta stages near a dry front)
