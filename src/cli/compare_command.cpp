@@ -67,6 +67,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   if (a.scenarios.empty()) {
     for (const auto& s : study.scenarios()) scenarios.push_back(s.id);
   } else {
+    for (const auto& id : a.scenarios) (void)study.scenario(id);  // InputError if unknown
     scenarios.insert(scenarios.end(), a.scenarios.begin(), a.scenarios.end());
   }
   BatchOptions options;

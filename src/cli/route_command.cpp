@@ -36,6 +36,7 @@ std::string command_line(const RouteArgs& a) {
 
 int route(const RouteArgs& a, const GlobalOptions& global) {
   const io::Study study = io::Study::load(a.basin);
+  if (!a.scenario.empty()) (void)study.scenario(a.scenario);  // InputError if unknown
   std::vector<std::string> storms = a.storms;
   if (storms.empty()) {
     for (const auto& s : study.storms()) storms.push_back(s.id);

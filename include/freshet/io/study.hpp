@@ -70,6 +70,7 @@ class Study {
   [[nodiscard]] const std::vector<StormDefinition>& storms() const noexcept;
   [[nodiscard]] const std::vector<ScenarioDefinition>& scenarios() const noexcept;
   [[nodiscard]] const StormDefinition& storm(std::string_view id) const;  // InputError if unknown
+  [[nodiscard]] const ScenarioDefinition& scenario(std::string_view id) const;  // likewise
   // Stations of the base network, in model order (one per element).
   [[nodiscard]] std::vector<StationDescription> stations() const;
 

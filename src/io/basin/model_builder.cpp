@@ -1,6 +1,7 @@
 #include "model_builder.hpp"
 
 #include <cmath>
+#include <limits>
 
 #include "freshet/geometry/section_flux.hpp"
 #include "freshet/hydrology/composite_loss.hpp"
@@ -242,11 +243,20 @@ std::unique_ptr<network::Element> ModelBuilder::read_subcatchment(Reader& r,
 
 namespace {
 
+// `manning_n` is the reach's n (read by the caller so it is checked whatever the shape).
 std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& reach,
+                                                  std::optional<double> manning_n,
                                                   const InputUnits& u) {
   const std::string shape = s.choice(
       "shape", {"rectangular", "trapezoidal", "triangular", "circular", "irregular"});
-  auto n = [&] { return reach.positive("manning_n"); };
+  if (shape == "irregular" && manning_n) {
+    reach.report("manning_n", "is not used by an irregular section: give left_overbank_n, "
+                              "main_channel_n and right_overbank_n in the section");
+  }
+  auto n = [&] {
+    if (!manning_n) reach.report_here("is missing required field 'manning_n'");
+    return manning_n.value_or(std::numeric_limits<double>::quiet_NaN());
+  };
   if (shape == "rectangular") {
     return geometry::RectangularSpec{u.length_m(s.positive("bottom_width")), n()};
   }
@@ -286,11 +296,12 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
 std::unique_ptr<network::Element> ModelBuilder::read_reach(Reader& r, const std::string& id) {
   const double length_m = units_.length_m(r.positive("length"));
   const double slope = r.positive("slope");
+  const std::optional<double> manning_n = r.optional_positive("manning_n");
   std::optional<geometry::SectionSpec> spec;
   if (const toml::table* section = r.optional_table("section")) {
     Reader s(*section, file_, r.element() + " section", problems_);
-    spec = read_section(s, r, units_);
-    s.finish();
+    spec = read_section(s, r, manning_n, units_);
+    if (spec) s.finish();  // with an unknown shape, its other keys cannot be judged
   } else {
     r.report_here("is missing required table 'section'");
   }

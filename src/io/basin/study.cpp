@@ -86,7 +86,7 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   try {
     network::ClockOptions clock{0.0, settings.duration_s, settings.output_interval_s,
                                 settings.coupling_step_s};
-    if (problems.empty()) clock.validate();
+    clock.validate();
   } catch (const InputError& e) {
     detail::relocate(e, r, problems);
   }
@@ -296,14 +296,21 @@ Study Study::load(const std::filesystem::path& basin_file) {
   top.finish();
   impl->read_storms(problems);
   impl->read_scenarios(problems);
-  if (impl->storms.empty() && problems.empty()) {
+  if (!impl->root.get("storm")) {
     problems.push_back({impl->file, 0, 0, "", "storm", "no [[storm]] is defined"});
   }
-  if (problems.empty()) {
-    impl->build(impl->root, impl->storms.front().rain, problems, &impl->stations);
+  // The network is checked even when settings or storms have problems, so that one pass
+  // reports everything; without a valid storm, subcatchments are built with no rain.
+  const hydrology::Hyetograph no_rain =
+      hydrology::Hyetograph::from_uniform_intensities(0.0, 60.0, {0.0}, "no rain");
+  const hydrology::Hyetograph& rain =
+      impl->storms.empty() ? no_rain : impl->storms.front().rain;
+  const std::size_t before = problems.size();
+  impl->build(impl->root, rain, problems, &impl->stations);
+  if (problems.size() == before) {  // scenarios only add news when the base is sound
     for (const auto& s : impl->scenarios) {
       const toml::table tree = impl->apply_changes(s.id, problems);
-      impl->build(tree, impl->storms.front().rain, problems);
+      impl->build(tree, rain, problems);
     }
   }
   if (!problems.empty()) throw InputError(std::move(problems));
@@ -324,6 +331,17 @@ const StormDefinition& Study::storm(std::string_view id) const {
   }
   throw InputError(Problem{impl_->file, 0, 0, "storm '" + std::string(id) + "'", "",
                            "is not defined in this basin file"});
+}
+
+const ScenarioDefinition& Study::scenario(std::string_view id) const {
+  for (const auto& s : impl_->scenarios) {
+    if (s.id == id) return s;
+  }
+  std::string known;
+  for (const auto& s : impl_->scenarios) known += (known.empty() ? "" : ", ") + s.id;
+  throw InputError(Problem{impl_->file, 0, 0, "scenario '" + std::string(id) + "'", "",
+                           "is not defined in this basin file (scenarios: " +
+                               (known.empty() ? std::string("none") : known) + ")"});
 }
 
 network::Model Study::build_model(std::string_view scenario_id,
