@@ -13,6 +13,34 @@
 
 namespace freshet::cli {
 
+void add_run_options(CLI::App* cmd, RunArgs& args) {
+  cmd->add_option("basin", args.basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("-s,--storm", args.storms, "Storm id to run (repeatable; default: all)");
+  cmd->add_option("-o,--out", args.out_dir, "Output folder (default: out/<basin name>)");
+  cmd->add_flag("--overwrite", args.overwrite, "Replace existing result files");
+  cmd->add_option("-j,--jobs", args.jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
+}
+
+BatchOptions batch_options(const RunArgs& args, bool quiet) {
+  BatchOptions options;
+  options.out_dir = args.out_dir.empty()
+                        ? std::filesystem::path("out") / std::filesystem::path(args.basin).stem()
+                        : std::filesystem::path(args.out_dir);
+  options.overwrite = args.overwrite ? io::Overwrite::yes : io::Overwrite::no;
+  options.jobs = args.jobs;
+  options.quiet = quiet;
+  return options;
+}
+
+std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args) {
+  std::vector<std::string> storms = args.storms;
+  if (storms.empty()) {
+    for (const auto& s : study.storms()) storms.push_back(s.id);
+  }
+  for (const auto& id : storms) (void)study.storm(id);
+  return storms;
+}
+
 std::vector<io::RunOutcome> run_batch(const io::Study& study,
                                       const std::vector<io::RunRequest>& requests,
                                       const BatchOptions& options) {

@@ -3,6 +3,7 @@
 // print.
 #pragma once
 
+#include <CLI/CLI.hpp>
 #include <string>
 #include <vector>
 
@@ -18,6 +19,21 @@ struct BatchOptions {
   int jobs = 2;         // threads
   bool quiet = false;
 };
+
+// The options route and compare share.
+struct RunArgs {
+  std::string basin;
+  std::vector<std::string> storms;  // empty: every storm of the study
+  std::string out_dir;              // empty: out/<basin file stem>
+  bool overwrite = false;
+  int jobs = 2;
+};
+
+// Registers basin, --storm, --out, --overwrite and --jobs on `cmd`.
+void add_run_options(CLI::App* cmd, RunArgs& args);
+BatchOptions batch_options(const RunArgs& args, bool quiet);
+// The storms to run, each checked to exist (InputError names an unknown one).
+std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args);
 
 // Runs every request; results come back in request order. The first failure (by request
 // order) is rethrown after all threads have stopped; outputs of completed runs stay.

@@ -11,13 +11,8 @@ namespace freshet::cli {
 
 namespace {
 
-struct CompareArgs {
-  std::string basin;
-  std::vector<std::string> storms;
+struct CompareArgs : RunArgs {
   std::vector<std::string> scenarios;
-  std::string out_dir;
-  bool overwrite = false;
-  int jobs = 2;
   bool all_points = false;
 };
 
@@ -59,10 +54,7 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
 
 int compare(const CompareArgs& a, const GlobalOptions& global) {
   const io::Study study = io::Study::load(a.basin);
-  std::vector<std::string> storms = a.storms;
-  if (storms.empty()) {
-    for (const auto& s : study.storms()) storms.push_back(s.id);
-  }
+  const std::vector<std::string> storms = storm_ids(study, a);
   std::vector<std::string> scenarios{""};
   if (a.scenarios.empty()) {
     for (const auto& s : study.scenarios()) scenarios.push_back(s.id);
@@ -70,16 +62,9 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
     for (const auto& id : a.scenarios) (void)study.scenario(id);  // InputError if unknown
     scenarios.insert(scenarios.end(), a.scenarios.begin(), a.scenarios.end());
   }
-  BatchOptions options;
-  options.out_dir = a.out_dir.empty() ? std::filesystem::path("out") /
-                                            std::filesystem::path(a.basin).stem()
-                                      : std::filesystem::path(a.out_dir);
-  options.overwrite = a.overwrite ? io::Overwrite::yes : io::Overwrite::no;
-  options.jobs = a.jobs;
-  options.quiet = global.quiet;
+  const BatchOptions options = batch_options(a, global.quiet);
   std::vector<io::RunRequest> requests;
   for (const auto& storm : storms) {
-    (void)study.storm(storm);
     for (const auto& scenario : scenarios) {
       requests.push_back({scenario, storm, options.out_dir, options.overwrite,
                           "freshet compare " + a.basin,
@@ -114,13 +99,9 @@ void add_compare_command(CLI::App& app, const GlobalOptions& global, Action& act
       "compare",
       "Route the base network and its scenarios under the same storms; print them side by side.\n"
       "Example: freshet compare basins/tansy-brook.toml --storm aep1-60min");
-  cmd->add_option("basin", args->basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
-  cmd->add_option("-s,--storm", args->storms, "Storm id (repeatable; default: all)");
+  add_run_options(cmd, *args);
   cmd->add_option("--scenario", args->scenarios, "Scenario id (repeatable; default: all)");
-  cmd->add_option("-o,--out", args->out_dir, "Output folder (default: out/<basin name>)");
-  cmd->add_flag("--overwrite", args->overwrite, "Replace existing result files");
   cmd->add_flag("--all-points", args->all_points, "Also list subcatchments and inflows");
-  cmd->add_option("-j,--jobs", args->jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
   cmd->callback([&action, &global, args] { action = [&global, args] { return compare(*args, global); }; });
 }
 

@@ -11,13 +11,8 @@ namespace freshet::cli {
 
 namespace {
 
-struct RouteArgs {
-  std::string basin;
-  std::vector<std::string> storms;
+struct RouteArgs : RunArgs {
   std::string scenario;
-  std::string out_dir;
-  bool overwrite = false;
-  int jobs = 2;
   std::vector<std::string> exports;
   double export_interval_min = 0.0;
   std::vector<std::string> profiles;
@@ -37,20 +32,10 @@ std::string command_line(const RouteArgs& a) {
 int route(const RouteArgs& a, const GlobalOptions& global) {
   const io::Study study = io::Study::load(a.basin);
   if (!a.scenario.empty()) (void)study.scenario(a.scenario);  // InputError if unknown
-  std::vector<std::string> storms = a.storms;
-  if (storms.empty()) {
-    for (const auto& s : study.storms()) storms.push_back(s.id);
-  }
-  BatchOptions options;
-  options.out_dir = a.out_dir.empty() ? std::filesystem::path("out") /
-                                            std::filesystem::path(a.basin).stem()
-                                      : std::filesystem::path(a.out_dir);
-  options.overwrite = a.overwrite ? io::Overwrite::yes : io::Overwrite::no;
-  options.jobs = a.jobs;
-  options.quiet = global.quiet;
+  const std::vector<std::string> storms = storm_ids(study, a);
+  const BatchOptions options = batch_options(a, global.quiet);
   std::vector<io::RunRequest> requests;
   for (const auto& storm : storms) {
-    (void)study.storm(storm);  // unknown storm: InputError before anything runs
     requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, command_line(a),
                         std::string("freshet ") + FRESHET_VERSION, a.exports,
                         a.export_interval_min * 60.0, a.profiles});
@@ -86,11 +71,8 @@ void add_route_command(CLI::App& app, const GlobalOptions& global, Action& actio
       "route",
       "Route a basin for its design storms; write CF NetCDF series and summaries.\n"
       "Example: freshet route basins/tansy-brook.toml --storm aep1-60min --out results");
-  cmd->add_option("basin", args->basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
-  cmd->add_option("-s,--storm", args->storms, "Storm id to run (repeatable; default: all)");
+  add_run_options(cmd, *args);
   cmd->add_option("--scenario", args->scenario, "Route a scenario instead of the base network");
-  cmd->add_option("-o,--out", args->out_dir, "Output folder (default: out/<basin name>)");
-  cmd->add_flag("--overwrite", args->overwrite, "Replace existing result files");
   cmd->add_option("--export", args->exports,
                   "Station whose hydrograph is written as CSV for downstream models (repeatable)");
   cmd->add_option("--export-interval-min", args->export_interval_min,
@@ -98,7 +80,6 @@ void add_route_command(CLI::App& app, const GlobalOptions& global, Action& actio
       ->check(CLI::PositiveNumber);
   cmd->add_option("--profile", args->profiles,
                   "Reach whose every cell is written to <storm>_profiles.nc (repeatable)");
-  cmd->add_option("-j,--jobs", args->jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
   cmd->callback([&action, &global, args] { action = [&global, args] { return route(*args, global); }; });
 }
 
