@@ -1,5 +1,6 @@
 // freshet command-line entry point: parses the command line, runs the chosen subcommand and
 // maps failures to the documented exit codes.
+#include <cstdlib>
 #include <iostream>
 
 #include "commands.hpp"
@@ -39,6 +40,11 @@ int main(int argc, char** argv) {
     return kExitNumerical;
   } catch (const freshet::IoError& e) {
     std::cerr << "freshet: " << e.what() << "\n";
-    return kExitIo;
+    // After a failed write HDF5 may still hold the file it could not close, and its exit
+    // handler then crashes (seen with a file-size limit). The partial files were already
+    // removed during unwinding, so leave without running the library's exit handlers.
+    std::cout.flush();
+    std::cerr.flush();
+    std::_Exit(kExitIo);
   }
 }
