@@ -1,5 +1,7 @@
 #include "freshet/network/driver.hpp"
 
+#include <algorithm>
+
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -68,6 +70,79 @@ TEST(ClockOptions, RejectsIntervalsThatDoNotFitTheRun) {
   } catch (const InputError& e) {
     EXPECT_EQ(e.problems().size(), 2u);
   }
+}
+
+// Counts what the driver hands a sink: record() at output times, observe() at the end of
+// every other coupling step when the sink asks for it (driver.hpp, RecordSink).
+class StepSink final : public RecordSink {
+ public:
+  explicit StepSink(bool every_step) : every_step_(every_step) {}
+  void record(double time_s, std::span<const StationSample> samples) override {
+    record_times_s.push_back(time_s);
+    record_outlet_m3s.push_back(samples[3].discharge_m3s);
+  }
+  [[nodiscard]] bool observes_every_step() const override { return every_step_; }
+  void observe(double time_s, std::span<const StationSample> samples) override {
+    observe_times_s.push_back(time_s);
+    observe_outlet_m3s.push_back(samples[3].discharge_m3s);
+  }
+  std::vector<double> record_times_s, observe_times_s;
+  std::vector<double> record_outlet_m3s, observe_outlet_m3s;
+
+ private:
+  bool every_step_;
+};
+
+TEST(Simulate, SinkAskingForEveryStepSeesEveryCouplingStepAndRecordsOnlyOutputs) {
+  // 1 h, outputs every 300 s, steps of at most 70 s: 300 s is cut into 5 steps of 60 s
+  // (ClockOptions::coupling_step_s), so 60 steps and 12 output times after the start.
+  Model m = two_inflows_to_a_confluence();
+  StepSink sink(true);
+  const ClockOptions clock{0.0, 3600.0, 300.0, 70.0};
+  const RunSummary r = simulate(m, clock, sink);
+  ASSERT_EQ(r.coupling_steps, 60);
+
+  // record(): the start and every output time, nothing else.
+  ASSERT_EQ(sink.record_times_s.size(), 13u);
+  for (std::size_t k = 0; k < sink.record_times_s.size(); ++k) {
+    EXPECT_EQ(sink.record_times_s[k], 300.0 * static_cast<double>(k)) << k;
+  }
+  // observe(): the end of every coupling step that is not an output time, in order, so that
+  // together the two calls cover each of the 60 step ends exactly once.
+  ASSERT_EQ(sink.observe_times_s.size(), 60u - 12u);
+  std::vector<double> step_ends = sink.observe_times_s;
+  step_ends.insert(step_ends.end(), sink.record_times_s.begin() + 1, sink.record_times_s.end());
+  std::sort(step_ends.begin(), step_ends.end());
+  ASSERT_EQ(step_ends.size(), 60u);
+  for (std::size_t j = 0; j < step_ends.size(); ++j) {
+    EXPECT_NEAR(step_ends[j], 60.0 * static_cast<double>(j + 1), 1e-9) << j;
+  }
+  EXPECT_TRUE(std::is_sorted(sink.observe_times_s.begin(), sink.observe_times_s.end()));
+  // The observed samples are the state at that time: at 1020 s (between outputs 900 and
+  // 1200) west is falling, 6 - 6 x 20/2000 = 5.94, east 2 - 2 x 520/1000 = 0.96 m3/s
+  // (linear interpolation of the triangular hydrographs of the fixture).
+  const auto at = std::find(sink.observe_times_s.begin(), sink.observe_times_s.end(), 1020.0);
+  ASSERT_NE(at, sink.observe_times_s.end());
+  EXPECT_NEAR(sink.observe_outlet_m3s[static_cast<std::size_t>(at - sink.observe_times_s.begin())],
+              5.94 + 0.96, 1e-12);
+}
+
+TEST(Simulate, SinkNotAskingForEveryStepIsNeverObserved) {
+  Model m = two_inflows_to_a_confluence();
+  StepSink sink(false);
+  (void)simulate(m, ClockOptions{0.0, 3600.0, 300.0, 70.0}, sink);
+  EXPECT_EQ(sink.record_times_s.size(), 13u);
+  EXPECT_TRUE(sink.observe_times_s.empty());
+}
+
+TEST(Simulate, OutputIntervalEqualToTheStepMeansNoObserveCalls) {
+  // steps_per_output = 1: every step end is an output time, so record() covers all of them.
+  Model m = two_inflows_to_a_confluence();
+  StepSink sink(true);
+  const RunSummary r = simulate(m, ClockOptions{0.0, 3600.0, 300.0, 300.0}, sink);
+  EXPECT_EQ(r.coupling_steps, 12);
+  EXPECT_EQ(sink.record_times_s.size(), 13u);
+  EXPECT_TRUE(sink.observe_times_s.empty());
 }
 
 }  // namespace
