@@ -412,6 +412,31 @@ slope = -0.5
                        {"reach 'r1', field 'slope' = -0.5: must be > 0"}));
 }
 
+TEST(StudyLoad, UnknownStormOrScenarioIdAsked) {
+  Fixture f(kHead + kGoodNetwork);
+  const Study study = Study::load(f.basin);
+  EXPECT_THROW(
+      {
+        try {
+          (void)study.storm("nosuch");
+        } catch (const InputError& e) {
+          EXPECT_THAT(e.what(), ::testing::HasSubstr("storm 'nosuch'"));
+          throw;
+        }
+      },
+      InputError);
+  EXPECT_THROW(
+      {
+        try {
+          (void)study.build_model("nosuch", study.storm("s1"));
+        } catch (const InputError& e) {
+          EXPECT_THAT(e.what(), ::testing::HasSubstr("scenario 'nosuch'"));
+          throw;
+        }
+      },
+      InputError);
+}
+
 TEST(StudyLoad, TomlSyntaxErrorGivesFileLineAndColumn) {
   // Line 15 of the file (12 lines of kHead, a blank, the header): two values for one key.
   const std::string text = kHead + "\n[[reach]]\nslope = 0.004 0.005\n";
@@ -519,8 +544,9 @@ struct RunResult {
 };
 
 // Builds the base network for `storm_id` and runs it over the study's clock.
-RunResult run_in_memory(const Study& study, const std::string& storm_id) {
-  network::Model model = study.build_model("", study.storm(storm_id));
+RunResult run_in_memory(const Study& study, const std::string& storm_id,
+                        const std::string& scenario_id = "") {
+  network::Model model = study.build_model(scenario_id, study.storm(storm_id));
   const StudySettings& s = study.settings();
   network::ClockOptions clock{0.0, s.duration_s, s.output_interval_s, s.coupling_step_s};
   RunResult run;
@@ -694,10 +720,12 @@ TEST(StudyUnits, SiAndUsCustomaryInputRouteToTheSamePeaks) {
   const RunResult a = run_in_memory(study_us, "design");
   const RunResult b = run_in_memory(study_si, "design");
   ASSERT_EQ(a.ids, b.ids);
+  double worst = 0.0;
   for (std::size_t i = 0; i < a.ids.size(); ++i) {
     SCOPED_TRACE(a.ids[i]);
     const double qa = a.sink.peak_discharge_m3s[i];
     const double qb = b.sink.peak_discharge_m3s[i];
+    worst = std::max(worst, std::abs(qa - qb) / qb);
     EXPECT_GT(qb, 0.1);  // every station carries flow, so the comparison means something
     EXPECT_LE(std::abs(qa - qb), 1e-9 * qb) << "US " << qa << " m3/s, SI " << qb << " m3/s";
     const double ha = a.sink.peak_stage_m[i];
@@ -709,6 +737,15 @@ TEST(StudyUnits, SiAndUsCustomaryInputRouteToTheSamePeaks) {
     const double vb = b.numerics.balances[i].ledger.outflow_m3;
     EXPECT_LE(std::abs(va - vb), 1e-9 * vb) << va << " vs " << vb;
   }
+  RecordProperty("worst_relative_peak_difference", format_value(worst));
+  // Rain volume of the US file against a hand value: the alternating block holds the IDF
+  // depth at its duration (Chow, Maidment & Mays 1988, sec. 14.4), P = 51 / (60 + 10)^0.75
+  // in/h x 1 h, on 150 + 10 acres; in m3 with the NIST factors above.
+  const double rain_in = 51.0 / std::pow(70.0, 0.75);
+  const double rain_m3 = rain_in * 0.0254 * 160.0 * 4046.8564224;
+  double ledger_m3 = 0.0;
+  for (const auto& balance : a.numerics.balances) ledger_m3 += balance.ledger.rain_m3;
+  EXPECT_NEAR(ledger_m3, rain_m3, 1e-9 * rain_m3);
   // The road and the weir are in play: the crossing's pool rises above the road's low point
   // (179.0 ft) and the pond above the weir crest (103.5 ft), so their coefficients'
   // conversions are exercised.
@@ -756,6 +793,11 @@ outlet_invert = 100.0
 
 [[outlet]]
 id = "out"
+
+[[scenario]]
+id = "wider"
+[scenario.change.r1]
+section = { shape = "rectangular", bottom_width = 8.0 }
 )",
             {{"steady.csv", "time_min,discharge_m3s\n0,5.0\n60,5.0\n"}});
   const Study study = Study::load(f.basin);
@@ -767,9 +809,19 @@ id = "out"
   EXPECT_NEAR(y, 1.0676, 5e-4);
   EXPECT_NEAR(end.discharge_m3s, q, 1e-9 * q);
   EXPECT_NEAR(end.depth_m, y, 1e-9 * y);
+  RecordProperty("normal_depth_m", std::to_string(y));
+  RecordProperty("depth_relative_error", format_value(std::abs(end.depth_m - y) / y));
   EXPECT_NEAR(end.stage_m, invert + y, 1e-9 * (invert + y));
   EXPECT_NEAR(end.velocity_m_s, q / (b * y), 1e-9 * q / (b * y));
   EXPECT_NEAR(run.sink.rows.back()[index_of(run, "out")].discharge_m3s, q, 1e-9 * q);
+
+  // The scenario replaces the section: twice the width, the normal depth of that channel.
+  const RunResult wide = run_in_memory(study, "s1", "wider");
+  const network::StationSample& w = wide.sink.rows.back()[index_of(wide, "r1")];
+  const double y8 = manning_normal_depth_rectangular(q, 8.0, n, slope);
+  EXPECT_LT(y8, 0.7 * y);
+  EXPECT_NEAR(w.depth_m, y8, 1e-9 * y8);
+  EXPECT_NEAR(w.discharge_m3s, q, 1e-9 * q);
 }
 
 // (b) Volume. For the whole demo basin, what left through the outfall plus what is still
@@ -809,7 +861,12 @@ TEST(StudyPhysics, DemoBasinConservesVolume) {
   EXPECT_NEAR(out_m3 + stored_m3, supplied_m3, 1e-9 * supplied_m3)
       << "outfall " << out_m3 << " m3, stored " << stored_m3 << " m3, spring " << spring_m3
       << " m3, rain " << rain_m3 << " m3, losses " << loss_m3 << " m3";
-  EXPECT_GT(out_m3, 0.5 * supplied_m3);  // most of it has left after 6 h
+  EXPECT_GT(out_m3, 0.5 * supplied_m3);
+  RecordProperty("volume_closure_relative",
+                 format_value(std::abs(out_m3 + stored_m3 - supplied_m3) / supplied_m3));
+  RecordProperty("outfall_m3", std::to_string(out_m3));
+  RecordProperty("rain_m3", std::to_string(rain_m3));
+  RecordProperty("loss_m3", std::to_string(loss_m3));  // most of it has left after 6 h
 }
 
 // (c) A detention basin with one free-flowing rectangular weir under a constant inflow
@@ -844,6 +901,7 @@ id = "out"
   const double head = std::pow(q / (c * length), 2.0 / 3.0);
   EXPECT_NEAR(head, 0.5579, 5e-4);  // (2 / 4.8)^(2/3), by hand
   EXPECT_NEAR(end.stage_m, crest + head, 1e-6 * head);
+  RecordProperty("head_relative_error", format_value(std::abs(end.stage_m - crest - head) / head));
   EXPECT_NEAR(end.depth_m, head, 1e-6 * head);
   EXPECT_NEAR(end.discharge_m3s, q, 1e-6 * q);
 }
