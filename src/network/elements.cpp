@@ -32,7 +32,6 @@ void ReachElement::reset(double /*start_s*/) {
 
 StepOutflow ReachElement::advance(const StepInflow& in) {
   const double length_m = reach_->spec().length_m;
-  const auto inflow = PiecewiseLinearSeries::constant(in.inflow_mean_m3s);
   const auto lateral =
       in.lateral_mean_m3s > 0.0
           ? routing::LateralInflow::uniform(
@@ -40,7 +39,7 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
           : routing::LateralInflow::none();
   routing::AdvanceResult r;
   try {
-    r = reach_->advance(in.t0_s, in.t1_s, inflow, lateral);
+    r = reach_->advance(in.t0_s, in.t1_s, in.inflow_mean_m3s, lateral);
   } catch (const InputError& e) {
     throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) +
                          " s received an invalid forcing: " + e.what());
