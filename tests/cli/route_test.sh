@@ -5,7 +5,8 @@
 #    no temporary '.partial' file is left (outputs are renamed into place, docs/outputs.md);
 #  * the NetCDF header carries the CF attributes checked with ncdump -h (CF-1.11 conventions,
 #    discrete sampling geometry featureType timeSeries, CF standard name of discharge) and
-#    the caution, and 6 h at 5-min outputs gives 73 times (start included);
+#    the caution, 6 h at 5-min outputs gives 73 times (start included), and the time unit
+#    counts from the study start of basins/tansy-brook.toml (2026-07-14T00:00:00Z);
 #  * the station summary agrees with values computed by hand from the inputs: Quarry Spring
 #    peaks at 2.5 m3/s at 90 min and carries 23 220 m3 (trapezoidal integral of
 #    hydrographs/quarry-spring.csv, which is linear between rows), and the confluence passes
@@ -43,7 +44,8 @@ ncdump -h "$base.nc" > "$dir/header.txt" || fail "ncdump -h failed on $base.nc"
 for pattern in ':Conventions = "CF-1.11' ':featureType = "timeSeries"' \
                'discharge:standard_name = "water_volume_transport_in_river_channel"' \
                'station_id:cf_role = "timeseries_id"' ':caution = "CAUTION: ' \
-               'time = UNLIMITED ; // (73 currently)'; do
+               'time = UNLIMITED ; // (73 currently)' \
+               'time:units = "seconds since 2026-07-14 00:00:00'; do
   grep -qF "$pattern" "$dir/header.txt" || { cat "$dir/header.txt"; fail "header lacks: $pattern"; }
 done
 
