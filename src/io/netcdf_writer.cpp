@@ -216,13 +216,17 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   std::string long_name(s.long_name);
   if (v == OutputVariable::stage) {
     if (set.stage_datum.empty()) {
-      long_name = "water surface elevation (bed elevation plus flow depth) in the vertical frame "
-                  "of the basin file's elevations";
+      long_name = "water level: water surface elevation in the vertical frame of the basin "
+                  "file's elevations where the element has a bed or invert elevation, otherwise "
+                  "the flow depth";
     } else {
       long_name = "water surface elevation above " + set.stage_datum;
       var.putAtt("standard_name", "water_surface_height_above_reference_datum");
       var.putAtt("vertical_datum", set.stage_datum);
     }
+  } else if (v == OutputVariable::discharge && set.kind == "subcatchment") {
+    // Runoff from a subcatchment is not channel flow: no CF standard name applies.
+    long_name = "surface runoff discharge leaving the subcatchment";
   } else if (!s.standard_name.empty()) {
     var.putAtt("standard_name", std::string(s.standard_name));
   }

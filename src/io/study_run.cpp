@@ -159,8 +159,7 @@ InstanceSet instances(const std::vector<StationDescription>& stations,
     if (stations[i].kind == "reach") info.reach_id = stations[i].id;
     set.instances.push_back(info);
   }
-  set.stage_datum = "the basin file's elevation datum; where a station has no bed elevation "
-                    "(junctions, reaches without outlet_invert) stage is the flow depth";
+  // Stage mixes elevations and depths (see the variable's long_name), so no datum is claimed.
   return set;
 }
 
@@ -328,7 +327,6 @@ class ProfileWriter {
         set.instances.push_back(info);
       }
     }
-    set.stage_datum = "flow depth (profiles report depth as stage)";
     return set;
   }
 

@@ -51,6 +51,16 @@ void sweep(Model& model, double t0_s, double t1_s, std::vector<StepOutflow>& out
   }
 }
 
+// Hands every element the instantaneous inflow at the start (upstream first), so that the
+// first record of a junction shows what flows into it.
+void prime(Model& model) {
+  for (std::size_t i : model.topology.order) {
+    double q = 0.0;
+    for (std::size_t u : model.topology.upstream[i]) q += model.elements[u]->sample().discharge_m3s;
+    model.elements[i]->prime(q);
+  }
+}
+
 void take_samples(const Model& model, std::vector<StationSample>& samples) {
   for (std::size_t i = 0; i < model.elements.size(); ++i) samples[i] = model.elements[i]->sample();
 }
@@ -80,6 +90,7 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
   clock.validate();
   const auto wall_start = std::chrono::steady_clock::now();
   for (auto& e : model.elements) e->reset(clock.start_s);
+  prime(model);
 
   const double dt_s = clock.coupling_step_s();
   const auto steps_per_output =

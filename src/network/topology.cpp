@@ -99,10 +99,14 @@ Topology build_topology(const std::vector<Link>& links) {
   }
   if (t.order.size() != links.size()) {
     std::string members;
+    const Link* first = nullptr;
     for (std::size_t i = 0; i < links.size(); ++i) {
-      if (pending[i] > 0) members += (members.empty() ? "" : ", ") + label(links[i]);
+      if (pending[i] == 0) continue;
+      members += (members.empty() ? "" : ", ") + label(links[i]);
+      if (!first) first = &links[i];
     }
-    problems.push_back(Problem{"", 0, 0, "network", "to",
+    problems.push_back(Problem{first->where.file, first->where.line, first->where.column,
+                               "network", "to",
                                "forms a cycle (water would flow in a loop) through: " + members});
   }
   if (!problems.empty()) throw InputError(std::move(problems));

@@ -76,6 +76,9 @@ class Element {
   // Restores the initial state at the run's start time (a dry network unless the element
   // says otherwise).
   virtual void reset(double start_s) = 0;
+  // After reset, in upstream-first order: the instantaneous inflow at the start time, so
+  // that elements without storage can report it in the first record. Default: ignored.
+  virtual void prime(double /*inflow_m3s*/) {}
   // Advances over the step; returns the outflow over it.
   virtual StepOutflow advance(const StepInflow& in) = 0;
   // The state at the end of the last step.

@@ -12,6 +12,7 @@ class PassThrough final : public Element {
  public:
   PassThrough(std::string id, ElementKind kind) : Element(std::move(id), kind) {}
   void reset(double start_s) override;
+  void prime(double inflow_m3s) override { end_m3s_ = inflow_m3s; }
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override { return ledger_; }

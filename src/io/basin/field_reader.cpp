@@ -10,18 +10,51 @@ constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 }
 
 FieldReader::FieldReader(const toml::table& table, std::string file, std::string element,
-                         std::vector<Problem>& problems)
-    : table_(table), file_(std::move(file)), element_(std::move(element)), problems_(problems) {}
+                         std::vector<Problem>& problems, const toml::table* override)
+    : table_(table),
+      override_(override),
+      file_(std::move(file)),
+      element_(std::move(element)),
+      problems_(problems) {}
+
+const toml::array& items_of(const toml::array* array) {
+  static const toml::array kEmpty;
+  return array ? *array : kEmpty;
+}
+
+bool is_safe_id(std::string_view id) {
+  if (id.empty() || id == "." || id == "..") return false;
+  for (char c : id) {
+    const bool ok = (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
+                    c == '.' || c == '_' || c == '-';
+    if (!ok) return false;
+  }
+  return true;
+}
+
+const toml::node* FieldReader::find(std::string_view key) const {
+  if (override_) {
+    if (const toml::node* n = override_->get(key)) return n;
+  }
+  return table_.get(key);
+}
 
 Problem FieldReader::make(const toml::node* node, std::string_view key,
                           std::string message) const {
-  const auto& where = node ? node->source() : table_.source();
-  return Problem{file_, static_cast<int>(where.begin.line), static_cast<int>(where.begin.column),
-                 element_, std::string(key), std::move(message)};
+  toml::source_position where = (node ? node->source() : table_.source()).begin;
+  if (where.line == 0) {
+    // Tables made by [[a.b]] headers carry no position of their own: use their first value.
+    for (const auto& [k, value] : table_) {
+      const auto& p = value.source().begin;
+      if (p.line > 0 && (where.line == 0 || p.line < where.line)) where = p;
+    }
+  }
+  return Problem{file_, static_cast<int>(where.line), static_cast<int>(where.column), element_,
+                 std::string(key), std::move(message)};
 }
 
 void FieldReader::report(std::string_view key, std::string message) {
-  problems_.push_back(make(table_.get(key), key, std::move(message)));
+  problems_.push_back(make(find(key), key, std::move(message)));
 }
 
 void FieldReader::report_here(std::string message) {
@@ -30,7 +63,7 @@ void FieldReader::report_here(std::string message) {
 
 const toml::node* FieldReader::take(std::string_view key) {
   read_.emplace(key);
-  return table_.get(key);
+  return find(key);
 }
 
 double FieldReader::checked(std::string_view key, const toml::node& node) {
@@ -81,12 +114,12 @@ std::optional<double> FieldReader::optional_non_negative(std::string_view key) {
 }
 
 double FieldReader::positive(std::string_view key) {
-  if (table_.get(key) == nullptr) return number(key);
+  if (find(key) == nullptr) return number(key);
   return *optional_positive(key);
 }
 
 double FieldReader::non_negative(std::string_view key) {
-  if (table_.get(key) == nullptr) return number(key);
+  if (find(key) == nullptr) return number(key);
   return *optional_non_negative(key);
 }
 
@@ -107,7 +140,7 @@ std::optional<long long> FieldReader::optional_integer(std::string_view key, lon
 }
 
 long long FieldReader::integer(std::string_view key, long long min_value) {
-  if (table_.get(key) == nullptr) {
+  if (find(key) == nullptr) {
     read_.emplace(key);
     report_here("is missing required field '" + std::string(key) + "'");
     return min_value;
@@ -138,7 +171,7 @@ std::string FieldReader::choice(std::string_view key, const std::vector<std::str
   for (const auto& a : allowed) {
     if (s == a) return s;
   }
-  if (!s.empty() || table_.get(key)) {
+  if (!s.empty() || find(key)) {
     std::string list;
     for (const auto& a : allowed) list += (list.empty() ? "'" : ", '") + a + "'";
     report(key, "= '" + s + "': must be one of " + list);
@@ -189,10 +222,13 @@ const toml::array* FieldReader::optional_array(std::string_view key) {
 }
 
 void FieldReader::finish() {
-  for (const auto& [key, node] : table_) {
-    if (!read_.contains(key.str())) {
-      problems_.push_back(make(&node, key.str(), "is not a known field here (check the spelling; "
-                                                 "see docs/basin-file.md)"));
+  for (const toml::table* t : {&table_, override_}) {
+    if (!t) continue;
+    for (const auto& [key, node] : *t) {
+      if (!read_.contains(key.str()) && (t == override_ || find(key.str()) == &node)) {
+        problems_.push_back(make(&node, key.str(), "is not a known field here (check the "
+                                                   "spelling; see docs/basin-file.md)"));
+      }
     }
   }
 }

@@ -24,8 +24,10 @@ namespace freshet::io::detail {
 
 class FieldReader {
  public:
+  // `override`, when given, holds values that replace the table's own key by key (a
+  // scenario's changes to an element); both keep their positions in the file.
   FieldReader(const toml::table& table, std::string file, std::string element,
-              std::vector<Problem>& problems);
+              std::vector<Problem>& problems, const toml::table* override = nullptr);
 
   // Numbers (TOML integers are accepted where a float is expected). A missing or invalid
   // required value is reported and NaN returned, so reading can continue.
@@ -59,14 +61,24 @@ class FieldReader {
 
  private:
   const toml::node* take(std::string_view key);
+  [[nodiscard]] const toml::node* find(std::string_view key) const;
   double checked(std::string_view key, const toml::node& node);
   Problem make(const toml::node* node, std::string_view key, std::string message) const;
 
   const toml::table& table_;
+  const toml::table* override_;
   std::string file_;
   std::string element_;
   std::vector<Problem>& problems_;
   std::set<std::string, std::less<>> read_;
 };
+
+// True for ids that are safe as file and folder names: letters, digits, '.', '_', '-', not
+// "." or "..".
+bool is_safe_id(std::string_view id);
+
+// For range-for over an optional array: `for (auto& n : items_of(arr))`. (Never write
+// `arr ? *arr : toml::array{}`: that copies the array, and toml++ copies lose positions.)
+const toml::array& items_of(const toml::array* array);
 
 }  // namespace freshet::io::detail

@@ -31,10 +31,12 @@ void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& 
   }
 }
 
-ModelBuilder::ModelBuilder(const toml::table& root, std::string file,
-                           std::filesystem::path base_dir, const StudySettings& settings,
-                           const hydrology::Hyetograph& storm, std::vector<Problem>& problems)
+ModelBuilder::ModelBuilder(const toml::table& root, const toml::table* changes,
+                           std::string file, std::filesystem::path base_dir,
+                           const StudySettings& settings, const hydrology::Hyetograph& storm,
+                           std::vector<Problem>& problems)
     : root_(root),
+      changes_(changes),
       file_(std::move(file)),
       base_dir_(std::move(base_dir)),
       settings_(settings),
@@ -103,17 +105,22 @@ void ModelBuilder::element(const toml::table& table, ElementKind kind, ReadFn&& 
   const auto* id_node = table.get("id");
   const std::string id = id_node && id_node->is_string() ? id_node->value_or(std::string{}) : "";
   const std::string label = std::string(network::to_string(kind)) + " '" + id + "'";
-  Reader r(table, file_, label, problems_);
+  const toml::table* changed = changes_ ? changes_->get_as<toml::table>(id) : nullptr;
+  Reader r(table, file_, label, problems_, changed);
   network::Link link;
   link.id = r.text("id");
+  if (!is_safe_id(link.id) && !link.id.empty()) {
+    r.report("id", "= '" + link.id + "': use letters, digits, '.', '_' and '-' only (ids name "
+                   "output files and stations)");
+  }
   link.kind = kind;
   link.where = {file_, r.line(), r.column()};
-  if (kind != ElementKind::outlet) {
-    link.to = r.text("to");
-  }
+  // A missing or misplaced 'to' is reported once, by the topology check.
+  link.to = r.optional_text("to").value_or("");
   StationDescription station{link.id, std::string(network::to_string(kind)),
                              r.optional_text("name").value_or(link.id), link.to, false};
   const std::size_t before = problems_.size();
+  element_start_ = before;
   std::unique_ptr<network::Element> e;
   try {
     e = read(r, link.id);
@@ -151,36 +158,44 @@ namespace {
 
 std::unique_ptr<hydrology::LossModel> read_pervious_loss(FieldReader& l, const InputUnits& u,
                                                          const std::string& element) {
+  // Ranges are checked here, under the file's own field names and units; the loss models
+  // check the physics (CN range, porosities, f0 >= fc) again when they are built.
+  const std::size_t before = l.problems().size();
   const std::string method =
       l.choice("method", {"curve-number", "green-ampt", "horton", "initial-continuing", "none"});
   if (method == "curve-number") {
     hydrology::CurveNumberParameters p;
-    p.curve_number = l.number("curve_number");
-    p.initial_abstraction_ratio = l.optional_number("initial_abstraction_ratio").value_or(0.2);
+    p.curve_number = l.positive("curve_number");
+    p.initial_abstraction_ratio =
+        l.optional_non_negative("initial_abstraction_ratio").value_or(0.2);
+    if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::CurveNumberLoss>(p, element);
   }
   if (method == "green-ampt") {
     hydrology::GreenAmptParameters p;
-    p.hydraulic_conductivity_m_s = u.rate_m_s(l.number("conductivity"));
-    p.suction_head_m = u.rain_depth_m(l.number("suction_head"));
-    p.porosity = l.number("porosity");
-    p.effective_porosity = l.number("effective_porosity");
-    p.initial_effective_saturation = l.number("initial_saturation");
+    p.hydraulic_conductivity_m_s = u.rate_m_s(l.positive("conductivity"));
+    p.suction_head_m = u.rain_depth_m(l.positive("suction_head"));
+    p.porosity = l.positive("porosity");
+    p.effective_porosity = l.positive("effective_porosity");
+    p.initial_effective_saturation = l.non_negative("initial_saturation");
+    if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::GreenAmptLoss>(p, element);
   }
   if (method == "horton") {
     hydrology::HortonParameters p;
-    p.initial_capacity_m_s = u.rate_m_s(l.number("initial_rate"));
-    p.final_capacity_m_s = u.rate_m_s(l.number("final_rate"));
-    p.decay_rate_per_s = l.number("decay_per_h") / units::kSecondsPerHour;
+    p.initial_capacity_m_s = u.rate_m_s(l.non_negative("initial_rate"));
+    p.final_capacity_m_s = u.rate_m_s(l.non_negative("final_rate"));
+    p.decay_rate_per_s = l.positive("decay_per_h") / units::kSecondsPerHour;
+    if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::HortonLoss>(p, element);
   }
   if (method == "initial-continuing" || method == "none") {
     hydrology::InitialContinuingParameters p;
     if (method == "initial-continuing") {
-      p.initial_loss_m = u.rain_depth_m(l.number("initial_loss"));
-      p.continuing_loss_m_s = u.rate_m_s(l.number("continuing_rate"));
+      p.initial_loss_m = u.rain_depth_m(l.non_negative("initial_loss"));
+      p.continuing_loss_m_s = u.rate_m_s(l.non_negative("continuing_rate"));
     }
+    if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::InitialContinuingLoss>(p, element);
   }
   return nullptr;
@@ -189,7 +204,7 @@ std::unique_ptr<hydrology::LossModel> read_pervious_loss(FieldReader& l, const I
 std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits& u,
                                                 const std::string& element) {
   auto pervious = read_pervious_loss(l, u, element);
-  const auto fraction = l.optional_number("impervious_fraction");
+  const auto fraction = l.optional_non_negative("impervious_fraction");
   const auto storage = l.optional_non_negative("impervious_storage");
   if (!pervious) return nullptr;
   if (!fraction && !storage) return pervious;
@@ -211,7 +226,7 @@ std::unique_ptr<network::Element> ModelBuilder::read_subcatchment(Reader& r,
   const toml::array* planes = r.optional_array("plane");
   if (!planes || planes->empty()) r.report_here("needs at least one [[subcatchment.plane]]");
   int k = 0;
-  for (const toml::node& node : planes ? *planes : toml::array{}) {
+  for (const toml::node& node : items_of(planes)) {
     ++k;
     const toml::table* t = node.as_table();
     if (!t) continue;
@@ -233,7 +248,7 @@ std::unique_ptr<network::Element> ModelBuilder::read_subcatchment(Reader& r,
   } else {
     r.report_here("is missing required table 'loss' (use method = \"none\" for no losses)");
   }
-  if (!losses || !std::isfinite(spec.area_m2)) return nullptr;
+  if (!losses || !clean()) return nullptr;
   auto model = std::make_unique<hydrology::Subcatchment>(spec, storm_, std::move(losses),
                                                          settings_.plane_routing);
   return std::make_unique<network::SubcatchmentElement>(id, std::move(model));
@@ -261,7 +276,7 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
     return geometry::RectangularSpec{u.length_m(s.positive("bottom_width")), n()};
   }
   if (shape == "trapezoidal") {
-    return geometry::TrapezoidalSpec{u.length_m(s.positive("bottom_width")),
+    return geometry::TrapezoidalSpec{u.length_m(s.non_negative("bottom_width")),
                                      s.non_negative("left_side_slope"),
                                      s.non_negative("right_side_slope"), n()};
   }
@@ -309,8 +324,12 @@ std::unique_ptr<network::Element> ModelBuilder::read_reach(Reader& r, const std:
   const auto cell_length = r.optional_positive("cell_length");
   const auto invert = r.optional_number("outlet_invert");
   routing::RoutingOptions options = settings_.channel_routing;
-  if (auto scheme = r.optional_text("scheme")) options.scheme = routing::parse_scheme_kind(*scheme);
-  if (!spec || !std::isfinite(length_m) || !std::isfinite(slope)) return nullptr;
+  if (r.optional_node("scheme")) {
+    const std::string scheme = r.choice(
+        "scheme", {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun"});
+    if (!scheme.empty()) options.scheme = routing::parse_scheme_kind(scheme);
+  }
+  if (!spec || !clean()) return nullptr;
 
   int cell_count = 0;
   if (cells) {
@@ -392,7 +411,11 @@ std::unique_ptr<network::Element> ModelBuilder::read_culvert(Reader& r, const st
                                         std::sqrt(units::kMetresPerFoot)
                                   : structures::kRoadOvertoppingCoefficientSi));
     rd.finish();
-    road.emplace(std::move(station), std::move(crest), c, r.element());
+    try {
+      road.emplace(std::move(station), std::move(crest), c, r.element());
+    } catch (const InputError& e) {
+      relocate(e, rd, problems_);  // keep reading: the ponding table is checked too
+    }
   }
   std::optional<double> tailwater;
   if (auto tw = r.optional_number("tailwater")) tailwater = units_.length_m(*tw);
@@ -404,7 +427,7 @@ std::unique_ptr<network::Element> ModelBuilder::read_culvert(Reader& r, const st
   } else {
     r.report_here("is missing required table 'ponding' (the storage upstream of the road)");
   }
-  if (!barrel || !ponding) return nullptr;
+  if (!barrel || !ponding || !clean()) return nullptr;
   structures::Culvert culvert(spec, r.element());
   // Rate to well above anything the road or barrel can pass before the rating is extended.
   double top_m = spec.inlet_invert_stage_m + 3.0 * spec.rise_m;
@@ -467,7 +490,7 @@ std::unique_ptr<network::Element> ModelBuilder::read_detention(Reader& r, const 
   const toml::array* list = r.optional_array("outlet");
   if (!list || list->empty()) r.report_here("needs at least one [[detention.outlet]]");
   int k = 0;
-  for (const toml::node& node : list ? *list : toml::array{}) {
+  for (const toml::node& node : items_of(list)) {
     ++k;
     if (const toml::table* t = node.as_table()) {
       Reader o(*t, file_, r.element() + " outlet " + std::to_string(k), problems_);
@@ -476,7 +499,11 @@ std::unique_ptr<network::Element> ModelBuilder::read_detention(Reader& r, const 
     }
   }
   const auto initial = r.optional_number("initial_stage");
-  if (!storage || outlets.empty()) return nullptr;
+  if (initial && storage && units_.length_m(*initial) < storage->bottom_stage_m()) {
+    r.report("initial_stage", "= " + format_value(*initial) + ": is below the bottom of the "
+                              "storage table (" + format_value(storage->bottom_stage_m()) + " m)");
+  }
+  if (!storage || outlets.empty() || !clean()) return nullptr;
   auto riser = std::make_unique<structures::Riser>(std::move(outlets), r.element());
   const double start_m = initial ? units_.length_m(*initial) : storage->bottom_stage_m();
   structures::LevelPoolOptions options;

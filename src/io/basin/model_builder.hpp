@@ -1,5 +1,5 @@
-// Builds a network::Model from the element tables of a basin file (after any scenario
-// changes were applied to them). Every problem is appended to `problems` with file, line,
+// Builds a network::Model from the element tables of a basin file, with a scenario's
+// changes laid over them. Every problem is appended to `problems` with file, line,
 // element and field; the model is complete only when no problem was added.
 #pragma once
 
@@ -23,9 +23,11 @@ inline constexpr std::string_view kElementArrays[] = {
 
 class ModelBuilder {
  public:
-  ModelBuilder(const toml::table& root, std::string file, std::filesystem::path base_dir,
-               const StudySettings& settings, const hydrology::Hyetograph& storm,
-               std::vector<Problem>& problems);
+  // `changes`, when given, is a scenario's [scenario.change] table: element id -> values
+  // that replace that element's keys.
+  ModelBuilder(const toml::table& root, const toml::table* changes, std::string file,
+               std::filesystem::path base_dir, const StudySettings& settings,
+               const hydrology::Hyetograph& storm, std::vector<Problem>& problems);
 
   // Reads every element; returns the model (finalized) when no problem was found, and an
   // empty model otherwise (the problems are in the list).
@@ -47,7 +49,12 @@ class ModelBuilder {
   std::unique_ptr<network::Element> read_culvert(Reader& r, const std::string& id);
   std::unique_ptr<network::Element> read_detention(Reader& r, const std::string& id);
 
+  // True while the element being read has no problem: library objects are built only from
+  // values that passed the reader's checks, so one mistake is reported once.
+  [[nodiscard]] bool clean() const { return problems_.size() == element_start_; }
+
   const toml::table& root_;
+  const toml::table* changes_;
   std::string file_;
   std::filesystem::path base_dir_;
   const StudySettings& settings_;
@@ -57,6 +64,7 @@ class ModelBuilder {
   network::Model model_;
   std::vector<StationDescription> stations_;
   bool complete_ = true;
+  std::size_t element_start_ = 0;
 };
 
 // Converts an InputError raised by a library constructor into located problems.

@@ -1,5 +1,7 @@
 #include "freshet/io/study.hpp"
 
+#include <chrono>
+#include <cstdio>
 #include <map>
 #include <sstream>
 
@@ -23,15 +25,16 @@ struct Study::Impl {
   StudySettings settings;
   std::vector<StormDefinition> storms;
   std::vector<ScenarioDefinition> scenarios;
-  std::map<std::string, toml::table, std::less<>> changes;  // scenario id -> change tables
+  // scenario id -> its [scenario.change] table, inside `root` (toml++ copies lose positions)
+  std::map<std::string, const toml::table*, std::less<>> changes;
   std::vector<StationDescription> stations;
 
   void read_settings(FieldReader& r, std::vector<Problem>& problems);
   void read_storms(std::vector<Problem>& problems);
   void read_scenarios(std::vector<Problem>& problems);
-  [[nodiscard]] toml::table apply_changes(std::string_view scenario_id,
-                                          std::vector<Problem>& problems) const;
-  network::Model build(const toml::table& tree, const hydrology::Hyetograph& rain,
+  [[nodiscard]] const toml::table* checked_changes(std::string_view scenario_id,
+                                                   std::vector<Problem>& problems) const;
+  network::Model build(std::string_view scenario_id, const hydrology::Hyetograph& rain,
                        std::vector<Problem>& problems,
                        std::vector<StationDescription>* stations_out = nullptr) const;
 };
@@ -40,10 +43,23 @@ struct Study::Impl {
 
 namespace {
 
-std::string iso_of(const toml::date_time& dt) {
-  std::ostringstream out;
-  out << dt;  // toml++ prints RFC 3339
-  return out.str();
+// The study start in UTC, "YYYY-MM-DDThh:mm:ssZ". A date-time with an offset is converted to
+// UTC; a local date-time (no offset) is taken as UTC.
+std::string utc_iso_of(const toml::date_time& dt) {
+  using namespace std::chrono;
+  const sys_days date{year_month_day{year{dt.date.year}, month{dt.date.month},
+                                     std::chrono::day{dt.date.day}}};
+  sys_seconds t = date + hours{dt.time.hour} + minutes{dt.time.minute} + seconds{dt.time.second};
+  if (dt.offset) t -= minutes{dt.offset->minutes};
+  const sys_days utc_day = floor<days>(t);
+  const year_month_day ymd{utc_day};
+  const hh_mm_ss hms{t - utc_day};
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%04d-%02u-%02uT%02ld:%02ld:%02ldZ", static_cast<int>(ymd.year()),
+                static_cast<unsigned>(ymd.month()), static_cast<unsigned>(ymd.day()),
+                static_cast<long>(hms.hours().count()), static_cast<long>(hms.minutes().count()),
+                static_cast<long>(hms.seconds().count()));
+  return buf;
 }
 
 routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::SchemeKind fallback) {
@@ -67,9 +83,10 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   settings.units = units::parse_system(system).value_or(units::System::si);
   if (const toml::node* start = r.optional_node("start")) {
     if (auto dt = start->value<toml::date_time>()) {
-      settings.start_iso = iso_of(*dt);
+      settings.start_iso = utc_iso_of(*dt);
     } else {
-      r.report("start", "must be a date-time with offset, e.g. 2026-07-14T00:00:00Z");
+      r.report("start", "must be a date and time, e.g. 2026-07-14T00:00:00Z (an offset such as "
+                        "+02:00 is converted to UTC; no offset means UTC)");
     }
   }
   settings.duration_s = r.positive("duration_h") * units::kSecondsPerHour;
@@ -139,13 +156,20 @@ hydrology::IdfCurve read_idf(FieldReader& r, const InputUnits& u, const std::str
 void Study::Impl::read_storms(std::vector<Problem>& problems) {
   const toml::array* list = root.get_as<toml::array>("storm");
   const InputUnits u{settings.units};
-  for (const toml::node& node : list ? *list : toml::array{}) {
+  for (const toml::node& node : detail::items_of(list)) {
     const toml::table* t = node.as_table();
     if (!t) continue;
     const std::string id = t->get("id") ? t->get("id")->value_or(std::string{}) : "";
     const std::string label = "storm '" + id + "'";
     FieldReader r(*t, file, label, problems);
     r.text("id");
+    if (!id.empty() && !detail::is_safe_id(id)) {
+      r.report("id", "= '" + id + "': use letters, digits, '.', '_' and '-' only (storm ids "
+                     "name output files)");
+    }
+    for (const auto& other : storms) {
+      if (other.id == id) r.report("id", "= '" + id + "': another storm has this id");
+    }
     const std::string method =
         r.choice("method", {"alternating-block", "chicago", "nrcs-24h", "series"});
     const std::string description = r.optional_text("description").value_or(method);
@@ -175,7 +199,7 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
     } catch (const IoError& e) {
       r.report_here(e.what());
     }
-    r.finish();
+    if (!method.empty()) r.finish();  // an unknown method's other keys cannot be judged
   }
 }
 
@@ -183,7 +207,7 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
 
 void Study::Impl::read_scenarios(std::vector<Problem>& problems) {
   const toml::array* list = root.get_as<toml::array>("scenario");
-  for (const toml::node& node : list ? *list : toml::array{}) {
+  for (const toml::node& node : detail::items_of(list)) {
     const toml::table* t = node.as_table();
     if (!t) continue;
     const std::string id = t->get("id") ? t->get("id")->value_or(std::string{}) : "";
@@ -195,10 +219,15 @@ void Study::Impl::read_scenarios(std::vector<Problem>& problems) {
     if (!change || change->empty()) r.report_here("needs a [scenario.change.<element-id>] table");
     if (change) {
       for (const auto& [key, value] : *change) s.changed_elements.emplace_back(key.str());
-      changes.emplace(s.id, *change);
+      changes.emplace(s.id, change);
     }
     for (const auto& other : scenarios) {
       if (other.id == s.id) r.report("id", "= '" + s.id + "': another scenario has this id");
+    }
+    if (s.id == "base") r.report("id", "= 'base': reserved for the base network's results");
+    if (!s.id.empty() && !detail::is_safe_id(s.id)) {
+      r.report("id", "= '" + s.id + "': use letters, digits, '.', '_' and '-' only (scenario "
+                     "ids name output folders)");
     }
     r.finish();
     scenarios.push_back(std::move(s));
@@ -207,62 +236,57 @@ void Study::Impl::read_scenarios(std::vector<Problem>& problems) {
 
 namespace {
 
-// Each key of `change` replaces the element's key whole (a table is not merged), so a
-// scenario states every field of what it changes, and no field of the old design lingers.
-void merge_into(toml::table& target, const toml::table& change) {
-  for (const auto& [key, value] : change) target.insert_or_assign(key.str(), value);
-}
-
-toml::table* find_element(toml::table& tree, std::string_view id) {
+bool element_exists(const toml::table& root, std::string_view id) {
   for (std::string_view array : detail::kElementArrays) {
-    toml::array* list = tree.get_as<toml::array>(array);
-    if (!list) continue;
-    for (toml::node& node : *list) {
-      toml::table* t = node.as_table();
-      if (t && t->get("id") && t->get("id")->value_or(std::string{}) == id) return t;
+    for (const toml::node& node : detail::items_of(root.get_as<toml::array>(array))) {
+      const toml::table* t = node.as_table();
+      if (t && t->get("id") && t->get("id")->value_or(std::string{}) == id) return true;
     }
   }
-  return nullptr;
+  return false;
 }
 
 }  // namespace
 
-toml::table Study::Impl::apply_changes(std::string_view scenario_id,
-                                       std::vector<Problem>& problems) const {
-  toml::table tree = root;
-  if (scenario_id.empty()) return tree;
+// The change table of a scenario, after checking that it names existing elements and leaves
+// their ids and links alone. Each key given replaces the element's key whole (a table is not
+// merged), so a scenario states every field of what it changes.
+const toml::table* Study::Impl::checked_changes(std::string_view scenario_id,
+                                                std::vector<Problem>& problems) const {
+  if (scenario_id.empty()) return nullptr;
   const auto it = changes.find(scenario_id);
   if (it == changes.end()) {
     problems.push_back({file, 0, 0, "scenario '" + std::string(scenario_id) + "'", "",
                         "is not defined in this basin file"});
-    return tree;
+    return nullptr;
   }
-  for (const auto& [element_id, value] : it->second) {
+  const std::string label = "scenario '" + std::string(scenario_id) + "'";
+  for (const auto& [element_id, value] : *it->second) {
     const auto& where = value.source().begin;
-    const std::string label = "scenario '" + std::string(scenario_id) + "'";
-    toml::table* target = find_element(tree, element_id.str());
-    if (!target) {
+    auto report = [&](std::string message) {
       problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
-                          label, "change." + std::string(element_id.str()),
-                          "names no element of the basin"});
+                          label, "change." + std::string(element_id.str()), std::move(message)});
+    };
+    if (!element_exists(root, element_id.str())) {
+      report("names no element of the basin");
     } else if (!value.is_table()) {
-      problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
-                          label, "change." + std::string(element_id.str()), "must be a table"});
+      report("must be a table");
     } else if (value.as_table()->get("id") || value.as_table()->get("to")) {
-      problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
-                          label, "change." + std::string(element_id.str()),
-                          "cannot change an element's id or its 'to' link"});
-    } else {
-      merge_into(*target, *value.as_table());
+      report("cannot change an element's id or its 'to' link");
     }
   }
-  return tree;
+  return it->second;
 }
 
-network::Model Study::Impl::build(const toml::table& tree, const hydrology::Hyetograph& rain,
+network::Model Study::Impl::build(std::string_view scenario_id,
+                                  const hydrology::Hyetograph& rain,
                                   std::vector<Problem>& problems,
                                   std::vector<StationDescription>* stations_out) const {
-  detail::ModelBuilder builder(tree, file, path.parent_path(), settings, rain, problems);
+  const std::size_t before = problems.size();
+  const toml::table* changes_table = checked_changes(scenario_id, problems);
+  if (problems.size() != before) return {};
+  detail::ModelBuilder builder(root, changes_table, file, path.parent_path(), settings, rain,
+                               problems);
   network::Model model = builder.build();
   if (stations_out) *stations_out = builder.stations();
   return model;
@@ -306,12 +330,9 @@ Study Study::load(const std::filesystem::path& basin_file) {
   const hydrology::Hyetograph& rain =
       impl->storms.empty() ? no_rain : impl->storms.front().rain;
   const std::size_t before = problems.size();
-  impl->build(impl->root, rain, problems, &impl->stations);
+  impl->build("", rain, problems, &impl->stations);
   if (problems.size() == before) {  // scenarios only add news when the base is sound
-    for (const auto& s : impl->scenarios) {
-      const toml::table tree = impl->apply_changes(s.id, problems);
-      impl->build(tree, rain, problems);
-    }
+    for (const auto& s : impl->scenarios) impl->build(s.id, rain, problems);
   }
   if (!problems.empty()) throw InputError(std::move(problems));
   return Study(std::move(impl));
@@ -347,9 +368,7 @@ const ScenarioDefinition& Study::scenario(std::string_view id) const {
 network::Model Study::build_model(std::string_view scenario_id,
                                   const StormDefinition& storm) const {
   std::vector<Problem> problems;
-  const toml::table tree = impl_->apply_changes(scenario_id, problems);
-  if (!problems.empty()) throw InputError(std::move(problems));
-  network::Model model = impl_->build(tree, storm.rain, problems);
+  network::Model model = impl_->build(scenario_id, storm.rain, problems);
   if (!problems.empty()) throw InputError(std::move(problems));
   return model;
 }
