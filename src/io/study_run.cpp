@@ -216,13 +216,14 @@ void add_shocks(const network::Model& model, RunSummary& summary) {
   for (const auto& e : model.elements) {
     const auto* reach = dynamic_cast<const network::ReachElement*>(e.get());
     if (!reach) continue;
-    const routing::ShockReport& s = reach->reach().shock_report();
-    if (!s.formed) continue;
+    const routing::ShockReport* found = reach->significant_shock();
+    if (!found) continue;
+    const routing::ShockReport& s = *found;
     ShockRecord r;
     r.element = e->id();
     r.time_s = s.formation_time_s;
     r.chainage_m = s.formation_position_m;
-    r.message = "speed " + fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+    r.message = "mean speed " + fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
                 fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " +
                 (s.reached_outlet ? "reached the outlet at t = " +
                                         fixed(s.outlet_arrival_time_s / 60.0, 1) + " min"

@@ -28,6 +28,7 @@ void ReachElement::reset(double /*start_s*/) {
   reach_->set_uniform_discharge(0.0);  // dry; restarts the reach's clock and ledger
   capacity_steps_ = 0;
   peak_inflow_m3s_ = 0.0;
+  peak_outflow_m3s_ = 0.0;
 }
 
 StepOutflow ReachElement::advance(const StepInflow& in) {
@@ -52,7 +53,9 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
   const int last = reach_->spec().cell_count - 1;
   const auto areas = reach_->cell_area_m2();
   if (section_.at_capacity(*std::max_element(areas.begin(), areas.end()))) ++capacity_steps_;
-  return {r.mean_outflow_m3s, reach_->cell_discharge_m3s(last)};
+  const double end_m3s = reach_->cell_discharge_m3s(last);
+  peak_outflow_m3s_ = std::max(peak_outflow_m3s_, end_m3s);
+  return {r.mean_outflow_m3s, end_m3s};
 }
 
 StationSample ReachElement::sample() const {
@@ -77,13 +80,23 @@ VolumeLedger ReachElement::ledger() const {
   return l;
 }
 
+const routing::ShockReport* ReachElement::significant_shock() const {
+  const routing::ShockReport& shock = reach_->shock_report();
+  if (!shock.formed || shock.path.empty()) return nullptr;
+  const routing::ShockSample& first = shock.path.front();
+  const double jump_m3s = geometry::discharge_m3s(section_.flux, first.area_left_m2) -
+                          geometry::discharge_m3s(section_.flux, first.area_right_m2);
+  return jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_ ? &shock : nullptr;
+}
+
 std::vector<ElementNote> ReachElement::notes() const {
   std::vector<ElementNote> out;
-  const routing::ShockReport& shock = reach_->shock_report();
-  if (shock.formed) {
+  if (const routing::ShockReport* found = significant_shock()) {
+    const routing::ShockReport& shock = *found;
     std::string text = "kinematic shock formed at t = " + fixed(shock.formation_time_s / 60.0, 1) +
-                       " min, " + fixed(shock.formation_position_m, 0) + " m downstream, speed " +
-                       fixed(shock.speed_m_s, 2) + " m/s";
+                       " min, " + fixed(shock.formation_position_m, 0) + " m downstream, mean " +
+                       "speed " + fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+                       fixed(shock.rankine_hugoniot_m_s, 2) + " m/s)";
     text += shock.reached_outlet
                 ? ", reached the outlet at t = " + fixed(shock.outlet_arrival_time_s / 60.0, 1) +
                       " min"

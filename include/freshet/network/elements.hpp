@@ -37,6 +37,11 @@ class ReachElement final : public Element {
   [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
   // Time-averaged inflow peak and outflow peak (m3/s), for attenuation reports.
   [[nodiscard]] double peak_inflow_m3s() const { return peak_inflow_m3s_; }
+  // The reach's kinematic shock when it matters to the flood: its discharge jump at formation
+  // is at least kSignificantShockFraction of the reach's peak outflow. Small fronts (the
+  // first trickle running onto a dry bed) are left out. nullptr when there is none.
+  [[nodiscard]] const routing::ShockReport* significant_shock() const;
+  static constexpr double kSignificantShockFraction = 0.1;  // our criterion, no source
 
  private:
   geometry::FlowSection section_;
@@ -44,6 +49,7 @@ class ReachElement final : public Element {
   std::optional<double> outlet_invert_m_;
   long capacity_steps_ = 0;
   double peak_inflow_m3s_ = 0.0;
+  double peak_outflow_m3s_ = 0.0;
 };
 
 // A subcatchment: rain, losses and overland planes. Its station reports the runoff, the
