@@ -18,8 +18,10 @@ int check(const std::string& basin) {
             << "  units: " << units::to_string(study.settings().units) << "\n  elements:";
   for (const auto& [kind, n] : counts) std::cout << " " << n << " " << kind;
   std::cout << "\n  storms:";
+  const bool us = study.settings().units == units::System::us_customary;
   for (const auto& s : study.storms()) {
-    std::cout << " " << s.id << " (" << number(s.rain.total_depth_m() * 1000.0, 1) << " mm)";
+    const double depth = s.rain.total_depth_m() / (us ? units::kMetresPerInch : 1e-3);
+    std::cout << " " << s.id << " (" << number(depth, us ? 2 : 1) << (us ? " in)" : " mm)");
   }
   std::cout << "\n  scenarios:";
   if (study.scenarios().empty()) std::cout << " none";

@@ -1,5 +1,6 @@
 // freshet compare: route the base network and its scenarios under the same storms and print,
 // for each point of interest, the results side by side with their differences from the base.
+#include <algorithm>
 #include <iostream>
 #include <sstream>
 
@@ -25,8 +26,11 @@ std::string signed_number(double v, int digits) {
 std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
                              const std::vector<io::StationDescription>& stations,
                              bool all_points) {
+  std::size_t w_point = 6, w_scenario = 9;
+  for (const auto& s : stations) w_point = std::max(w_point, s.id.size() + 2);
+  for (const auto* r : runs) w_scenario = std::max(w_scenario, r->scenario_id.size() + 2);
   std::ostringstream out;
-  out << cell("point", 16) << cell("scenario", 16) << cell("peak Q m3/s", 12, true)
+  out << cell("point", w_point) << cell("scenario", w_scenario) << cell("peak Q m3/s", 12, true)
       << cell("vs base", 9, true) << cell("t peak", 8, true) << cell("peak stage m", 13, true)
       << cell("vs base", 9, true) << cell("volume m3", 12, true) << cell("overtopping", 13, true)
       << "\n";
@@ -38,8 +42,8 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
     for (std::size_t k = 0; k < runs.size(); ++k) {
       const io::StationPeak& p = runs[k]->peaks[i];
       const io::StationPeak& b = base.peaks[i];
-      out << cell(k == 0 ? stations[i].id : "", 16)
-          << cell(runs[k]->scenario_id.empty() ? "base" : runs[k]->scenario_id, 16)
+      out << cell(k == 0 ? stations[i].id : "", w_point)
+          << cell(runs[k]->scenario_id.empty() ? "base" : runs[k]->scenario_id, w_scenario)
           << cell(number(p.peak_discharge_m3s, 3), 12, true)
           << cell(k == 0 ? "" : signed_number(p.peak_discharge_m3s - b.peak_discharge_m3s, 3), 9,
                   true)

@@ -44,7 +44,7 @@ AtomicOutputPath::AtomicOutputPath(std::filesystem::path final_path, Overwrite o
   std::error_code ec;
   if (overwrite_ == Overwrite::no && std::filesystem::exists(final_, ec)) {
     throw IoError("output file '" + final_.string() +
-                  "' already exists; refusing to overwrite it (use the overwrite option)");
+                  "' already exists; refusing to overwrite it (on the command line: --overwrite)");
   }
   const std::filesystem::path dir =
       final_.has_parent_path() ? final_.parent_path() : std::filesystem::path(".");

@@ -370,10 +370,8 @@ std::vector<std::size_t> export_indices(const RunRequest& req,
   return out;
 }
 
-std::filesystem::path write_export(const Study& study, const RunRequest& req,
-                                   const StudySink& sink, std::size_t i,
-                                   const StationDescription& station,
-                                   const std::filesystem::path& folder) {
+// The export interval and its count over the run; InputError unless it divides the run.
+std::pair<double, std::size_t> export_grid(const Study& study, const RunRequest& req) {
   const StudySettings& set = study.settings();
   const double dt_s = req.export_interval_s > 0.0 ? req.export_interval_s : set.output_interval_s;
   const auto n = static_cast<std::size_t>(std::llround(set.duration_s / dt_s));
@@ -382,6 +380,15 @@ std::filesystem::path write_export(const Study& study, const RunRequest& req,
                              "= " + format_value(dt_s) + " s: must divide the run length (" +
                                  format_value(set.duration_s) + " s) into whole intervals"});
   }
+  return {dt_s, n};
+}
+
+std::filesystem::path write_export(const Study& study, const RunRequest& req,
+                                   const StudySink& sink, std::size_t i,
+                                   const StationDescription& station,
+                                   const std::filesystem::path& folder) {
+  const StudySettings& set = study.settings();
+  const auto [dt_s, n] = export_grid(study, req);
   const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
   const PiecewiseLinearSeries r =
       resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::scaled_samples);
@@ -420,6 +427,7 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   NetcdfTimeSeriesWriter sub(folder / (req.storm_id + "_subcatchments.nc"), nc);
   StudySink sink(stations, &channel, &sub);
   const std::vector<std::size_t> exported = export_indices(req, stations);
+  if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
   for (std::size_t i : exported) sink.keep_series(i);
   std::optional<ProfileWriter> profiles;
   std::optional<NetcdfTimeSeriesWriter> profile_file;
