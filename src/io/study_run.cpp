@@ -38,10 +38,8 @@ std::string fixed(double v, int digits) {
 // Streams station samples to the two NetCDF files and keeps per-station accumulators.
 class StudySink final : public network::RecordSink {
  public:
-  StudySink(const std::vector<StationDescription>& stations, NetcdfTimeSeriesWriter* channel,
-            NetcdfTimeSeriesWriter* sub)
-      : stations_(stations), channel_(channel), sub_(sub), acc_(stations.size()),
-        at_peak_(stations.size()) {
+  explicit StudySink(const std::vector<StationDescription>& stations)
+      : stations_(stations), acc_(stations.size()), at_peak_(stations.size()) {
     for (std::size_t i = 0; i < stations.size(); ++i) {
       (stations[i].kind == "subcatchment" ? sub_index_ : channel_index_).push_back(i);
     }
@@ -55,6 +53,10 @@ class StudySink final : public network::RecordSink {
   }
 
   std::function<void(double)> after_record;  // extra writers (profiles)
+  void set_writers(NetcdfTimeSeriesWriter* channel, NetcdfTimeSeriesWriter* sub) {
+    channel_ = channel;
+    sub_ = sub;
+  }
 
   // Every coupling step feeds the peak and volume accumulators (finer than the output).
   [[nodiscard]] bool observes_every_step() const override { return true; }
@@ -110,8 +112,8 @@ class StudySink final : public network::RecordSink {
   }
 
   const std::vector<StationDescription>& stations_;
-  NetcdfTimeSeriesWriter* channel_;
-  NetcdfTimeSeriesWriter* sub_;
+  NetcdfTimeSeriesWriter* channel_ = nullptr;
+  NetcdfTimeSeriesWriter* sub_ = nullptr;
   std::vector<SummaryAccumulator> acc_;
   std::vector<StationSample> at_peak_;
   std::vector<std::size_t> channel_index_;
@@ -409,6 +411,26 @@ std::filesystem::path write_export(const Study& study, const RunRequest& req,
   return path;
 }
 
+// The per-station peaks for the cross-storm and cross-scenario tables, with the road
+// overtopping of every culvert crossing.
+std::vector<StationPeak> station_peaks(const network::Model& model, const RunSummary& summary,
+                                       const std::vector<StationDescription>& stations) {
+  std::vector<StationPeak> peaks;
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    const StationSummary& st = summary.stations[i];
+    StationPeak p{st.station_id, st.name, stations[i].kind, st.peak_discharge_m3s,
+                  st.peak_time_s, st.peak_stage_m, st.runoff_volume_m3, "", kNotApplicable};
+    const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[i].get());
+    if (pool && pool->crossing()) {
+      const auto r = network::structures::crossing_report(*pool->crossing(), pool->pool());
+      p.overtopping_s = r.road_overtopped ? r.overtopping_duration_s : 0.0;
+      p.overtopping = r.road_overtopped ? fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
+    }
+    peaks.push_back(std::move(p));
+  }
+  return peaks;
+}
+
 }  // namespace
 
 RunOutcome run_study(const Study& study, const RunRequest& req,
@@ -423,14 +445,28 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
 
   NetcdfWriterOptions nc;
   nc.overwrite = req.overwrite;
-  NetcdfTimeSeriesWriter channel(folder / (req.storm_id + ".nc"), nc);
-  NetcdfTimeSeriesWriter sub(folder / (req.storm_id + "_subcatchments.nc"), nc);
-  StudySink sink(stations, &channel, &sub);
+  StudySink sink(stations);
+  // One file per set of points that has members: stations, subcatchments, profile cells.
+  std::optional<NetcdfTimeSeriesWriter> channel, sub, profile_file;
+  if (!sink.channel_index().empty()) {
+    channel.emplace(folder / (req.storm_id + ".nc"), nc);
+    channel->begin(metadata(study, req, "stations"),
+                   instances(stations, sink.channel_index(), "station"),
+                   {OutputVariable::discharge, OutputVariable::stage, OutputVariable::depth,
+                    OutputVariable::velocity});
+  }
+  if (!sink.sub_index().empty()) {
+    sub.emplace(folder / (req.storm_id + "_subcatchments.nc"), nc);
+    sub->begin(metadata(study, req, "subcatchments"),
+               instances(stations, sink.sub_index(), "subcatchment"),
+               {OutputVariable::discharge, OutputVariable::rainfall_intensity,
+                OutputVariable::rainfall_excess});
+  }
+  sink.set_writers(channel ? &*channel : nullptr, sub ? &*sub : nullptr);
   const std::vector<std::size_t> exported = export_indices(req, stations);
   if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
   for (std::size_t i : exported) sink.keep_series(i);
   std::optional<ProfileWriter> profiles;
-  std::optional<NetcdfTimeSeriesWriter> profile_file;
   if (!req.profile_reaches.empty()) {
     profiles.emplace(model, req.profile_reaches);
     profile_file.emplace(folder / (req.storm_id + "_profiles.nc"), nc);
@@ -439,13 +475,6 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
                          OutputVariable::velocity});
     sink.after_record = [&](double t) { profiles->write(*profile_file, t); };
   }
-  channel.begin(metadata(study, req, "stations"), instances(stations, sink.channel_index(), "station"),
-                {OutputVariable::discharge, OutputVariable::stage, OutputVariable::depth,
-                 OutputVariable::velocity});
-  sub.begin(metadata(study, req, "subcatchments"),
-            instances(stations, sink.sub_index(), "subcatchment"),
-            {OutputVariable::discharge, OutputVariable::rainfall_intensity,
-             OutputVariable::rainfall_excess});
 
   const StudySettings& set = study.settings();
   network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s, set.coupling_step_s};
@@ -454,19 +483,7 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   out.storm_id = req.storm_id;
   out.numerics = network::simulate(model, clock, sink, progress);
   out.summary = summarise(study, req, model, out.numerics, sink, stations);
-  for (std::size_t i = 0; i < stations.size(); ++i) {
-    const StationSummary& st = out.summary.stations[i];
-    out.peaks.push_back({st.station_id, st.name, stations[i].kind, st.peak_discharge_m3s,
-                         st.peak_time_s, st.peak_stage_m, st.runoff_volume_m3, "",
-                         kNotApplicable});
-    const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[i].get());
-    if (pool && pool->crossing()) {
-      const auto r = network::structures::crossing_report(*pool->crossing(), pool->pool());
-      out.peaks.back().overtopping_s = r.road_overtopped ? r.overtopping_duration_s : 0.0;
-      out.peaks.back().overtopping =
-          r.road_overtopped ? fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
-    }
-  }
+  out.peaks = station_peaks(model, out.summary, stations);
   const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
   const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
@@ -475,12 +492,11 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   for (std::size_t i : exported) {
     out.files.push_back(write_export(study, req, sink, i, stations[i], folder));
   }
-  channel.commit();
-  sub.commit();
-  out.files.insert(out.files.begin(), {channel.final_path(), sub.final_path()});
-  if (profile_file) {
-    profile_file->commit();
-    out.files.push_back(profile_file->final_path());
+  // NetCDF files last: renamed into place only when everything else has been written.
+  for (auto* file : {&channel, &sub, &profile_file}) {
+    if (!*file) continue;
+    (*file)->commit();
+    out.files.push_back((*file)->final_path());
   }
   return out;
 }
