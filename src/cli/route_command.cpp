@@ -48,6 +48,8 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
     std::cout << io::format_summary_table(r.summary, false);
     const std::string notes = format_notes(r);
     if (!notes.empty()) std::cout << "Element reports:\n" << notes;
+    std::cout << "Reach numerics:\n";
+    for (const auto& [id, d] : r.reach_numerics) std::cout << "  " << id << ": " << d.brief_report() << "\n";
     char imbalance[32];
     std::snprintf(imbalance, sizeof imbalance, "%.1e", r.numerics.worst_relative_imbalance);
     std::cout << "Numerics: " << r.numerics.coupling_steps << " coupling steps, largest volume "

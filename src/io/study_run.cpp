@@ -484,6 +484,11 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   out.numerics = network::simulate(model, clock, sink, progress);
   out.summary = summarise(study, req, model, out.numerics, sink, stations);
   out.peaks = station_peaks(model, out.summary, stations);
+  for (const auto& e : model.elements) {
+    if (const auto* reach = dynamic_cast<const network::ReachElement*>(e.get())) {
+      out.reach_numerics.emplace_back(e->id(), reach->reach().diagnostics());
+    }
+  }
   const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
   const std::filesystem::path json = folder / (req.storm_id + "_summary.json");

@@ -17,6 +17,7 @@
 #include "freshet/io/study.hpp"
 #include "freshet/io/summary.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/routing/diagnostics.hpp"
 
 namespace freshet::io {
 
@@ -58,6 +59,9 @@ struct RunOutcome {
   RunSummary summary;                  // peaks, pairs, shocks, mass balance, warnings
   network::RunSummary numerics;        // steps, wall time, ledgers, element notes
   std::vector<StationPeak> peaks;      // one per station, model order
+  // Per reach: scheme, steps taken and rejected, largest Courant number, volume balance,
+  // shocks found, wall time.
+  std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics;
   std::vector<std::filesystem::path> files;  // written and renamed into place
 };
 
