@@ -207,7 +207,7 @@ void add_balances(const network::RunSummary& numerics, RunSummary& summary) {
     r.inflow_volume_m3 = l.supplied_m3();
     r.outflow_volume_m3 = l.outflow_m3 + l.loss_m3;
     r.storage_change_m3 = l.storage_m3 - l.initial_storage_m3;
-    r.error_m3 = l.imbalance_m3();
+    r.error_m3 = l.balance_error_m3();
     const double scale = std::max(r.inflow_volume_m3, r.outflow_volume_m3);
     r.relative_error = scale > 0.0 ? std::abs(r.error_m3) / scale : 0.0;
     summary.mass_balance.push_back(r);

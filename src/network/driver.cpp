@@ -77,7 +77,7 @@ RunSummary summarise(const Model& model) {
     r.balances.push_back({e->id(), l});
     const double scale = std::max({l.supplied_m3(), l.outflow_m3, 1e-300});
     r.worst_relative_imbalance = std::max(r.worst_relative_imbalance,
-                                          std::abs(l.imbalance_m3()) / scale);
+                                          std::abs(l.balance_error_m3()) / scale);
     for (auto& note : e->notes()) r.notes.emplace_back(e->id(), std::move(note));
   }
   return r;

@@ -69,16 +69,7 @@ StationSample ReachElement::sample() const {
   return s;
 }
 
-VolumeLedger ReachElement::ledger() const {
-  const routing::VolumeLedger& r = reach_->ledger();
-  VolumeLedger l;
-  l.inflow_m3 = r.inflow_m3;
-  l.lateral_m3 = r.lateral_m3;
-  l.outflow_m3 = r.outflow_m3;
-  l.initial_storage_m3 = r.initial_storage_m3;
-  l.storage_m3 = r.storage_m3;
-  return l;
-}
+VolumeLedger ReachElement::ledger() const { return reach_->ledger(); }
 
 const routing::ShockReport* ReachElement::significant_shock() const {
   const routing::ShockReport& shock = reach_->shock_report();
@@ -190,15 +181,7 @@ StationSample PoolElement::sample() const {
   return s;
 }
 
-VolumeLedger PoolElement::ledger() const {
-  const structures::VolumeLedger& p = pool_->ledger();
-  VolumeLedger l;
-  l.inflow_m3 = p.inflow_m3;
-  l.outflow_m3 = p.outflow_m3;
-  l.initial_storage_m3 = p.initial_storage_m3;
-  l.storage_m3 = p.storage_m3;
-  return l;
-}
+VolumeLedger PoolElement::ledger() const { return pool_->ledger(); }
 
 std::vector<ElementNote> PoolElement::notes() const {
   std::vector<ElementNote> out;

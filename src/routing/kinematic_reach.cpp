@@ -11,13 +11,6 @@ std::vector<Problem> ReachSpec::validate() const {
   return p.problems();
 }
 
-double VolumeLedger::relative_balance_error() const noexcept {
-  const double err = std::abs(balance_error_m3());
-  double scale = inflow_m3 + lateral_m3;
-  if (!(scale > 0.0)) scale = initial_storage_m3;
-  if (!(scale > 0.0)) return err == 0.0 ? 0.0 : std::numeric_limits<double>::infinity();
-  return err / scale;
-}
 
 std::string_view to_string(AdvanceStatus status) noexcept {
   switch (status) {

@@ -883,7 +883,7 @@ TEST(StudyPhysics, DemoBasinConservesVolume) {
     stored_m3 += l.storage_m3 - l.initial_storage_m3;
     if (id == "tansy-outfall") out_m3 = l.outflow_m3;
     // Each element's own ledger closes (element.hpp).
-    EXPECT_LE(std::abs(l.imbalance_m3()), 1e-9 * std::max(l.supplied_m3(), 1.0)) << id;
+    EXPECT_LE(std::abs(l.balance_error_m3()), 1e-9 * std::max(l.supplied_m3(), 1.0)) << id;
   }
   EXPECT_NEAR(rain_ledger_m3, rain_m3, 1e-9 * rain_m3);
   const double supplied_m3 = spring_m3 + rain_m3 - loss_m3;

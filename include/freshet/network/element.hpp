@@ -11,6 +11,7 @@
 #include <string>
 #include <vector>
 
+#include "freshet/core/volume_ledger.hpp"
 #include "freshet/network/topology.hpp"
 
 namespace freshet::network {
@@ -27,22 +28,8 @@ struct StationSample {
   double excess_mm_h = kNoValue;    // subcatchments: rainfall excess (runoff-producing) rate
 };
 
-// Volumes since the last reset. For every element:
-//   inflow + lateral + rain - loss - outflow - (storage - initial storage) = 0 to round-off.
-struct VolumeLedger {
-  double inflow_m3 = 0.0;
-  double lateral_m3 = 0.0;
-  double rain_m3 = 0.0;
-  double loss_m3 = 0.0;
-  double outflow_m3 = 0.0;
-  double initial_storage_m3 = 0.0;
-  double storage_m3 = 0.0;
-
-  [[nodiscard]] double supplied_m3() const { return inflow_m3 + lateral_m3 + rain_m3; }
-  [[nodiscard]] double imbalance_m3() const {
-    return supplied_m3() - loss_m3 - outflow_m3 - (storage_m3 - initial_storage_m3);
-  }
-};
+// Every element keeps the shared freshet::VolumeLedger (core/volume_ledger.hpp).
+using freshet::VolumeLedger;
 
 // What flows into an element over one coupling step [t0_s, t1_s]: the means over the step
 // (which carry the volume) and the instantaneous rates at t1 (which are reported at stations).

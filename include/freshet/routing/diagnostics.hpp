@@ -8,27 +8,16 @@
 #pragma once
 
 #include <string>
+
+#include "freshet/core/volume_ledger.hpp"
 #include <string_view>
 
 namespace freshet::routing {
 
-struct VolumeLedger {
-  double inflow_m3 = 0.0;            // through the upstream face
-  double lateral_m3 = 0.0;           // lateral inflow along the reach
-  double outflow_m3 = 0.0;           // through the downstream face
-  double initial_storage_m3 = 0.0;   // storage when the ledger was (re)started
-  double storage_m3 = 0.0;           // storage now: dx * sum of cell areas
-  // Method of lines only: volume moved between neighbouring cells to clear round-off-level
-  // negative areas (conservative; reported for transparency, not a source or sink).
-  double positivity_transfer_m3 = 0.0;
-
-  [[nodiscard]] double balance_error_m3() const noexcept {
-    return inflow_m3 + lateral_m3 - outflow_m3 - (storage_m3 - initial_storage_m3);
-  }
-  // |balance error| / (inflow + lateral); relative to the initial storage when nothing
-  // entered; 0 when nothing entered and nothing was stored.
-  [[nodiscard]] double relative_balance_error() const noexcept;
-};
+// The reach's volume ledger is the shared freshet::VolumeLedger (core/volume_ledger.hpp):
+// inflow through the upstream face, lateral inflow, outflow through the downstream face,
+// storage dx * sum of cell areas.
+using freshet::VolumeLedger;
 
 enum class AdvanceStatus {
   kOk,
@@ -61,6 +50,9 @@ struct RunDiagnostics {
   double max_courant = 0.0;          // largest dt * c_max / dx of an accepted step
   double mass_balance_error_m3 = 0.0;
   double mass_balance_error_rel = 0.0;
+  // Method of lines only: volume moved between neighbouring cells to clear round-off-level
+  // negative areas (conservative; reported for transparency, not a source or sink).
+  double positivity_transfer_m3 = 0.0;
   int shocks_found = 0;
   double wall_time_s = 0.0;          // inside advance()
 

@@ -740,7 +740,7 @@ double KinematicReach<F>::clear_negative_areas_into_outflow() {
     if (area_[i] >= 0.0) continue;
     const double deficit = area_[i];
     area_[i] = 0.0;
-    ledger_.positivity_transfer_m3 -= deficit * dx_;
+    diag_.positivity_transfer_m3 -= deficit * dx_;
     if (i + 1 < n()) area_[i + 1] += deficit;
     else outflow_change += deficit * dx_;
   }

@@ -29,7 +29,8 @@ void LevelPool::reset(double time_s, double stage_m) {
   p.throw_if_any();
   const double h = std::max(stage_m, storage_.bottom_stage_m());
   state_ = {time_s, h, storage_.storage_m3(h), outflow_(h)};
-  ledger_ = {state_.storage_m3, 0.0, 0.0, state_.storage_m3};
+  ledger_ = VolumeLedger{};
+  ledger_.initial_storage_m3 = ledger_.storage_m3 = state_.storage_m3;
   peaks_ = {};
   peaks_.peak_stage_m = h;
   peaks_.time_of_peak_stage_s = time_s;
@@ -129,7 +130,7 @@ void LevelPool::record(const LevelPoolState& before, const LevelPoolState& after
 DetentionReport detention_report(const LevelPool& pool) {
   const PoolPeaks& pk = pool.peaks();
   return {pk.peak_stage_m,   pk.time_of_peak_stage_s, pk.peak_outflow_m3s,
-          pk.time_of_peak_outflow_s, pk.peak_storage_m3, pool.ledger().residual_m3()};
+          pk.time_of_peak_outflow_s, pk.peak_storage_m3, pool.ledger().balance_error_m3()};
 }
 
 LevelPool make_crossing_pool(const CulvertCrossing& crossing, StageStorage ponding,
@@ -155,7 +156,7 @@ CrossingReport crossing_report(const CulvertCrossing& crossing, const LevelPool&
   }
   r.control_at_peak = crossing.barrel_headwater(pk.peak_stage_m).control;
   r.stage_beyond_rating = crossing.beyond_rating(pk.peak_stage_m);
-  r.mass_balance_residual_m3 = pool.ledger().residual_m3();
+  r.mass_balance_residual_m3 = pool.ledger().balance_error_m3();
   return r;
 }
 

@@ -131,7 +131,7 @@ TEST(LevelPool, LedgerClosesAndStorageNeverNegative) {
     EXPECT_GE(pool.state().storage_m3, 0.0);
     EXPECT_GE(s.mean_outflow_m3s, -1e-12);
   }
-  EXPECT_LT(std::abs(pool.ledger().residual_m3()), 1e-9 * inflow_volume);
+  EXPECT_LT(std::abs(pool.ledger().balance_error_m3()), 1e-9 * inflow_volume);
   LevelPoolOptions fine;
   fine.max_substep_s = 60.0;  // long steps let the trapezoid overshoot the inflow peak
   LevelPool ledger_pool("basin", basin, [riser](double h) { return riser.discharge_m3s(h); },
@@ -144,7 +144,7 @@ TEST(LevelPool, LedgerClosesAndStorageNeverNegative) {
   }
   const VolumeLedger& l = ledger_pool.ledger();
   EXPECT_NEAR(l.inflow_m3, vin, 1e-9 * vin);
-  EXPECT_LT(std::abs(l.residual_m3()), 1e-9 * vin);
+  EXPECT_LT(std::abs(l.balance_error_m3()), 1e-9 * vin);
   const DetentionReport r = detention_report(ledger_pool);
   EXPECT_GT(r.peak_stage_m, 52.5);
   // Level-pool outflow peaks where it crosses the falling inflow, so below the inflow peak.
@@ -161,7 +161,7 @@ TEST(LevelPool, ClipsAtEmptyInsteadOfGoingNegative) {
   EXPECT_TRUE(s.storage_floor_reached);
   EXPECT_EQ(pool.state().storage_m3, 0.0);
   EXPECT_NEAR(s.outflow_volume_m3, 5.0, 1e-12);
-  EXPECT_NEAR(pool.ledger().residual_m3(), 0.0, 1e-12);
+  EXPECT_NEAR(pool.ledger().balance_error_m3(), 0.0, 1e-12);
 }
 
 TEST(LevelPool, RejectsNegativeInflowAndBadOptions) {

@@ -28,6 +28,7 @@
 #include <string>
 #include <vector>
 
+#include "freshet/core/volume_ledger.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
 #include "freshet/network/structures/stage_storage.hpp"
 
@@ -52,16 +53,8 @@ struct LevelPoolState {
   double outflow_m3s = 0.0;  // O(stage) at time_s
 };
 
-// Volume bookkeeping since the last reset: inflow - outflow - (storage - initial) = residual.
-struct VolumeLedger {
-  double initial_storage_m3 = 0.0;
-  double inflow_m3 = 0.0;
-  double outflow_m3 = 0.0;
-  double storage_m3 = 0.0;
-  [[nodiscard]] double residual_m3() const {
-    return inflow_m3 - outflow_m3 - (storage_m3 - initial_storage_m3);
-  }
-};
+// The pool's volume ledger is the shared freshet::VolumeLedger (core/volume_ledger.hpp).
+using freshet::VolumeLedger;
 
 // Peaks over the sub-step ends since the last reset, and the time spent above a watched
 // stage (e.g. the lowest road crest), with crossings located by linear interpolation.
