@@ -398,6 +398,10 @@ std::unique_ptr<network::Element> ModelBuilder::read_culvert(Reader& r, const st
     spec.entrance_loss = b.optional_non_negative("entrance_loss");
     b.finish();
   }
+  // The tailwater (a fixed downstream water level) acts on the barrels' outlet control and
+  // submerges the road weir when it stands above the crest.
+  std::optional<double> tailwater;
+  if (auto tw = r.optional_number("tailwater")) tailwater = units_.length_m(*tw);
   std::optional<structures::RoadOvertopping> road;
   if (const toml::table* t = r.optional_table("road")) {
     Reader rd(*t, file_, r.element() + " road", problems_);
@@ -412,13 +416,11 @@ std::unique_ptr<network::Element> ModelBuilder::read_culvert(Reader& r, const st
                                   : structures::kRoadOvertoppingCoefficientSi));
     rd.finish();
     try {
-      road.emplace(std::move(station), std::move(crest), c, r.element());
+      road.emplace(std::move(station), std::move(crest), c, r.element(), tailwater);
     } catch (const InputError& e) {
       relocate(e, rd, problems_);  // keep reading: the ponding table is checked too
     }
   }
-  std::optional<double> tailwater;
-  if (auto tw = r.optional_number("tailwater")) tailwater = units_.length_m(*tw);
   std::optional<structures::StageStorage> ponding;
   if (const toml::table* t = r.optional_table("ponding")) {
     Reader p(*t, file_, r.element() + " ponding", problems_);
@@ -430,7 +432,10 @@ std::unique_ptr<network::Element> ModelBuilder::read_culvert(Reader& r, const st
   if (!barrel || !ponding || !clean()) return nullptr;
   structures::Culvert culvert(spec, r.element());
   // Rate to well above anything the road or barrel can pass before the rating is extended.
-  double top_m = spec.inlet_invert_stage_m + 3.0 * spec.rise_m;
+  // Rate to above anything the pond, the road or the barrels will see, so that the rating's
+  // straight-line extension (which overstates barrel flow) is not reached in practice.
+  double top_m = std::max(spec.inlet_invert_stage_m + 3.0 * spec.rise_m,
+                          ponding->top_stage_m() + 1.0);
   if (road) top_m = std::max(top_m, road->lowest_crest_stage_m() + 3.0);
   auto crossing = std::make_unique<structures::CulvertCrossing>(std::move(culvert), road,
                                                                 tailwater, top_m, r.element());

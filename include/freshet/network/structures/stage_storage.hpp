@@ -37,6 +37,11 @@ class StageStorage {
                                 double area_growth_m2_per_m, const std::string& element);
 
   [[nodiscard]] double bottom_stage_m() const noexcept { return bottom_stage_m_; }
+  // The highest tabulated stage (above it the table continues with its last surface area);
+  // the bottom stage for a prismatic basin, which has no top.
+  [[nodiscard]] double top_stage_m() const noexcept {
+    return stage_m_.empty() ? bottom_stage_m_ : stage_m_.back();
+  }
   // 0 at or below the bottom stage; non-decreasing and continuous.
   [[nodiscard]] double storage_m3(double stage_m) const;
   // dS/dh (one-sided from above at table nodes); 0 below the bottom stage.
