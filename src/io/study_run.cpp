@@ -214,23 +214,30 @@ void add_balances(const network::RunSummary& numerics, RunSummary& summary) {
   }
 }
 
+std::string shock_fate(const routing::ShockReport& s) {
+  if (s.reached_outlet) {
+    return "reached the outlet at t = " + fixed(s.outlet_arrival_time_s / 60.0, 1) + " min";
+  }
+  if (s.ended) {
+    return "faded or merged in the reach after t = " + fixed(s.end_time_s / 60.0, 1) + " min";
+  }
+  return "did not reach the outlet";
+}
+
 void add_shocks(const network::Model& model, RunSummary& summary) {
   for (const auto& e : model.elements) {
     const auto* reach = dynamic_cast<const network::ReachElement*>(e.get());
     if (!reach) continue;
-    const routing::ShockReport* found = reach->significant_shock();
-    if (!found) continue;
-    const routing::ShockReport& s = *found;
-    ShockRecord r;
-    r.element = e->id();
-    r.time_s = s.formation_time_s;
-    r.chainage_m = s.formation_position_m;
-    r.message = "mean speed " + fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
-                fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " +
-                (s.reached_outlet ? "reached the outlet at t = " +
-                                        fixed(s.outlet_arrival_time_s / 60.0, 1) + " min"
-                                  : "did not reach the outlet");
-    summary.shocks.push_back(r);
+    for (const routing::ShockReport* found : reach->significant_shocks()) {
+      const routing::ShockReport& s = *found;
+      ShockRecord r;
+      r.element = e->id();
+      r.time_s = s.formation_time_s;
+      r.chainage_m = s.formation_position_m;
+      r.message = "mean speed " + fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+                  fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " + shock_fate(s);
+      summary.shocks.push_back(r);
+    }
   }
 }
 

@@ -71,27 +71,35 @@ StationSample ReachElement::sample() const {
 
 VolumeLedger ReachElement::ledger() const { return reach_->ledger(); }
 
-const routing::ShockReport* ReachElement::significant_shock() const {
-  const routing::ShockReport& shock = reach_->shock_report();
-  if (!shock.formed || shock.path.empty()) return nullptr;
-  const routing::ShockSample& first = shock.path.front();
-  const double jump_m3s = geometry::discharge_m3s(section_.flux, first.area_left_m2) -
-                          geometry::discharge_m3s(section_.flux, first.area_right_m2);
-  return jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_ ? &shock : nullptr;
+std::vector<const routing::ShockReport*> ReachElement::significant_shocks() const {
+  std::vector<const routing::ShockReport*> out;
+  for (const routing::ShockReport& shock : reach_->shock_reports()) {
+    if (!shock.formed || shock.path.empty()) continue;
+    const routing::ShockSample& first = shock.path.front();
+    const double jump_m3s = geometry::discharge_m3s(section_.flux, first.area_left_m2) -
+                            geometry::discharge_m3s(section_.flux, first.area_right_m2);
+    if (jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_) out.push_back(&shock);
+  }
+  return out;
 }
 
 std::vector<ElementNote> ReachElement::notes() const {
   std::vector<ElementNote> out;
-  if (const routing::ShockReport* found = significant_shock()) {
+  for (const routing::ShockReport* found : significant_shocks()) {
     const routing::ShockReport& shock = *found;
     std::string text = "kinematic shock formed at t = " + fixed(shock.formation_time_s / 60.0, 1) +
                        " min, " + fixed(shock.formation_position_m, 0) + " m downstream, mean " +
                        "speed " + fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
                        fixed(shock.rankine_hugoniot_m_s, 2) + " m/s)";
-    text += shock.reached_outlet
-                ? ", reached the outlet at t = " + fixed(shock.outlet_arrival_time_s / 60.0, 1) +
-                      " min"
-                : ", did not reach the outlet";
+    if (shock.reached_outlet) {
+      text += ", reached the outlet at t = " + fixed(shock.outlet_arrival_time_s / 60.0, 1) +
+              " min";
+    } else if (shock.ended) {
+      text += ", faded or merged in the reach after t = " + fixed(shock.end_time_s / 60.0, 1) +
+              " min";
+    } else {
+      text += ", did not reach the outlet";
+    }
     out.push_back({text});
   }
   if (capacity_steps_ > 0) {

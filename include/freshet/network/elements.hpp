@@ -37,10 +37,10 @@ class ReachElement final : public Element {
   [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
   // Time-averaged inflow peak and outflow peak (m3/s), for attenuation reports.
   [[nodiscard]] double peak_inflow_m3s() const { return peak_inflow_m3s_; }
-  // The reach's kinematic shock when it matters to the flood: its discharge jump at formation
-  // is at least kSignificantShockFraction of the reach's peak outflow. Small fronts (the
-  // first trickle running onto a dry bed) are left out. nullptr when there is none.
-  [[nodiscard]] const routing::ShockReport* significant_shock() const;
+  // The reach's kinematic shocks that matter to the flood, in order of formation: each one's
+  // discharge jump at formation is at least kSignificantShockFraction of the reach's peak
+  // outflow. Small fronts (the first trickle running onto a dry bed) are left out.
+  [[nodiscard]] std::vector<const routing::ShockReport*> significant_shocks() const;
   static constexpr double kSignificantShockFraction = 0.1;  // our criterion, no source
 
  private:

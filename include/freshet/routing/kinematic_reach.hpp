@@ -74,7 +74,10 @@ class ReachModel {
   [[nodiscard]] virtual double time_s() const noexcept = 0;  // NaN before the first advance
   [[nodiscard]] virtual const VolumeLedger& ledger() const noexcept = 0;
   [[nodiscard]] virtual RunDiagnostics diagnostics() const = 0;
+  // The first kinematic shock of the run (formed == false when none), and every shock in
+  // order of formation.
   [[nodiscard]] virtual const ShockReport& shock_report() const noexcept = 0;
+  [[nodiscard]] virtual const std::vector<ShockReport>& shock_reports() const noexcept = 0;
   // Bytes of per-cell arrays held (state, faces, scratch, per-cell laws, lateral map) divided
   // by N. Per-reach constants (a 6.4 kB celerity envelope for laws whose celerity may fall
   // with area) are not included.
@@ -109,6 +112,9 @@ class KinematicReach final : public ReachModel {
   [[nodiscard]] RunDiagnostics diagnostics() const override;
   [[nodiscard]] const ShockReport& shock_report() const noexcept override {
     return detector_.report();
+  }
+  [[nodiscard]] const std::vector<ShockReport>& shock_reports() const noexcept override {
+    return detector_.reports();
   }
   [[nodiscard]] double memory_bytes_per_cell() const noexcept override;
   [[nodiscard]] const F& law(std::size_t cell) const noexcept {

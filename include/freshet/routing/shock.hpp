@@ -11,8 +11,9 @@
 //     x = c(tau) (t - tau); neighbours cross at x = c^2 / (dc/dtau), t = tau + c / (dc/dtau).
 //     The shock is born at the earliest such t; the crossing nearest the inlet,
 //     min_tau c^2 / (dc/dtau), is reported too (the two coincide for a linear rise).
-// Detection: ShockDetector watches the cell areas at observation times for a persistent
-// front that is resolved within a few cells, and reports its formation, path and speed.
+// Detection: ShockDetector watches the cell areas at observation times for persistent
+// fronts that are resolved within a few cells, and reports every shock of a run (formation,
+// path, speed, outlet arrival), in order of formation.
 //
 //   auto p = predict_breaking_from_profile(PowerLawFlux{0.5, 2.0}, x_m, area_m2);
 //   if (p.breaks) std::cout << p.time_s << " s at " << p.position_m << " m\n";
@@ -127,11 +128,22 @@ struct ShockReport {
   std::vector<ShockSample> path;
   bool reached_outlet = false;
   double outlet_arrival_time_s = std::numeric_limits<double>::quiet_NaN();
+  // Left the detector's view inside the reach: the front decayed (no steep front near its
+  // extrapolated position for `persistence` observations) or was overtaken by a later shock
+  // and merged with it. end_time_s is the last observation in which it was seen.
+  bool ended = false;
+  double end_time_s = std::numeric_limits<double>::quiet_NaN();
 };
 
 // Watches one reach. observe() is called at increasing times with the cell areas, discharges
-// Q_i(A_i) and celerities c_i(A_i); it tracks the dominant front (largest downstream drop in
-// area). Formation time and place are refined from the last observation in which the
+// Q_i(A_i) and celerities c_i(A_i); it tracks every shock of the run, each in its own
+// ShockReport (in order of formation):
+//   * each tracked shock is looked for within plateau_cells cells of its position
+//     extrapolated along its fitted speed; it leaves the view through the outlet (arrival
+//     time extrapolated) or, when not found for `persistence` observations, as ended;
+//   * the steepest front away from every tracked shock is a candidate; once it persists for
+//     `persistence` observations along a consistent path it is reported as a new shock.
+// Formation time and place are refined from the last observation in which the
 // compression still steepened as the characteristics predict: along a
 // characteristic, d c/dx = c0' / (1 + c0' t), so 1 / max(-dc/dx) falls linearly to zero at
 // the breaking time, t_b = t + 1 / max(-dc/dx), and the break is at x* + c(x*) (t_b - t),
@@ -144,8 +156,13 @@ class ShockDetector {
   void observe(double t_s, std::span<const double> cell_area_m2,
                std::span<const double> cell_discharge_m3s,
                std::span<const double> cell_celerity_m_s);
-  [[nodiscard]] const ShockReport& report() const noexcept { return report_; }
-  [[nodiscard]] int shocks_found() const noexcept { return report_.formed ? 1 : 0; }
+  // Every shock formed so far, in order of formation.
+  [[nodiscard]] const std::vector<ShockReport>& reports() const noexcept { return reports_; }
+  // The first shock formed (formed == false when there is none).
+  [[nodiscard]] const ShockReport& report() const noexcept {
+    return reports_.empty() ? empty_ : reports_.front();
+  }
+  [[nodiscard]] int shocks_found() const noexcept { return static_cast<int>(reports_.size()); }
   void reset();
 
   // The steep-front test on one profile, exposed for tests: returns true and fills `sample`
@@ -155,18 +172,41 @@ class ShockDetector {
                                       ShockSample& sample) const;
 
  private:
-  void accept_front(const ShockSample& sample);
+  // Faces [first, last] (face i lies between cells i and i+1).
+  struct FaceRange {
+    int first = 0;
+    int last = -1;
+  };
+  struct Track {  // a formed shock still in view
+    std::size_t report = 0;
+    int misses = 0;
+  };
+
+  // kNotSteep: a jump above min_relative_jump (sample filled), but not resolved within
+  // front_cells cells.
+  enum class FrontTest { kNone, kNotSteep, kSteep };
+  [[nodiscard]] FrontTest find_front(std::span<const double> a, std::span<const double> q,
+                                     FaceRange search, const std::vector<FaceRange>& excluded,
+                                     ShockSample& sample) const;
+  [[nodiscard]] double predicted_position_m(const ShockReport& r, double t_s) const;
+  [[nodiscard]] FaceRange faces_near(double position_m, int radius_cells) const;
+  [[nodiscard]] std::vector<FaceRange> tracked_faces(double t_s) const;
+  void follow_tracks(double t_s, std::span<const double> a, std::span<const double> q);
+  bool follow(Track& track, double t_s, std::span<const double> a, std::span<const double> q);
+  void merge_tracks(double t_s);
+  void look_for_new_front(double t_s, std::span<const double> a, std::span<const double> q);
+  void form_shock();
   void update_breaking_estimate(double t_s, std::span<const double> a,
                                 std::span<const double> c);
-  void lose_front(double t_s);
-  void update_speeds();
+  static void update_speeds(ShockReport& report);
 
   ShockDetectionOptions options_;
   double dx_ = 1.0;
   int n_ = 0;
-  int consecutive_ = 0;
-  std::vector<ShockSample> pending_;
-  ShockReport report_;
+  std::vector<ShockSample> pending_;  // candidate front not yet persistent
+  std::vector<ShockReport> reports_;
+  std::vector<Track> tracks_;
+  ShockReport empty_;
   // Latest breaking estimate from a resolved compression (NaN when none yet).
   double estimated_break_time_s_ = std::numeric_limits<double>::quiet_NaN();
   double estimated_break_position_m_ = std::numeric_limits<double>::quiet_NaN();
