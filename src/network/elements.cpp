@@ -31,6 +31,10 @@ void ReachElement::reset(double /*start_s*/) {
   peak_outflow_m3s_ = 0.0;
 }
 
+void ReachElement::prime(double inflow_m3s) {
+  if (inflow_m3s > 0.0) reach_->set_uniform_discharge(inflow_m3s);
+}
+
 StepOutflow ReachElement::advance(const StepInflow& in) {
   const double length_m = reach_->spec().length_m;
   const auto lateral =
@@ -151,7 +155,9 @@ PoolElement::PoolElement(std::string id, ElementKind kind,
     : Element(std::move(id), kind), crossing_(std::move(crossing)) {
   pool_ = std::make_unique<structures::LevelPool>(
       structures::make_crossing_pool(*crossing_, std::move(ponding), options));
-  initial_stage_m_ = crossing_->culvert().spec().inlet_invert_stage_m;
+  // Below a tailwater standing above the inlet invert the pond holds water before any flow.
+  initial_stage_m_ = std::max(crossing_->culvert().spec().inlet_invert_stage_m,
+                              crossing_->tailwater_stage_m().value_or(-1e300));
 }
 
 PoolElement::PoolElement(std::string id, std::unique_ptr<structures::Riser> riser,
@@ -167,8 +173,21 @@ PoolElement::PoolElement(std::string id, std::unique_ptr<structures::Riser> rise
 }
 
 void PoolElement::reset(double start_s) {
+  start_s_ = start_s;
   pool_->reset(start_s, initial_stage_m_);
   peak_inflow_m3s_ = 0.0;
+}
+
+void PoolElement::prime(double inflow_m3s) {
+  if (!(inflow_m3s > 0.0)) return;
+  // The outflow rises with the level: bracket the steady level, then bisect to 1e-9 m.
+  double lo = initial_stage_m_, hi = initial_stage_m_ + 1.0;
+  for (int k = 0; k < 60 && pool_->outflow_m3s(hi) < inflow_m3s; ++k) hi += 2.0 * (hi - lo);
+  for (int k = 0; k < 200 && hi - lo > 1e-9; ++k) {
+    const double mid = 0.5 * (lo + hi);
+    (pool_->outflow_m3s(mid) < inflow_m3s ? lo : hi) = mid;
+  }
+  pool_->reset(start_s_, 0.5 * (lo + hi));
 }
 
 StepOutflow PoolElement::advance(const StepInflow& in) {

@@ -24,6 +24,8 @@ class ReachElement final : public Element {
                std::unique_ptr<routing::ReachModel> reach,
                std::optional<double> outlet_invert_m);
   void reset(double start_s) override;
+  // Starts in steady uniform flow carrying the inflow at the start (dry when it is zero).
+  void prime(double inflow_m3s) override;
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override;
@@ -82,6 +84,9 @@ class PoolElement final : public Element {
               structures::StageStorage basin, structures::LevelPoolOptions options,
               double initial_stage_m);
   void reset(double start_s) override;
+  // Starts at the level whose outflow equals the inflow at the start (steady state), or at
+  // the starting level when nothing flows in.
+  void prime(double inflow_m3s) override;
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override;
@@ -95,6 +100,7 @@ class PoolElement final : public Element {
   std::unique_ptr<structures::Riser> riser_;
   std::unique_ptr<structures::LevelPool> pool_;
   double initial_stage_m_ = 0.0;
+  double start_s_ = 0.0;
   double peak_inflow_m3s_ = 0.0;
 };
 
