@@ -14,6 +14,7 @@
 #include "freshet/io/series_resample.hpp"
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/network/elements.hpp"
+#include "run_watch.hpp"
 
 namespace freshet::io {
 
@@ -38,8 +39,9 @@ std::string fixed(double v, int digits) {
 // Streams station samples to the two NetCDF files and keeps per-station accumulators.
 class StudySink final : public network::RecordSink {
  public:
-  explicit StudySink(const std::vector<StationDescription>& stations)
-      : stations_(stations), acc_(stations.size()), at_peak_(stations.size()) {
+  StudySink(const std::vector<StationDescription>& stations, const network::Model& model)
+      : stations_(stations), acc_(stations.size()), at_peak_(stations.size()),
+        watch_(model, stations) {
     for (std::size_t i = 0; i < stations.size(); ++i) {
       (stations[i].kind == "subcatchment" ? sub_index_ : channel_index_).push_back(i);
     }
@@ -61,6 +63,7 @@ class StudySink final : public network::RecordSink {
   // Every coupling step feeds the peak and volume accumulators (finer than the output).
   [[nodiscard]] bool observes_every_step() const override { return true; }
   void observe(double time_s, std::span<const StationSample> samples) override {
+    watch_.observe(time_s, samples);
     for (auto& [i, series] : exports_) {
       series.first.push_back(time_s);
       series.second.push_back(samples[i].discharge_m3s);
@@ -76,6 +79,7 @@ class StudySink final : public network::RecordSink {
 
   [[nodiscard]] const SummaryAccumulator& accumulator(std::size_t i) const { return acc_[i]; }
   [[nodiscard]] const StationSample& at_peak(std::size_t i) const { return at_peak_[i]; }
+  [[nodiscard]] const detail::RunWatch& watch() const { return watch_; }
   [[nodiscard]] const std::vector<std::size_t>& channel_index() const { return channel_index_; }
   [[nodiscard]] const std::vector<std::size_t>& sub_index() const { return sub_index_; }
   // Keeps the full discharge series of station i (every coupling step) for export.
@@ -119,6 +123,7 @@ class StudySink final : public network::RecordSink {
   std::vector<std::size_t> channel_index_;
   std::vector<std::size_t> sub_index_;
   std::vector<double> row_;
+  detail::RunWatch watch_;
   std::map<std::size_t, std::pair<std::vector<double>, std::vector<double>>> exports_;
 };
 
@@ -165,16 +170,6 @@ InstanceSet instances(const std::vector<StationDescription>& stations,
   return set;
 }
 
-double storm_centroid_s(const hydrology::Hyetograph& rain) {
-  const auto t = rain.boundary_times_s();
-  const auto d = rain.block_depths_m();
-  double moment = 0.0, total = 0.0;
-  for (std::size_t k = 0; k < d.size(); ++k) {
-    moment += d[k] * 0.5 * (t[k] + t[k + 1]);
-    total += d[k];
-  }
-  return total > 0.0 ? moment / total : kNotApplicable;
-}
 
 }  // namespace
 
@@ -184,14 +179,16 @@ std::filesystem::path run_folder(const RunRequest& request) {
 
 namespace {
 
-// Inflow against outflow of every element fed by exactly one other station (subcatchment
-// runoff entering along a reach counts as lateral inflow, not as a station upstream). At a
-// confluence the pair would compare a part with the whole, so confluences are left out.
+// Inflow against outflow of every element fed by exactly one other station. Subcatchment
+// runoff entering along a reach is lateral inflow, not a station upstream (the pair's volume
+// change then shows it); into any other element it is a feeder of its own. At a confluence
+// the pair would compare a part with the whole, so confluences are left out.
 void add_pairs(const network::Model& model, RunSummary& summary) {
   for (std::size_t i = 0; i < model.links.size(); ++i) {
+    const bool lateral = model.elements[i]->takes_lateral_inflow();
     std::vector<std::size_t> feeders;
     for (std::size_t u : model.topology.upstream[i]) {
-      if (model.links[u].kind != ElementKind::subcatchment) feeders.push_back(u);
+      if (!(lateral && model.links[u].kind == ElementKind::subcatchment)) feeders.push_back(u);
     }
     if (feeders.size() == 1) {
       summary.pairs.push_back(compare_stations(summary.stations[feeders[0]], summary.stations[i]));
@@ -241,18 +238,45 @@ void add_shocks(const network::Model& model, RunSummary& summary) {
   }
 }
 
+// A pond whose level rises above the water level at the outlet of the reach feeding it backs
+// water up the reach, which the kinematic wave cannot carry upstream.
+void add_backwater_warning(const network::Model& model, const StudySink& sink,
+                           const std::vector<StationDescription>& stations, std::size_t i,
+                           RunSummary& summary) {
+  const std::ptrdiff_t down = model.topology.downstream[i];
+  if (down < 0) return;
+  const auto d = static_cast<std::size_t>(down);
+  if (!dynamic_cast<const network::PoolElement*>(model.elements[d].get())) return;
+  const std::string& id = model.links[i].id;
+  if (!stations[i].stage_is_elevation) {
+    summary.warnings.push_back(
+        {id, "drains into the pond at '" + model.links[d].id + "' but has no outlet_invert, so "
+                 "backwater from the pond could not be checked"});
+    return;
+  }
+  const double excess_m = sink.watch().backwater_excess_m(i);
+  if (!(excess_m > 0.0)) return;
+  summary.warnings.push_back(
+      {id, "the pond at '" + model.links[d].id + "' stood up to " + fixed(excess_m, 2) +
+               " m above this reach's computed outlet water level (at t = " +
+               fixed(sink.watch().backwater_time_s(i) / 60.0, 0) + " min): backwater into the "
+               "reach is not represented by the kinematic wave"});
+}
+
 // Kinematic-wave applicability per reach, backwater from pools, conduits at capacity.
 void add_warnings(const network::Model& model, const StudySink& sink,
-                  const std::vector<StationDescription>& stations, double start_s,
-                  RunSummary& summary) {
+                  const std::vector<StationDescription>& stations, RunSummary& summary) {
   for (std::size_t i = 0; i < model.elements.size(); ++i) {
     const auto* reach = dynamic_cast<const network::ReachElement*>(model.elements[i].get());
     if (!reach) continue;
     const StationSample& p = sink.at_peak(i);
-    const double tp_s = sink.accumulator(i).peak_time_s() - start_s;
+    const SummaryAccumulator& acc = sink.accumulator(i);
+    const double tp_s = acc.peak_time_s() -
+                        sink.watch().rise_start_s(i, acc.peak_time_s(), acc.peak_discharge_m3s());
     const double slope = reach->section().bed_slope;
     if (p.depth_m > 0.0 && p.velocity_m_s > 0.0 && tp_s > 0.0) {
-      // Wave period taken as twice the time to peak (common practice, no source).
+      // Wave period taken as twice the time of rise, from the start of the rising limb to
+      // the peak (common practice, no source).
       const double tau = 2.0 * tp_s * slope * p.velocity_m_s / p.depth_m;
       if (tau < kPonceKinematicLimit) {
         summary.warnings.push_back(
@@ -266,20 +290,7 @@ void add_warnings(const network::Model& model, const StudySink& sink,
           {model.links[i].id, "conduit reached its part-full capacity; surcharge is not "
                               "represented and inflow above capacity is held back in the reach"});
     }
-    const std::ptrdiff_t down = model.topology.downstream[i];
-    if (down < 0) continue;
-    const auto d = static_cast<std::size_t>(down);
-    const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[d].get());
-    const double pond_m = sink.accumulator(d).peak_stage_m();
-    const double reach_m = sink.accumulator(i).peak_stage_m();
-    if (pool && stations[i].stage_is_elevation && std::isfinite(pond_m) &&
-        std::isfinite(reach_m) && pond_m > reach_m) {
-      summary.warnings.push_back(
-          {model.links[i].id, "the pond at '" + model.links[d].id + "' peaks at " +
-                                  fixed(pond_m, 2) + " m, above this reach's computed outlet "
-                                  "water level " + fixed(reach_m, 2) + " m: backwater into the "
-                                  "reach is not represented by the kinematic wave"});
-    }
+    add_backwater_warning(model, sink, stations, i, summary);
   }
 }
 
@@ -290,17 +301,17 @@ RunSummary summarise(const Study& study, const RunRequest& req, const network::M
   s.title = study.settings().title + ", storm " + req.storm_id +
             (req.scenario_id.empty() ? " (base)" : ", scenario " + req.scenario_id);
   s.source = req.source;
-  const double centroid = storm_centroid_s(study.storm(req.storm_id).rain);
   for (std::size_t i = 0; i < stations.size(); ++i) {
-    StationSummary st = sink.accumulator(i).station_summary(stations[i].id, stations[i].name,
-                                                            centroid);
+    // Centroid lag: from the centroid of the rainfall excess upstream of the station.
+    StationSummary st = sink.accumulator(i).station_summary(
+        stations[i].id, stations[i].name, sink.watch().excess_centroid_s(i));
     st.runoff_volume_m3 = numerics.balances[i].ledger.outflow_m3;  // exact, from the ledger
     s.stations.push_back(st);
   }
   add_pairs(model, s);
   add_shocks(model, s);
   add_balances(numerics, s);
-  add_warnings(model, sink, stations, 0.0, s);
+  add_warnings(model, sink, stations, s);
   return s;
 }
 
@@ -399,16 +410,24 @@ std::filesystem::path write_export(const Study& study, const RunRequest& req,
   const StudySettings& set = study.settings();
   const auto [dt_s, n] = export_grid(study, req);
   const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
-  const PiecewiseLinearSeries r =
-      resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::scaled_samples);
+  // Each interval keeps its own volume where that needs no negative discharge; otherwise one
+  // factor scales the samples so that the total volume is kept (io/series_resample.hpp).
+  std::string method = "each interval's volume kept (interval volumes)";
+  std::optional<PiecewiseLinearSeries> r;
+  try {
+    r = resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::interval_volumes);
+  } catch (const InputError&) {
+    r = resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::scaled_samples);
+    method = "total volume kept by scaling the samples (interval volumes would need negative "
+             "discharge)";
+  }
   SeriesTable table;
   table.quantity = SeriesQuantity::discharge;
-  table.times_s.assign(r.times_s().begin(), r.times_s().end());
-  table.values_si.assign(r.values().begin(), r.values().end());
+  table.times_s.assign(r->times_s().begin(), r->times_s().end());
+  table.values_si.assign(r->values().begin(), r->values().end());
   table.metadata = {"station " + station.id + " (" + station.name + "), storm " + req.storm_id +
                         (req.scenario_id.empty() ? ", base" : ", scenario " + req.scenario_id),
-                    "resampled to " + format_value(dt_s) +
-                        " s keeping the volume of the computed hydrograph (scaled samples)"};
+                    "resampled to " + format_value(dt_s) + " s: " + method};
   CsvWriteOptions options;
   options.title = "freshet hydrograph";
   options.time_base = set.start_iso + " (study start)";
@@ -452,7 +471,7 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
 
   NetcdfWriterOptions nc;
   nc.overwrite = req.overwrite;
-  StudySink sink(stations);
+  StudySink sink(stations, model);
   // One file per set of points that has members: stations, subcatchments, profile cells.
   std::optional<NetcdfTimeSeriesWriter> channel, sub, profile_file;
   if (!sink.channel_index().empty()) {

@@ -88,7 +88,7 @@ std::string wrapped(std::string_view text, std::size_t width) {
 std::string check_lines(const RunSummary& s) {
   std::string out;
   if (!s.mass_balance.empty()) {
-    std::vector<std::vector<std::string>> rows{{"element", "inflow (m3)", "outflow (m3)",
+    std::vector<std::vector<std::string>> rows{{"element", "in (m3)", "out + loss (m3)",
                                                 "storage change (m3)", "error (m3)",
                                                 "relative error"}};
     for (const auto& r : s.mass_balance) {

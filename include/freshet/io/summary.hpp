@@ -52,8 +52,8 @@ struct ShockRecord {
 // One element's volume ledger closure: error = inflow - outflow - storage change.
 struct MassBalanceRecord {
   std::string element;
-  double inflow_volume_m3 = kNotApplicable;
-  double outflow_volume_m3 = kNotApplicable;
+  double inflow_volume_m3 = kNotApplicable;   // inflow + lateral inflow + rain
+  double outflow_volume_m3 = kNotApplicable;  // outflow + losses (infiltration, depressions)
   double storage_change_m3 = kNotApplicable;
   double error_m3 = kNotApplicable;
   double relative_error = kNotApplicable;  // error_m3 / max(inflow, outflow), dimensionless
