@@ -280,7 +280,8 @@ void add_warnings(const network::Model& model, const StudySink& sink,
       const double tau = 2.0 * tp_s * slope * p.velocity_m_s / p.depth_m;
       if (tau < kPonceKinematicLimit) {
         summary.warnings.push_back(
-            {model.links[i].id, "dimensionless wave period T S0 u0/d0 = " + fixed(tau, 0) +
+            {model.links[i].id, "dimensionless wave period T S0 u0/d0 = " +
+                                    fixed(tau, tau < 10.0 ? 2 : 0) +
                                     " < 171 (Ponce, Li & Simons 1978): the kinematic wave may "
                                     "misstate attenuation here; consider a diffusion-wave check"});
       }

@@ -1,0 +1,143 @@
+// Tests of a whole study run (io::run_study): the summaries a reviewer reads. Each fixture is
+// a small invented basin written to a temporary folder; the expected values come from the
+// definitions of the quantities (stated beside each check), not from earlier runs.
+#include "freshet/io/study_run.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <string>
+
+#include "temp_dir.hpp"
+
+namespace freshet::io {
+namespace {
+
+using testing::TempDir;
+using testing::write_text;
+
+// Settings for `hours` of run at 5-minute output, and a 30-minute storm.
+std::string head(double hours) {
+  return "[study]\ntitle = \"run fixture\"\nunits = \"si\"\nduration_h = " +
+         std::to_string(hours) +
+         "\noutput_interval_min = 5.0\n"
+         "[[storm]]\nid = \"s1\"\nmethod = \"alternating-block\"\nduration_min = 30\n"
+         "step_min = 5\nidf = { a = 1300.0, b = 10.0, c = 0.75 }\n";
+}
+
+const std::string kChannel =
+    "length = 1200.0\nslope = 0.002\nmanning_n = 0.03\n"
+    "section = { shape = \"rectangular\", bottom_width = 4.0 }\n";
+
+RunOutcome run(const TempDir& dir, const std::string& basin_text) {
+  write_text(dir / "b.toml", basin_text);
+  const Study study = Study::load(dir / "b.toml");
+  RunRequest req;
+  req.storm_id = "s1";
+  req.out_dir = dir / "out";
+  req.source = "freshet test";
+  return run_study(study, req);
+}
+
+const StationSummary& station(const RunOutcome& r, const std::string& id) {
+  for (const auto& s : r.summary.stations) {
+    if (s.station_id == id) return s;
+  }
+  throw std::runtime_error("no station " + id);
+}
+
+bool has_pair(const RunOutcome& r, const std::string& up, const std::string& down) {
+  for (const auto& p : r.summary.pairs) {
+    if (p.upstream_id == up && p.downstream_id == down) return true;
+  }
+  return false;
+}
+
+bool has_warning(const RunOutcome& r, const std::string& element, const std::string& part) {
+  for (const auto& w : r.summary.warnings) {
+    if (w.element == element && w.message.find(part) != std::string::npos) return true;
+  }
+  return false;
+}
+
+// A junction fed by a reach and by a subcatchment's point inflow is a confluence: comparing
+// the reach alone with the junction would compare a part with the whole, so no pair.
+// A reach whose only other source is runoff along it keeps its pair (the lateral inflow
+// shows as a volume gain).
+TEST(RunSummary, PairsLeaveOutConfluencesOfChannelAndRunoff) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1.0\n120,1.0\n");
+  const RunOutcome r = run(dir, head(2.0) +
+      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"r1\"\nto = \"j\"\n" + kChannel +
+      "[[subcatchment]]\nid = \"field\"\nto = \"j\"\narea = 20.0\n"
+      "loss = { method = \"none\" }\n[[subcatchment.plane]]\nlength = 60.0\nslope = 0.02\n"
+      "manning_n = 0.2\ncells = 20\n"
+      "[[junction]]\nid = \"j\"\nto = \"out\"\n[[outlet]]\nid = \"out\"\n");
+  EXPECT_TRUE(has_pair(r, "spring", "r1"));
+  EXPECT_FALSE(has_pair(r, "r1", "j"));
+  EXPECT_FALSE(has_pair(r, "field", "j"));
+  EXPECT_TRUE(has_pair(r, "j", "out"));
+  // Centroid lag is measured from the rainfall excess upstream: none reaches the spring.
+  EXPECT_TRUE(std::isnan(station(r, "spring").centroid_lag_s));
+  EXPECT_GT(station(r, "out").centroid_lag_s, 0.0);
+}
+
+// A reach that starts in steady flow: the outlet carries the inflow from the first record
+// (steady uniform flow, Q out = Q in), so no false wetting front is reported.
+TEST(RunSummary, ReachesStartInSteadyFlow) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,2.0\n60,2.0\n");
+  const RunOutcome r = run(dir, head(1.0) +
+      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n");
+  // Volume out over the hour equals volume in (steady state, empty of transients).
+  EXPECT_NEAR(station(r, "out").runoff_volume_m3, 2.0 * 3600.0, 1e-6 * 7200.0);
+  EXPECT_TRUE(r.summary.shocks.empty());
+}
+
+// The Ponce number uses the time of rise, so the same flood arriving five hours later gives
+// the same number (the criterion depends on the wave, not on the clock).
+TEST(RunSummary, ApplicabilityNumberDoesNotDependOnWhenTheFloodArrives) {
+  auto tau_for = [](double delay_min) {
+    TempDir dir;
+    const std::string d = std::to_string(delay_min);
+    write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n" + std::to_string(delay_min) +
+                                  ",0.5\n" + std::to_string(delay_min + 20) + ",12.0\n" +
+                                  std::to_string(delay_min + 60) + ",0.5\n600,0.5\n");
+    const RunOutcome r = run(dir, head(10.0) +
+        "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+        "[[reach]]\nid = \"r1\"\nto = \"out\"\nlength = 1200.0\nslope = 0.0005\n"
+        "manning_n = 0.04\nsection = { shape = \"rectangular\", bottom_width = 4.0 }\n"
+        "[[outlet]]\nid = \"out\"\n");
+    for (const auto& w : r.summary.warnings) {
+      const auto at = w.message.find("T S0 u0/d0 = ");
+      if (w.element == "r1" && at != std::string::npos) {
+        return std::stod(w.message.substr(at + 13));
+      }
+    }
+    return -1.0;
+  };
+  const double early = tau_for(10.0), late = tau_for(310.0);
+  ASSERT_GT(early, 0.0) << "a flat, short flood should be flagged";
+  EXPECT_NEAR(late, early, 0.1 * early);
+}
+
+// Backwater: a pond kept above the reach's outlet water level by a tailwater (and a small
+// barrel) must be reported, even though its peak is below the reach's own peak level.
+TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n30,6.0\n90,0.5\n240,0.5\n");
+  const RunOutcome r = run(dir, head(4.0) +
+      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"r1\"\nto = \"c1\"\n" + kChannel + "outlet_invert = 10.0\n"
+      "[[culvert]]\nid = \"c1\"\nto = \"out\"\ntailwater = 11.2\n"
+      "barrel = { shape = \"circular\", diameter = 0.6, length = 15.0, inlet_invert = 10.0, "
+      "outlet_invert = 9.95, manning_n = 0.012, inlet = \"concrete-square-edge-headwall\" }\n"
+      "ponding = { bottom = 10.0, area = 4000.0 }\n"
+      "[[outlet]]\nid = \"out\"\n");
+  EXPECT_TRUE(has_warning(r, "r1", "backwater"));
+}
+
+}  // namespace
+}  // namespace freshet::io
