@@ -11,7 +11,7 @@
 #include "freshet/hydrology/nrcs_distribution.hpp"
 #include "freshet/io/csv_series.hpp"
 #include "input_units.hpp"
-#include "model_builder.hpp"
+#include "network_reader.hpp"
 
 namespace freshet::io {
 
@@ -285,7 +285,7 @@ network::Model Study::Impl::build(std::string_view scenario_id,
   const std::size_t before = problems.size();
   const toml::table* changes_table = checked_changes(scenario_id, problems);
   if (problems.size() != before) return {};
-  detail::ModelBuilder builder(root, changes_table, file, path.parent_path(), settings, rain,
+  detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, rain,
                                problems);
   network::Model model = builder.build();
   if (stations_out) *stations_out = builder.stations();

@@ -21,11 +21,11 @@ namespace freshet::io::detail {
 inline constexpr std::string_view kElementArrays[] = {
     "inflow", "subcatchment", "reach", "junction", "culvert", "detention", "outlet"};
 
-class ModelBuilder {
+class NetworkReader {
  public:
   // `changes`, when given, is a scenario's [scenario.change] table: element id -> values
   // that replace that element's keys.
-  ModelBuilder(const toml::table& root, const toml::table* changes, std::string file,
+  NetworkReader(const toml::table& root, const toml::table* changes, std::string file,
                std::filesystem::path base_dir, const StudySettings& settings,
                const hydrology::Hyetograph& storm, std::vector<Problem>& problems);
 

@@ -1,4 +1,4 @@
-#include "model_builder.hpp"
+#include "network_reader.hpp"
 
 #include <cmath>
 #include <limits>
@@ -31,7 +31,7 @@ void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& 
   }
 }
 
-ModelBuilder::ModelBuilder(const toml::table& root, const toml::table* changes,
+NetworkReader::NetworkReader(const toml::table& root, const toml::table* changes,
                            std::string file, std::filesystem::path base_dir,
                            const StudySettings& settings, const hydrology::Hyetograph& storm,
                            std::vector<Problem>& problems)
@@ -44,7 +44,7 @@ ModelBuilder::ModelBuilder(const toml::table& root, const toml::table* changes,
       storm_(storm),
       problems_(problems) {}
 
-network::Model ModelBuilder::build() {
+network::Model NetworkReader::build() {
   read_array("inflow", ElementKind::inflow);
   read_array("subcatchment", ElementKind::subcatchment);
   read_array("reach", ElementKind::reach);
@@ -62,7 +62,7 @@ network::Model ModelBuilder::build() {
   return std::move(model_);
 }
 
-void ModelBuilder::read_array(std::string_view key, ElementKind kind) {
+void NetworkReader::read_array(std::string_view key, ElementKind kind) {
   const toml::node* node = root_.get(key);
   if (!node) return;
   const toml::array* arr = node->as_array();
@@ -101,7 +101,7 @@ void ModelBuilder::read_array(std::string_view key, ElementKind kind) {
 }
 
 template <class ReadFn>
-void ModelBuilder::element(const toml::table& table, ElementKind kind, ReadFn&& read) {
+void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&& read) {
   const auto* id_node = table.get("id");
   const std::string id = id_node && id_node->is_string() ? id_node->value_or(std::string{}) : "";
   const std::string label = std::string(network::to_string(kind)) + " '" + id + "'";
@@ -145,7 +145,7 @@ void ModelBuilder::element(const toml::table& table, ElementKind kind, ReadFn&& 
 
 // ---- inflow ------------------------------------------------------------------------------
 
-std::unique_ptr<network::Element> ModelBuilder::read_inflow(Reader& r, const std::string& id) {
+std::unique_ptr<network::Element> NetworkReader::read_inflow(Reader& r, const std::string& id) {
   const std::string file = r.text("file");
   if (file.empty()) return nullptr;
   const std::filesystem::path path = base_dir_ / file;
@@ -216,7 +216,7 @@ std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits
 
 }  // namespace
 
-std::unique_ptr<network::Element> ModelBuilder::read_subcatchment(Reader& r,
+std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
                                                                   const std::string& id) {
   hydrology::SubcatchmentSpec spec;
   spec.name = id;
@@ -308,7 +308,7 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
 
 }  // namespace
 
-std::unique_ptr<network::Element> ModelBuilder::read_reach(Reader& r, const std::string& id) {
+std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std::string& id) {
   const double length_m = units_.length_m(r.positive("length"));
   const double slope = r.positive("slope");
   const std::optional<double> manning_n = r.optional_positive("manning_n");
@@ -370,7 +370,7 @@ std::optional<structures::StageStorage> read_storage(FieldReader& s, const Input
 
 }  // namespace
 
-std::unique_ptr<network::Element> ModelBuilder::read_culvert(Reader& r, const std::string& id) {
+std::unique_ptr<network::Element> NetworkReader::read_culvert(Reader& r, const std::string& id) {
   structures::CulvertSpec spec;
   const toml::table* barrel = r.optional_table("barrel");
   if (!barrel) r.report_here("is missing required table 'barrel'");
@@ -482,7 +482,7 @@ std::optional<structures::Outlet> read_outlet(FieldReader& o, const InputUnits& 
 
 }  // namespace
 
-std::unique_ptr<network::Element> ModelBuilder::read_detention(Reader& r, const std::string& id) {
+std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const std::string& id) {
   std::optional<structures::StageStorage> storage;
   if (const toml::table* t = r.optional_table("storage")) {
     Reader s(*t, file_, r.element() + " storage", problems_);
