@@ -75,12 +75,11 @@ void CulvertCrossing::refine_rating() {
 
 double CulvertCrossing::barrel_discharge_m3s(double stage_m) const {
   if (!(stage_m > stage_m_.front())) return 0.0;
-  const std::size_t n = stage_m_.size();
-  std::size_t k = n - 2;  // extrapolate beyond the top with the last slope
-  if (stage_m < stage_m_.back()) {
-    const auto it = std::upper_bound(stage_m_.begin(), stage_m_.end(), stage_m);
-    k = static_cast<std::size_t>(it - stage_m_.begin()) - 1;
-  }
+  // Above the table the barrels are computed directly: a straight-line extension would
+  // overstate their flow, which grows only as the square root of the head there.
+  if (stage_m >= stage_m_.back()) return direct_discharge(stage_m);
+  const auto it = std::upper_bound(stage_m_.begin(), stage_m_.end(), stage_m);
+  const std::size_t k = static_cast<std::size_t>(it - stage_m_.begin()) - 1;
   const double t = (stage_m - stage_m_[k]) / (stage_m_[k + 1] - stage_m_[k]);
   return barrel_m3s_[k] + t * (barrel_m3s_[k + 1] - barrel_m3s_[k]);
 }

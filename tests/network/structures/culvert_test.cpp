@@ -234,5 +234,18 @@ TEST(CulvertCrossing, RatingTableMatchesDirectInversion) {
   EXPECT_TRUE(xing.beyond_rating(105.5));
 }
 
+// Above the rating's top the barrels follow the HDS-5 headwater equations themselves (their
+// direct inversion), not a straight-line extension, which would overstate the flow: under
+// submerged inlet control Q grows only as the square root of the head (HDS-5 2012, App. A).
+TEST(CulvertCrossing, AboveTheRatingTheBarrelsFollowTheirEquations) {
+  const Culvert pipe(concrete_pipe(0.6, 30.0, 0.3), "xing");
+  const CulvertCrossing xing(pipe, std::nullopt, std::nullopt, 101.8, "crossing 'low-top'");
+  for (double stage : {101.8, 102.5, 104.0, 106.0}) {
+    const double direct = pipe.discharge_for_headwater_m3s(stage, std::nullopt);
+    EXPECT_NEAR(xing.barrel_discharge_m3s(stage), direct, 1e-9 * direct) << stage;
+  }
+  EXPECT_TRUE(xing.beyond_rating(104.0));
+}
+
 }  // namespace
 }  // namespace freshet::network::structures

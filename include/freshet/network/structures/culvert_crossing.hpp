@@ -22,8 +22,8 @@ namespace freshet::network::structures {
 
 class CulvertCrossing {
  public:
-  // top_stage_m: highest stage tabulated (above it the table is extended with its last
-  // slope and beyond_rating() reports it). rating_points >= 16 uniform stages from the
+  // top_stage_m: highest stage tabulated (above it the barrels are computed directly, more
+  // slowly, and beyond_rating() reports it). rating_points >= 16 uniform stages from the
   // inlet invert to top_stage_m, plus the barrel crown and the lowest road crest; intervals
   // are then halved where linear interpolation misses the direct inversion at the midpoint
   // by more than 5e-4 relative (at most 8 passes).
