@@ -505,8 +505,10 @@ std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const
   }
   const auto initial = r.optional_number("initial_stage");
   if (initial && storage && units_.length_m(*initial) < storage->bottom_stage_m()) {
+    const double bottom = storage->bottom_stage_m() / units_.length_m(1.0);  // file's unit
     r.report("initial_stage", "= " + format_value(*initial) + ": is below the bottom of the "
-                              "storage table (" + format_value(storage->bottom_stage_m()) + " m)");
+                              "storage (" + format_value(bottom) + " " + units_.length_unit() +
+                              ")");
   }
   if (!storage || outlets.empty() || !clean()) return nullptr;
   auto riser = std::make_unique<structures::Riser>(std::move(outlets), r.element());
