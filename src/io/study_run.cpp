@@ -458,64 +458,50 @@ std::vector<StationPeak> station_peaks(const network::Model& model, const RunSum
   return peaks;
 }
 
-}  // namespace
+// The NetCDF files of one run, open and defined, under their temporary names.
+struct RunFiles {
+  std::optional<NetcdfTimeSeriesWriter> stations, subcatchments, profiles;
+  std::optional<ProfileWriter> profile_cells;
+};
 
-RunOutcome run_study(const Study& study, const RunRequest& req,
-                     const network::ProgressFn& progress) {
-  const StormDefinition& storm = study.storm(req.storm_id);
-  network::Model model = study.build_model(req.scenario_id, storm);
-  const std::vector<StationDescription> stations = study.stations();
-  const std::filesystem::path folder = run_folder(req);
-  std::error_code ec;
-  std::filesystem::create_directories(folder, ec);
-  if (ec) throw IoError("cannot create output folder '" + folder.string() + "': " + ec.message());
-
+// One file per set of points that has members: stations, subcatchments, profile cells.
+void open_run_files(const Study& study, const RunRequest& req, const network::Model& model,
+                    const std::vector<StationDescription>& stations,
+                    const std::filesystem::path& folder, StudySink& sink, RunFiles& files) {
   NetcdfWriterOptions nc;
   nc.overwrite = req.overwrite;
-  StudySink sink(stations, model);
-  // One file per set of points that has members: stations, subcatchments, profile cells.
-  std::optional<NetcdfTimeSeriesWriter> channel, sub, profile_file;
   if (!sink.channel_index().empty()) {
-    channel.emplace(folder / (req.storm_id + ".nc"), nc);
-    channel->begin(metadata(study, req, "stations"),
-                   instances(stations, sink.channel_index(), "station"),
-                   {OutputVariable::discharge, OutputVariable::stage, OutputVariable::depth,
-                    OutputVariable::velocity});
+    files.stations.emplace(folder / (req.storm_id + ".nc"), nc);
+    files.stations->begin(metadata(study, req, "stations"),
+                          instances(stations, sink.channel_index(), "station"),
+                          {OutputVariable::discharge, OutputVariable::stage,
+                           OutputVariable::depth, OutputVariable::velocity});
   }
   if (!sink.sub_index().empty()) {
-    sub.emplace(folder / (req.storm_id + "_subcatchments.nc"), nc);
-    sub->begin(metadata(study, req, "subcatchments"),
-               instances(stations, sink.sub_index(), "subcatchment"),
-               {OutputVariable::discharge, OutputVariable::rainfall_intensity,
-                OutputVariable::rainfall_excess});
+    files.subcatchments.emplace(folder / (req.storm_id + "_subcatchments.nc"), nc);
+    files.subcatchments->begin(metadata(study, req, "subcatchments"),
+                               instances(stations, sink.sub_index(), "subcatchment"),
+                               {OutputVariable::discharge, OutputVariable::rainfall_intensity,
+                                OutputVariable::rainfall_excess});
   }
-  sink.set_writers(channel ? &*channel : nullptr, sub ? &*sub : nullptr);
-  const std::vector<std::size_t> exported = export_indices(req, stations);
-  if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
-  for (std::size_t i : exported) sink.keep_series(i);
-  std::optional<ProfileWriter> profiles;
-  if (!req.profile_reaches.empty()) {
-    profiles.emplace(model, req.profile_reaches);
-    profile_file.emplace(folder / (req.storm_id + "_profiles.nc"), nc);
-    profile_file->begin(metadata(study, req, "along-reach profiles"), profiles->instances(),
+  sink.set_writers(files.stations ? &*files.stations : nullptr,
+                   files.subcatchments ? &*files.subcatchments : nullptr);
+  if (req.profile_reaches.empty()) return;
+  files.profile_cells.emplace(model, req.profile_reaches);
+  files.profiles.emplace(folder / (req.storm_id + "_profiles.nc"), nc);
+  files.profiles->begin(metadata(study, req, "along-reach profiles"),
+                        files.profile_cells->instances(),
                         {OutputVariable::discharge, OutputVariable::depth,
                          OutputVariable::velocity});
-    sink.after_record = [&](double t) { profiles->write(*profile_file, t); };
-  }
+  sink.after_record = [&files](double t) { files.profile_cells->write(*files.profiles, t); };
+}
 
-  const StudySettings& set = study.settings();
-  network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s, set.coupling_step_s};
-  RunOutcome out;
-  out.scenario_id = req.scenario_id;
-  out.storm_id = req.storm_id;
-  out.numerics = network::simulate(model, clock, sink, progress);
-  out.summary = summarise(study, req, model, out.numerics, sink, stations);
-  out.peaks = station_peaks(model, out.summary, stations);
-  for (const auto& e : model.elements) {
-    if (const auto* reach = dynamic_cast<const network::ReachElement*>(e.get())) {
-      out.reach_numerics.emplace_back(e->id(), reach->reach().diagnostics());
-    }
-  }
+// Summaries (CSV, JSON), exports, then the NetCDF files renamed into place last, so that
+// nothing looks finished unless everything was written.
+void write_run_files(const Study& study, const RunRequest& req, const StudySink& sink,
+                     const std::vector<StationDescription>& stations,
+                     const std::vector<std::size_t>& exported,
+                     const std::filesystem::path& folder, RunFiles& files, RunOutcome& out) {
   const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
   const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
@@ -524,12 +510,53 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   for (std::size_t i : exported) {
     out.files.push_back(write_export(study, req, sink, i, stations[i], folder));
   }
-  // NetCDF files last: renamed into place only when everything else has been written.
-  for (auto* file : {&channel, &sub, &profile_file}) {
+  for (auto* file : {&files.stations, &files.subcatchments, &files.profiles}) {
     if (!*file) continue;
     (*file)->commit();
     out.files.push_back((*file)->final_path());
   }
+}
+
+std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
+    const network::Model& model) {
+  std::vector<std::pair<std::string, routing::RunDiagnostics>> out;
+  for (const auto& e : model.elements) {
+    if (const auto* reach = dynamic_cast<const network::ReachElement*>(e.get())) {
+      out.emplace_back(e->id(), reach->reach().diagnostics());
+    }
+  }
+  return out;
+}
+
+}  // namespace
+
+RunOutcome run_study(const Study& study, const RunRequest& req,
+                     const network::ProgressFn& progress) {
+  network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
+  const std::vector<StationDescription> stations = study.stations();
+  const std::filesystem::path folder = run_folder(req);
+  std::error_code ec;
+  std::filesystem::create_directories(folder, ec);
+  if (ec) throw IoError("cannot create output folder '" + folder.string() + "': " + ec.message());
+
+  StudySink sink(stations, model);
+  RunFiles files;
+  open_run_files(study, req, model, stations, folder, sink, files);
+  const std::vector<std::size_t> exported = export_indices(req, stations);
+  if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
+  for (std::size_t i : exported) sink.keep_series(i);
+
+  const StudySettings& set = study.settings();
+  const network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s,
+                                    set.coupling_step_s};
+  RunOutcome out;
+  out.scenario_id = req.scenario_id;
+  out.storm_id = req.storm_id;
+  out.numerics = network::simulate(model, clock, sink, progress);
+  out.summary = summarise(study, req, model, out.numerics, sink, stations);
+  out.peaks = station_peaks(model, out.summary, stations);
+  out.reach_numerics = reach_numerics(model);
+  write_run_files(study, req, sink, stations, exported, folder, files, out);
   return out;
 }
 
