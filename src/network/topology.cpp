@@ -105,6 +105,7 @@ Topology build_topology(const std::vector<Link>& links) {
       members += (members.empty() ? "" : ", ") + label(links[i]);
       if (!first) first = &links[i];
     }
+    FRESHET_ASSERT(first != nullptr, "an unordered element lies on or below a cycle");
     problems.push_back(Problem{first->where.file, first->where.line, first->where.column,
                                "network", "to",
                                "forms a cycle (water would flow in a loop) through: " + members});
