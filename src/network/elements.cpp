@@ -150,7 +150,7 @@ VolumeLedger SubcatchmentElement::ledger() const {
 // ---- PoolElement -------------------------------------------------------------------------
 
 PoolElement::PoolElement(std::string id, ElementKind kind,
-                         std::unique_ptr<structures::CulvertCrossing> crossing,
+                         std::shared_ptr<const structures::CulvertCrossing> crossing,
                          structures::StageStorage ponding, structures::LevelPoolOptions options)
     : Element(std::move(id), kind), crossing_(std::move(crossing)) {
   pool_ = std::make_unique<structures::LevelPool>(

@@ -77,7 +77,7 @@ class PoolElement final : public Element {
  public:
   // For a culvert crossing: `crossing` owns the rating the pool's outflow reads.
   PoolElement(std::string id, ElementKind kind,
-              std::unique_ptr<structures::CulvertCrossing> crossing,
+              std::shared_ptr<const structures::CulvertCrossing> crossing,
               structures::StageStorage ponding, structures::LevelPoolOptions options);
   // For a detention basin: outflow through the riser's outlets.
   PoolElement(std::string id, std::unique_ptr<structures::Riser> riser,
@@ -96,7 +96,7 @@ class PoolElement final : public Element {
   [[nodiscard]] const structures::CulvertCrossing* crossing() const { return crossing_.get(); }
 
  private:
-  std::unique_ptr<structures::CulvertCrossing> crossing_;
+  std::shared_ptr<const structures::CulvertCrossing> crossing_;  // may be shared between runs
   std::unique_ptr<structures::Riser> riser_;
   std::unique_ptr<structures::LevelPool> pool_;
   double initial_stage_m_ = 0.0;

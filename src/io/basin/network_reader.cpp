@@ -31,12 +31,26 @@ void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& 
   }
 }
 
+CrossingCache::Crossing CrossingCache::get_or_build(const std::string& key,
+                                                   const std::function<Crossing()>& build) {
+  {
+    std::lock_guard lock(mutex_);
+    if (auto it = built_.find(key); it != built_.end()) return it->second;
+  }
+  Crossing made = build();  // outside the lock: runs of other crossings go on meanwhile
+  std::lock_guard lock(mutex_);
+  return built_.emplace(key, std::move(made)).first->second;
+}
+
 NetworkReader::NetworkReader(const toml::table& root, const toml::table* changes,
-                           std::string file, std::filesystem::path base_dir,
-                           const StudySettings& settings, const hydrology::Hyetograph& storm,
-                           std::vector<Problem>& problems)
+                             std::string file, std::filesystem::path base_dir,
+                             const StudySettings& settings, const hydrology::Hyetograph& storm,
+                             std::vector<Problem>& problems, CrossingCache* cache,
+                             std::string cache_scope)
     : root_(root),
       changes_(changes),
+      cache_(cache),
+      cache_scope_(std::move(cache_scope)),
       file_(std::move(file)),
       base_dir_(std::move(base_dir)),
       settings_(settings),
@@ -430,15 +444,17 @@ std::unique_ptr<network::Element> NetworkReader::read_culvert(Reader& r, const s
     r.report_here("is missing required table 'ponding' (the storage upstream of the road)");
   }
   if (!barrel || !ponding || !clean()) return nullptr;
-  structures::Culvert culvert(spec, r.element());
-  // Rate to well above anything the road or barrel can pass before the rating is extended.
-  // Rate to above anything the pond, the road or the barrels will see, so that the rating's
-  // straight-line extension (which overstates barrel flow) is not reached in practice.
+  // Rate to above anything the pond, the road or the barrels will see (above the table the
+  // barrels are computed directly, more slowly).
   double top_m = std::max(spec.inlet_invert_stage_m + 3.0 * spec.rise_m,
                           ponding->top_stage_m() + 1.0);
   if (road) top_m = std::max(top_m, road->lowest_crest_stage_m() + 3.0);
-  auto crossing = std::make_unique<structures::CulvertCrossing>(std::move(culvert), road,
-                                                                tailwater, top_m, r.element());
+  auto build = [&]() -> CrossingCache::Crossing {
+    return std::make_shared<const structures::CulvertCrossing>(
+        structures::Culvert(spec, r.element()), road, tailwater, top_m, r.element());
+  };
+  CrossingCache::Crossing crossing =
+      cache_ ? cache_->get_or_build(cache_scope_ + "/" + id, build) : build();
   structures::LevelPoolOptions options;
   options.max_substep_s = 10.0;
   return std::make_unique<network::PoolElement>(id, ElementKind::culvert, std::move(crossing),

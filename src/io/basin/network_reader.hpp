@@ -4,6 +4,10 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
+#include <map>
+#include <memory>
+#include <mutex>
 #include <string>
 #include <vector>
 
@@ -13,9 +17,23 @@
 #include "freshet/hydrology/hyetograph.hpp"
 #include "freshet/io/study.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/network/structures/culvert_crossing.hpp"
 #include "input_units.hpp"
 
 namespace freshet::io::detail {
+
+// Culvert crossings already built, shared by the runs of one study: a crossing's rating table
+// costs far more than routing a storm, and it depends only on the crossing's own fields,
+// which are fixed within a scenario. Keys are "<scenario>/<element id>". Thread-safe.
+class CrossingCache {
+ public:
+  using Crossing = std::shared_ptr<const network::structures::CulvertCrossing>;
+  Crossing get_or_build(const std::string& key, const std::function<Crossing()>& build);
+
+ private:
+  std::mutex mutex_;
+  std::map<std::string, Crossing> built_;
+};
 
 // The element arrays of a basin file, in the order they are read.
 inline constexpr std::string_view kElementArrays[] = {
@@ -25,9 +43,12 @@ class NetworkReader {
  public:
   // `changes`, when given, is a scenario's [scenario.change] table: element id -> values
   // that replace that element's keys.
+  // `cache` (optional) shares culvert crossings between runs; `cache_scope` names the
+  // scenario whose tables are being read.
   NetworkReader(const toml::table& root, const toml::table* changes, std::string file,
                std::filesystem::path base_dir, const StudySettings& settings,
-               const hydrology::Hyetograph& storm, std::vector<Problem>& problems);
+               const hydrology::Hyetograph& storm, std::vector<Problem>& problems,
+               CrossingCache* cache = nullptr, std::string cache_scope = {});
 
   // Reads every element; returns the model (finalized) when no problem was found, and an
   // empty model otherwise (the problems are in the list).
@@ -55,6 +76,8 @@ class NetworkReader {
 
   const toml::table& root_;
   const toml::table* changes_;
+  CrossingCache* cache_;
+  std::string cache_scope_;
   std::string file_;
   std::filesystem::path base_dir_;
   const StudySettings& settings_;

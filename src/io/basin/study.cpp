@@ -28,6 +28,7 @@ struct Study::Impl {
   // scenario id -> its [scenario.change] table, inside `root` (toml++ copies lose positions)
   std::map<std::string, const toml::table*, std::less<>> changes;
   std::vector<StationDescription> stations;
+  std::unique_ptr<detail::CrossingCache> crossings = std::make_unique<detail::CrossingCache>();
 
   void read_settings(FieldReader& r, std::vector<Problem>& problems);
   void read_storms(std::vector<Problem>& problems);
@@ -286,7 +287,7 @@ network::Model Study::Impl::build(std::string_view scenario_id,
   const toml::table* changes_table = checked_changes(scenario_id, problems);
   if (problems.size() != before) return {};
   detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, rain,
-                               problems);
+                                problems, crossings.get(), std::string(scenario_id));
   network::Model model = builder.build();
   if (stations_out) *stations_out = builder.stations();
   return model;
