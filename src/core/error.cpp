@@ -80,6 +80,12 @@ std::string format_value(double value) {
   return std::string(buf, end);
 }
 
+std::string format_fixed(double value, int decimals) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", decimals, value);
+  return buf;
+}
+
 void assertion_failed(const char* expression, const char* file, int line, const char* message) {
   std::fprintf(stderr, "freshet internal error: %s:%d: assertion '%s' failed: %s\n", file, line,
                expression, message);

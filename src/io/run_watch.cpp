@@ -9,7 +9,6 @@ namespace freshet::io::detail {
 
 namespace {
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-constexpr double kMetresPerSecondPerMmPerHour = 1.0 / (1000.0 * 3600.0);
 }  // namespace
 
 void DecimatedSeries::add(double t_s, double value) {
@@ -71,7 +70,7 @@ void RunWatch::observe(double t_s, std::span<const network::StationSample> sampl
   const double dt_s = started_ ? t_s - last_t_s_ : 0.0;
   for (std::size_t i = 0; i < samples.size(); ++i) {
     if (area_m2_[i] > 0.0 && dt_s > 0.0) {
-      const double v = samples[i].excess_mm_h * kMetresPerSecondPerMmPerHour * area_m2_[i] * dt_s;
+      const double v = samples[i].excess_m_s * area_m2_[i] * dt_s;
       excess_m3_[i] += v;
       excess_moment_[i] += v * (t_s - 0.5 * dt_s);
     }

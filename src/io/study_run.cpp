@@ -23,24 +23,18 @@ namespace {
 using network::ElementKind;
 using network::StationSample;
 
-constexpr double kMmPerHourPerMetrePerSecond = 1000.0 * 3600.0;
-
 // Ponce, Li & Simons (1978), "Applicability of kinematic and diffusion models", J. Hydraulics
 // Div. ASCE 104(HY3): kinematic waves are accurate when the dimensionless wave period
 // T S0 u0 / d0 is at least 171 (from memory).
 constexpr double kPonceKinematicLimit = 171.0;
 
-std::string fixed(double v, int digits) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
-  return buf;
-}
-
 // Streams station samples to the two NetCDF files and keeps per-station accumulators.
 class StudySink final : public network::RecordSink {
  public:
   StudySink(const std::vector<StationDescription>& stations, const network::Model& model)
-      : stations_(stations), acc_(stations.size()), at_peak_(stations.size()),
+      : stations_(stations),
+        acc_(stations.size()),
+        at_peak_(stations.size()),
         watch_(model, stations) {
     for (std::size_t i = 0; i < stations.size(); ++i) {
       (stations[i].kind == "subcatchment" ? sub_index_ : channel_index_).push_back(i);
@@ -109,8 +103,8 @@ class StudySink final : public network::RecordSink {
     for (std::size_t k = 0; k < n; ++k) {
       const StationSample& s = samples[sub_index_[k]];
       row_[k] = s.discharge_m3s;
-      row_[n + k] = s.rain_mm_h / kMmPerHourPerMetrePerSecond;    // writer expects m s-1
-      row_[2 * n + k] = s.excess_mm_h / kMmPerHourPerMetrePerSecond;
+      row_[n + k] = s.rain_m_s;  // SI; the writer stores mm h-1
+      row_[2 * n + k] = s.excess_m_s;
     }
     sub_->record(time_s, row_);
   }
@@ -156,7 +150,8 @@ NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std:
 }
 
 InstanceSet instances(const std::vector<StationDescription>& stations,
-                      const std::vector<std::size_t>& index, std::string kind) {
+                      const std::vector<std::size_t>& index,
+                      std::string kind) {
   InstanceSet set;
   set.kind = std::move(kind);
   for (std::size_t i : index) {
@@ -169,7 +164,6 @@ InstanceSet instances(const std::vector<StationDescription>& stations,
   // Stage mixes elevations and depths (see the variable's long_name), so no datum is claimed.
   return set;
 }
-
 
 }  // namespace
 
@@ -213,10 +207,11 @@ void add_balances(const network::RunSummary& numerics, RunSummary& summary) {
 
 std::string shock_fate(const routing::ShockReport& s) {
   if (s.reached_outlet) {
-    return "reached the outlet at t = " + fixed(s.outlet_arrival_time_s / 60.0, 1) + " min";
+    return "reached the outlet at t = " + format_fixed(s.outlet_arrival_time_s / 60.0, 1) + " min";
   }
   if (s.ended) {
-    return "faded or merged in the reach after t = " + fixed(s.end_time_s / 60.0, 1) + " min";
+    return "faded or merged in the reach after t = " + format_fixed(s.end_time_s / 60.0, 1) +
+           " min";
   }
   return "did not reach the outlet";
 }
@@ -231,8 +226,8 @@ void add_shocks(const network::Model& model, RunSummary& summary) {
       r.element = e->id();
       r.time_s = s.formation_time_s;
       r.chainage_m = s.formation_position_m;
-      r.message = "mean speed " + fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
-                  fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " + shock_fate(s);
+      r.message = "mean speed " + format_fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+                  format_fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " + shock_fate(s);
       summary.shocks.push_back(r);
     }
   }
@@ -240,8 +235,10 @@ void add_shocks(const network::Model& model, RunSummary& summary) {
 
 // A pond whose level rises above the water level at the outlet of the reach feeding it backs
 // water up the reach, which the kinematic wave cannot carry upstream.
-void add_backwater_warning(const network::Model& model, const StudySink& sink,
-                           const std::vector<StationDescription>& stations, std::size_t i,
+void add_backwater_warning(const network::Model& model,
+                           const StudySink& sink,
+                           const std::vector<StationDescription>& stations,
+                           std::size_t i,
                            RunSummary& summary) {
   const std::ptrdiff_t down = model.topology.downstream[i];
   if (down < 0) return;
@@ -249,23 +246,28 @@ void add_backwater_warning(const network::Model& model, const StudySink& sink,
   if (!dynamic_cast<const network::PoolElement*>(model.elements[d].get())) return;
   const std::string& id = model.links[i].id;
   if (!stations[i].stage_is_elevation) {
-    summary.warnings.push_back(
-        {id, "drains into the pond at '" + model.links[d].id + "' but has no outlet_invert, so "
-                 "backwater from the pond could not be checked"});
+    summary.warnings.push_back({id,
+                                "drains into the pond at '" + model.links[d].id +
+                                    "' but has no outlet_invert, so "
+                                    "backwater from the pond could not be checked"});
     return;
   }
   const double excess_m = sink.watch().backwater_excess_m(i);
   if (!(excess_m > 0.0)) return;
-  summary.warnings.push_back(
-      {id, "the pond at '" + model.links[d].id + "' stood up to " + fixed(excess_m, 2) +
-               " m above this reach's computed outlet water level (at t = " +
-               fixed(sink.watch().backwater_time_s(i) / 60.0, 0) + " min): backwater into the "
-               "reach is not represented by the kinematic wave"});
+  summary.warnings.push_back({id,
+                              "the pond at '" + model.links[d].id + "' stood up to " +
+                                  format_fixed(excess_m, 2) +
+                                  " m above this reach's computed outlet water level (at t = " +
+                                  format_fixed(sink.watch().backwater_time_s(i) / 60.0, 0) +
+                                  " min): backwater into the "
+                                  "reach is not represented by the kinematic wave"});
 }
 
 // Kinematic-wave applicability per reach, backwater from pools, conduits at capacity.
-void add_warnings(const network::Model& model, const StudySink& sink,
-                  const std::vector<StationDescription>& stations, RunSummary& summary) {
+void add_warnings(const network::Model& model,
+                  const StudySink& sink,
+                  const std::vector<StationDescription>& stations,
+                  RunSummary& summary) {
   for (std::size_t i = 0; i < model.elements.size(); ++i) {
     const auto* reach = dynamic_cast<const network::ReachElement*>(model.elements[i].get());
     if (!reach) continue;
@@ -280,23 +282,27 @@ void add_warnings(const network::Model& model, const StudySink& sink,
       const double tau = 2.0 * tp_s * slope * p.velocity_m_s / p.depth_m;
       if (tau < kPonceKinematicLimit) {
         summary.warnings.push_back(
-            {model.links[i].id, "dimensionless wave period T S0 u0/d0 = " +
-                                    fixed(tau, tau < 10.0 ? 2 : 0) +
-                                    " < 171 (Ponce, Li & Simons 1978): the kinematic wave may "
-                                    "misstate attenuation here; consider a diffusion-wave check"});
+            {model.links[i].id,
+             "dimensionless wave period T S0 u0/d0 = " + format_fixed(tau, tau < 10.0 ? 2 : 0) +
+                 " < 171 (Ponce, Li & Simons 1978): the kinematic wave may "
+                 "misstate attenuation here; consider a diffusion-wave check"});
       }
     }
     if (reach->capacity_steps() > 0) {
       summary.warnings.push_back(
-          {model.links[i].id, "conduit reached its part-full capacity; surcharge is not "
-                              "represented and inflow above capacity is held back in the reach"});
+          {model.links[i].id,
+           "conduit reached its part-full capacity; surcharge is not "
+           "represented and inflow above capacity is held back in the reach"});
     }
     add_backwater_warning(model, sink, stations, i, summary);
   }
 }
 
-RunSummary summarise(const Study& study, const RunRequest& req, const network::Model& model,
-                     const network::RunSummary& numerics, const StudySink& sink,
+RunSummary summarise(const Study& study,
+                     const RunRequest& req,
+                     const network::Model& model,
+                     const network::RunSummary& numerics,
+                     const StudySink& sink,
                      const std::vector<StationDescription>& stations) {
   RunSummary s;
   s.title = study.settings().title + ", storm " + req.storm_id +
@@ -327,7 +333,11 @@ class ProfileWriter {
         if (e->id() == id) found = dynamic_cast<const network::ReachElement*>(e.get());
       }
       if (!found) {
-        problems.push_back({"", 0, 0, "profile output", "reach",
+        problems.push_back({"",
+                            0,
+                            0,
+                            "profile output",
+                            "reach",
                             "= '" + id + "': no reach of the basin has this id"});
       }
       reaches_.push_back(found);
@@ -381,7 +391,11 @@ std::vector<std::size_t> export_indices(const RunRequest& req,
     std::size_t k = 0;
     while (k < stations.size() && stations[k].id != id) ++k;
     if (k == stations.size()) {
-      problems.push_back({"", 0, 0, "hydrograph export", "station",
+      problems.push_back({"",
+                          0,
+                          0,
+                          "hydrograph export",
+                          "station",
                           "= '" + id + "': no element of the basin has this id"});
     } else {
       out.push_back(k);
@@ -397,15 +411,21 @@ std::pair<double, std::size_t> export_grid(const Study& study, const RunRequest&
   const double dt_s = req.export_interval_s > 0.0 ? req.export_interval_s : set.output_interval_s;
   const auto n = static_cast<std::size_t>(std::llround(set.duration_s / dt_s));
   if (n < 1 || std::abs(static_cast<double>(n) * dt_s - set.duration_s) > 1e-9 * set.duration_s) {
-    throw InputError(Problem{"", 0, 0, "hydrograph export", "interval",
+    throw InputError(Problem{"",
+                             0,
+                             0,
+                             "hydrograph export",
+                             "interval",
                              "= " + format_value(dt_s) + " s: must divide the run length (" +
                                  format_value(set.duration_s) + " s) into whole intervals"});
   }
   return {dt_s, n};
 }
 
-std::filesystem::path write_export(const Study& study, const RunRequest& req,
-                                   const StudySink& sink, std::size_t i,
+std::filesystem::path write_export(const Study& study,
+                                   const RunRequest& req,
+                                   const StudySink& sink,
+                                   std::size_t i,
                                    const StationDescription& station,
                                    const std::filesystem::path& folder) {
   const StudySettings& set = study.settings();
@@ -419,8 +439,9 @@ std::filesystem::path write_export(const Study& study, const RunRequest& req,
     r = resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::interval_volumes);
   } catch (const InputError&) {
     r = resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::scaled_samples);
-    method = "total volume kept by scaling the samples (interval volumes would need negative "
-             "discharge)";
+    method =
+        "total volume kept by scaling the samples (interval volumes would need negative "
+        "discharge)";
   }
   SeriesTable table;
   table.quantity = SeriesQuantity::discharge;
@@ -440,18 +461,27 @@ std::filesystem::path write_export(const Study& study, const RunRequest& req,
 
 // The per-station peaks for the cross-storm and cross-scenario tables, with the road
 // overtopping of every culvert crossing.
-std::vector<StationPeak> station_peaks(const network::Model& model, const RunSummary& summary,
+std::vector<StationPeak> station_peaks(const network::Model& model,
+                                       const RunSummary& summary,
                                        const std::vector<StationDescription>& stations) {
   std::vector<StationPeak> peaks;
   for (std::size_t i = 0; i < stations.size(); ++i) {
     const StationSummary& st = summary.stations[i];
-    StationPeak p{st.station_id, st.name, stations[i].kind, st.peak_discharge_m3s,
-                  st.peak_time_s, st.peak_stage_m, st.runoff_volume_m3, "", kNotApplicable};
+    StationPeak p{st.station_id,
+                  st.name,
+                  stations[i].kind,
+                  st.peak_discharge_m3s,
+                  st.peak_time_s,
+                  st.peak_stage_m,
+                  st.runoff_volume_m3,
+                  "",
+                  kNotApplicable};
     const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[i].get());
     if (pool && pool->crossing()) {
       const auto r = network::structures::crossing_report(*pool->crossing(), pool->pool());
       p.overtopping_s = r.road_overtopped ? r.overtopping_duration_s : 0.0;
-      p.overtopping = r.road_overtopped ? fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
+      p.overtopping =
+          r.road_overtopped ? format_fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
     }
     peaks.push_back(std::move(p));
   }
@@ -465,23 +495,30 @@ struct RunFiles {
 };
 
 // One file per set of points that has members: stations, subcatchments, profile cells.
-void open_run_files(const Study& study, const RunRequest& req, const network::Model& model,
+void open_run_files(const Study& study,
+                    const RunRequest& req,
+                    const network::Model& model,
                     const std::vector<StationDescription>& stations,
-                    const std::filesystem::path& folder, StudySink& sink, RunFiles& files) {
+                    const std::filesystem::path& folder,
+                    StudySink& sink,
+                    RunFiles& files) {
   NetcdfWriterOptions nc;
   nc.overwrite = req.overwrite;
   if (!sink.channel_index().empty()) {
     files.stations.emplace(folder / (req.storm_id + ".nc"), nc);
     files.stations->begin(metadata(study, req, "stations"),
                           instances(stations, sink.channel_index(), "station"),
-                          {OutputVariable::discharge, OutputVariable::stage,
-                           OutputVariable::depth, OutputVariable::velocity});
+                          {OutputVariable::discharge,
+                           OutputVariable::stage,
+                           OutputVariable::depth,
+                           OutputVariable::velocity});
   }
   if (!sink.sub_index().empty()) {
     files.subcatchments.emplace(folder / (req.storm_id + "_subcatchments.nc"), nc);
     files.subcatchments->begin(metadata(study, req, "subcatchments"),
                                instances(stations, sink.sub_index(), "subcatchment"),
-                               {OutputVariable::discharge, OutputVariable::rainfall_intensity,
+                               {OutputVariable::discharge,
+                                OutputVariable::rainfall_intensity,
                                 OutputVariable::rainfall_excess});
   }
   sink.set_writers(files.stations ? &*files.stations : nullptr,
@@ -489,19 +526,23 @@ void open_run_files(const Study& study, const RunRequest& req, const network::Mo
   if (req.profile_reaches.empty()) return;
   files.profile_cells.emplace(model, req.profile_reaches);
   files.profiles.emplace(folder / (req.storm_id + "_profiles.nc"), nc);
-  files.profiles->begin(metadata(study, req, "along-reach profiles"),
-                        files.profile_cells->instances(),
-                        {OutputVariable::discharge, OutputVariable::depth,
-                         OutputVariable::velocity});
+  files.profiles->begin(
+      metadata(study, req, "along-reach profiles"),
+      files.profile_cells->instances(),
+      {OutputVariable::discharge, OutputVariable::depth, OutputVariable::velocity});
   sink.after_record = [&files](double t) { files.profile_cells->write(*files.profiles, t); };
 }
 
 // Summaries (CSV, JSON), exports, then the NetCDF files renamed into place last, so that
 // nothing looks finished unless everything was written.
-void write_run_files(const Study& study, const RunRequest& req, const StudySink& sink,
+void write_run_files(const Study& study,
+                     const RunRequest& req,
+                     const StudySink& sink,
                      const std::vector<StationDescription>& stations,
                      const std::vector<std::size_t>& exported,
-                     const std::filesystem::path& folder, RunFiles& files, RunOutcome& out) {
+                     const std::filesystem::path& folder,
+                     RunFiles& files,
+                     RunOutcome& out) {
   const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
   const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
@@ -530,7 +571,8 @@ std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
 
 }  // namespace
 
-RunOutcome run_study(const Study& study, const RunRequest& req,
+RunOutcome run_study(const Study& study,
+                     const RunRequest& req,
                      const network::ProgressFn& progress) {
   network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
   const std::vector<StationDescription> stations = study.stations();
@@ -547,8 +589,8 @@ RunOutcome run_study(const Study& study, const RunRequest& req,
   for (std::size_t i : exported) sink.keep_series(i);
 
   const StudySettings& set = study.settings();
-  const network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s,
-                                    set.coupling_step_s};
+  const network::ClockOptions clock{
+      0.0, set.duration_s, set.output_interval_s, set.coupling_step_s};
   RunOutcome out;
   out.scenario_id = req.scenario_id;
   out.storm_id = req.storm_id;

@@ -17,10 +17,7 @@ namespace {
 // ---- text table ---------------------------------------------------------------------------
 
 std::string fixed(double v, int decimals) {
-  if (std::isnan(v)) return "-";
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-  return buf;
+  return std::isnan(v) ? "-" : format_fixed(v, decimals);
 }
 
 // Columns padded to their widest cell; the first `text_columns` left-aligned (names), the

@@ -6,17 +6,10 @@
 
 namespace freshet::network {
 
-namespace {
-std::string fixed(double v, int digits) {
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.*f", digits, v);
-  return buf;
-}
-}  // namespace
-
 // ---- ReachElement ------------------------------------------------------------------------
 
-ReachElement::ReachElement(std::string id, geometry::FlowSection section,
+ReachElement::ReachElement(std::string id,
+                           geometry::FlowSection section,
                            std::unique_ptr<routing::ReachModel> reach,
                            std::optional<double> outlet_invert_m)
     : Element(std::move(id), ElementKind::reach),
@@ -50,8 +43,8 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
                          " s received an invalid forcing: " + e.what());
   }
   if (!r.ok()) {
-    throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) + " s: " +
-                         r.message);
+    throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) +
+                         " s: " + r.message);
   }
   peak_inflow_m3s_ = std::max(peak_inflow_m3s_, in.inflow_mean_m3s + in.lateral_mean_m3s);
   const int last = reach_->spec().cell_count - 1;
@@ -91,16 +84,18 @@ std::vector<ElementNote> ReachElement::notes() const {
   std::vector<ElementNote> out;
   for (const routing::ShockReport* found : significant_shocks()) {
     const routing::ShockReport& shock = *found;
-    std::string text = "kinematic shock formed at t = " + fixed(shock.formation_time_s / 60.0, 1) +
-                       " min, " + fixed(shock.formation_position_m, 0) + " m downstream, mean " +
-                       "speed " + fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
-                       fixed(shock.rankine_hugoniot_m_s, 2) + " m/s)";
+    std::string text =
+        "kinematic shock formed at t = " + format_fixed(shock.formation_time_s / 60.0, 1) +
+        " min, " + format_fixed(shock.formation_position_m, 0) + " m downstream, mean " + "speed " +
+        format_fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+        format_fixed(shock.rankine_hugoniot_m_s, 2) + " m/s)";
     if (shock.reached_outlet) {
-      text += ", reached the outlet at t = " + fixed(shock.outlet_arrival_time_s / 60.0, 1) +
+      text += ", reached the outlet at t = " + format_fixed(shock.outlet_arrival_time_s / 60.0, 1) +
               " min";
     } else if (shock.ended) {
-      text += ", faded or merged in the reach after t = " + fixed(shock.end_time_s / 60.0, 1) +
-              " min";
+      text +=
+          ", faded or merged in the reach after t = " + format_fixed(shock.end_time_s / 60.0, 1) +
+          " min";
     } else {
       text += ", did not reach the outlet";
     }
@@ -124,16 +119,15 @@ void SubcatchmentElement::reset(double /*start_s*/) {
   model_->reset();
   sample_ = {};
   sample_.discharge_m3s = 0.0;
-  sample_.rain_mm_h = 0.0;
-  sample_.excess_mm_h = 0.0;
+  sample_.rain_m_s = 0.0;
+  sample_.excess_m_s = 0.0;
 }
 
 StepOutflow SubcatchmentElement::advance(const StepInflow& in) {
   const hydrology::SubcatchmentStep s = model_->advance(in.t0_s, in.t1_s);
-  constexpr double kMmPerHourPerMetrePerSecond = 1000.0 * 3600.0;
   sample_.discharge_m3s = s.runoff_end_m3s;
-  sample_.rain_mm_h = s.rain_mean_m_s * kMmPerHourPerMetrePerSecond;
-  sample_.excess_mm_h = s.excess_mean_m_s * kMmPerHourPerMetrePerSecond;
+  sample_.rain_m_s = s.rain_mean_m_s;
+  sample_.excess_m_s = s.excess_mean_m_s;
   return {s.runoff_mean_m3s, s.runoff_end_m3s};
 }
 
@@ -149,9 +143,11 @@ VolumeLedger SubcatchmentElement::ledger() const {
 
 // ---- PoolElement -------------------------------------------------------------------------
 
-PoolElement::PoolElement(std::string id, ElementKind kind,
+PoolElement::PoolElement(std::string id,
+                         ElementKind kind,
                          std::shared_ptr<const structures::CulvertCrossing> crossing,
-                         structures::StageStorage ponding, structures::LevelPoolOptions options)
+                         structures::StageStorage ponding,
+                         structures::LevelPoolOptions options)
     : Element(std::move(id), kind), crossing_(std::move(crossing)) {
   pool_ = std::make_unique<structures::LevelPool>(
       structures::make_crossing_pool(*crossing_, std::move(ponding), options));
@@ -160,16 +156,20 @@ PoolElement::PoolElement(std::string id, ElementKind kind,
                               crossing_->tailwater_stage_m().value_or(-1e300));
 }
 
-PoolElement::PoolElement(std::string id, std::unique_ptr<structures::Riser> riser,
-                         structures::StageStorage basin, structures::LevelPoolOptions options,
+PoolElement::PoolElement(std::string id,
+                         std::unique_ptr<structures::Riser> riser,
+                         structures::StageStorage basin,
+                         structures::LevelPoolOptions options,
                          double initial_stage_m)
     : Element(std::move(id), ElementKind::detention),
       riser_(std::move(riser)),
       initial_stage_m_(initial_stage_m) {
   const structures::Riser* r = riser_.get();
   pool_ = std::make_unique<structures::LevelPool>(
-      "detention basin '" + this->id() + "'", std::move(basin),
-      [r](double stage_m) { return r->discharge_m3s(stage_m); }, options);
+      "detention basin '" + this->id() + "'",
+      std::move(basin),
+      [r](double stage_m) { return r->discharge_m3s(stage_m); },
+      options);
 }
 
 void PoolElement::reset(double start_s) {
@@ -214,24 +214,26 @@ std::vector<ElementNote> PoolElement::notes() const {
   std::vector<ElementNote> out;
   if (crossing_) {
     const structures::CrossingReport r = structures::crossing_report(*crossing_, *pool_);
-    std::string text = "peak headwater " + fixed(r.peak_headwater_stage_m, 2) + " m (" +
-                       fixed(r.peak_headwater_depth_m, 2) + " m above the inlet invert) at t = " +
-                       fixed(r.time_of_peak_headwater_s / 60.0, 1) + " min, " +
-                       (r.control_at_peak == structures::Control::inlet ? "inlet" : "outlet") +
-                       " control; ";
-    text += r.road_overtopped ? "road overtopped for " + fixed(r.overtopping_duration_s / 60.0, 1) +
-                                    " min (" + fixed(r.overtopping_discharge_at_peak_m3s, 2) +
-                                    " m3/s over the road at the peak)"
-                              : "road not overtopped";
+    std::string text =
+        "peak headwater " + format_fixed(r.peak_headwater_stage_m, 2) + " m (" +
+        format_fixed(r.peak_headwater_depth_m, 2) +
+        " m above the inlet invert) at t = " + format_fixed(r.time_of_peak_headwater_s / 60.0, 1) +
+        " min, " + (r.control_at_peak == structures::Control::inlet ? "inlet" : "outlet") +
+        " control; ";
+    text += r.road_overtopped
+                ? "road overtopped for " + format_fixed(r.overtopping_duration_s / 60.0, 1) +
+                      " min (" + format_fixed(r.overtopping_discharge_at_peak_m3s, 2) +
+                      " m3/s over the road at the peak)"
+                : "road not overtopped";
     if (r.stage_beyond_rating) text += "; WARNING: headwater above the tabulated rating";
     out.push_back({text});
   } else {
     const structures::DetentionReport r = structures::detention_report(*pool_);
-    out.push_back({"peak stage " + fixed(r.peak_stage_m, 2) + " m at t = " +
-                   fixed(r.time_of_peak_stage_s / 60.0, 1) + " min, peak storage " +
-                   fixed(r.peak_storage_m3, 0) + " m3, peak outflow " +
-                   fixed(r.peak_outflow_m3s, 3) + " m3/s (peak inflow " +
-                   fixed(peak_inflow_m3s_, 3) + " m3/s)"});
+    out.push_back({"peak stage " + format_fixed(r.peak_stage_m, 2) +
+                   " m at t = " + format_fixed(r.time_of_peak_stage_s / 60.0, 1) +
+                   " min, peak storage " + format_fixed(r.peak_storage_m3, 0) +
+                   " m3, peak outflow " + format_fixed(r.peak_outflow_m3s, 3) +
+                   " m3/s (peak inflow " + format_fixed(peak_inflow_m3s_, 3) + " m3/s)"});
   }
   return out;
 }

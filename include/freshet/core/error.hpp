@@ -80,6 +80,8 @@ class ProblemList {
 
 // Formats a double for messages: shortest form that round-trips ("0.035", "nan", "-1e-06").
 std::string format_value(double value);
+// Fixed-point with `decimals` decimals, for reports ("55.31").
+std::string format_fixed(double value, int decimals);
 
 [[noreturn]] void assertion_failed(const char* expression, const char* file, int line,
                                    const char* message);

@@ -24,8 +24,8 @@ struct StationSample {
   double stage_m = kNoValue;        // water-surface elevation (or depth where no datum is known)
   double depth_m = kNoValue;        // flow depth (headwater depth at a culvert, pool depth)
   double velocity_m_s = kNoValue;   // mean velocity Q/A where defined
-  double rain_mm_h = kNoValue;      // subcatchments: rainfall intensity
-  double excess_mm_h = kNoValue;    // subcatchments: rainfall excess (runoff-producing) rate
+  double rain_m_s = kNoValue;       // subcatchments: rainfall intensity
+  double excess_m_s = kNoValue;     // subcatchments: rainfall excess (runoff-producing) rate
 };
 
 // Every element keeps the shared freshet::VolumeLedger (core/volume_ledger.hpp).
