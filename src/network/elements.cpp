@@ -20,7 +20,6 @@ ReachElement::ReachElement(std::string id,
 void ReachElement::reset(double /*start_s*/) {
   reach_->set_uniform_discharge(0.0);  // dry; restarts the reach's clock and ledger
   capacity_steps_ = 0;
-  peak_inflow_m3s_ = 0.0;
   peak_outflow_m3s_ = 0.0;
 }
 
@@ -46,7 +45,6 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
     throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) +
                          " s: " + r.message);
   }
-  peak_inflow_m3s_ = std::max(peak_inflow_m3s_, in.inflow_mean_m3s + in.lateral_mean_m3s);
   const int last = reach_->spec().cell_count - 1;
   const auto areas = reach_->cell_area_m2();
   if (section_.at_capacity(*std::max_element(areas.begin(), areas.end()))) ++capacity_steps_;

@@ -48,7 +48,6 @@ struct StormDefinition {
 struct ScenarioDefinition {
   std::string id;
   std::string description;
-  std::vector<std::string> changed_elements;
 };
 
 // Where a station sits, for outputs.

@@ -37,8 +37,6 @@ class ReachElement final : public Element {
   // Coupling steps at whose end some cell held the conduit's capacity area (the kinematic
   // wave at its limit: surcharge is not represented).
   [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
-  // Time-averaged inflow peak and outflow peak (m3/s), for attenuation reports.
-  [[nodiscard]] double peak_inflow_m3s() const { return peak_inflow_m3s_; }
   // The reach's kinematic shocks that matter to the flood, in order of formation: each one's
   // discharge jump at formation is at least kSignificantShockFraction of the reach's peak
   // outflow. Small fronts (the first trickle running onto a dry bed) are left out.
@@ -50,8 +48,7 @@ class ReachElement final : public Element {
   std::unique_ptr<routing::ReachModel> reach_;
   std::optional<double> outlet_invert_m_;
   long capacity_steps_ = 0;
-  double peak_inflow_m3s_ = 0.0;
-  double peak_outflow_m3s_ = 0.0;
+  double peak_outflow_m3s_ = 0.0;  // at step ends, for the significance of shocks
 };
 
 // A subcatchment: rain, losses and overland planes. Its station reports the runoff, the

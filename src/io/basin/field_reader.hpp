@@ -53,6 +53,7 @@ class FieldReader {
   void report_here(std::string message);                   // problem located at the table
   void finish();  // reports every key that was never read
 
+  [[nodiscard]] bool has(std::string_view key) const { return find(key) != nullptr; }
   [[nodiscard]] const std::string& file() const { return file_; }
   [[nodiscard]] std::vector<Problem>& problems() const { return problems_; }
   [[nodiscard]] const std::string& element() const { return element_; }

@@ -145,13 +145,11 @@ void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&&
   }
   r.finish();
   if (problems_.size() != before || !e) complete_ = false;
-  if (kind == ElementKind::reach || kind == ElementKind::culvert ||
-      kind == ElementKind::detention) {
-    station.stage_is_elevation = true;  // refined below for reaches without an invert
-  }
-  if (kind == ElementKind::reach) {
-    station.stage_is_elevation = table.get("outlet_invert") != nullptr;
-  }
+  // Ponds report their level; a reach reports an elevation only when its invert is given
+  // (in the base or by the scenario), otherwise its depth.
+  station.stage_is_elevation = kind == ElementKind::culvert ||
+                               kind == ElementKind::detention ||
+                               (kind == ElementKind::reach && r.has("outlet_invert"));
   model_.links.push_back(std::move(link));
   model_.elements.push_back(std::move(e));
   stations_.push_back(std::move(station));

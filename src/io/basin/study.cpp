@@ -218,10 +218,7 @@ void Study::Impl::read_scenarios(std::vector<Problem>& problems) {
     s.description = r.optional_text("description").value_or("");
     const toml::table* change = r.optional_table("change");
     if (!change || change->empty()) r.report_here("needs a [scenario.change.<element-id>] table");
-    if (change) {
-      for (const auto& [key, value] : *change) s.changed_elements.emplace_back(key.str());
-      changes.emplace(s.id, change);
-    }
+    if (change) changes.emplace(s.id, change);
     for (const auto& other : scenarios) {
       if (other.id == s.id) r.report("id", "= '" + s.id + "': another scenario has this id");
     }
