@@ -14,6 +14,7 @@
 #include "freshet/io/series_resample.hpp"
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/network/elements.hpp"
+#include "freshet/routing/applicability.hpp"
 #include "run_watch.hpp"
 
 namespace freshet::io {
@@ -22,11 +23,6 @@ namespace {
 
 using network::ElementKind;
 using network::StationSample;
-
-// Ponce, Li & Simons (1978), "Applicability of kinematic and diffusion models", J. Hydraulics
-// Div. ASCE 104(HY3): kinematic waves are accurate when the dimensionless wave period
-// T S0 u0 / d0 is at least 171 (from memory).
-constexpr double kPonceKinematicLimit = 171.0;
 
 // Streams station samples to the two NetCDF files and keeps per-station accumulators.
 class StudySink final : public network::RecordSink {
@@ -276,16 +272,24 @@ void add_warnings(const network::Model& model,
     const double tp_s = acc.peak_time_s() -
                         sink.watch().rise_start_s(i, acc.peak_time_s(), acc.peak_discharge_m3s());
     const double slope = reach->section().bed_slope;
-    if (p.depth_m > 0.0 && p.velocity_m_s > 0.0 && tp_s > 0.0) {
-      // Wave period taken as twice the time of rise, from the start of the rising limb to
-      // the peak (common practice, no source).
-      const double tau = 2.0 * tp_s * slope * p.velocity_m_s / p.depth_m;
-      if (tau < kPonceKinematicLimit) {
-        summary.warnings.push_back(
-            {model.links[i].id,
-             "dimensionless wave period T S0 u0/d0 = " + format_fixed(tau, tau < 10.0 ? 2 : 0) +
-                 " < 171 (Ponce, Li & Simons 1978): the kinematic wave may "
-                 "misstate attenuation here; consider a diffusion-wave check"});
+    if (p.depth_m > 0.0 && p.velocity_m_s > 0.0 && tp_s > 0.0 && slope > 0.0) {
+      // Ponce (1989) in the time-of-rise form (routing/applicability.hpp).
+      const routing::WaveApplicability a =
+          routing::wave_applicability(tp_s, slope, p.velocity_m_s, p.depth_m);
+      summary.wave_numbers.push_back(
+          {model.links[i].id, tp_s, a.kinematic_number, a.diffusion_number});
+      if (!a.kinematic_ok) {
+        const auto number = [](double x) { return format_fixed(x, x < 10.0 ? 2 : 0); };
+        std::string message =
+            "time-of-rise number t_r S0 u0/d0 = " + number(a.kinematic_number) +
+            " < 85 (Ponce, Li & Simons 1978; Ponce 1989): the kinematic wave may misstate "
+            "attenuation here; ";
+        message += a.diffusion_ok
+                       ? "a diffusion wave would apply (t_r S0 (g/d0)^0.5 = " +
+                             number(a.diffusion_number) + " >= 15)"
+                       : "even a diffusion wave is doubtful (t_r S0 (g/d0)^0.5 = " +
+                             number(a.diffusion_number) + " < 15); check with a dynamic-wave model";
+        summary.warnings.push_back({model.links[i].id, std::move(message)});
       }
     }
     if (reach->capacity_steps() > 0) {

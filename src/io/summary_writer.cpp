@@ -166,6 +166,13 @@ std::string checks_csv(const RunSummary& s) {
            csv_number(r.outflow_volume_m3) + "," + csv_number(r.storage_change_m3) + "," +
            csv_number(r.error_m3) + "," + csv_number(r.relative_error) + ",\n";
   }
+  for (const auto& r : s.wave_numbers) {
+    out += "wave_numbers," + csv_text(r.element) + ",,,,,,,," +
+           csv_text("time_of_rise_s=" + csv_number(r.time_of_rise_s) +
+                    "; kinematic_number=" + csv_number(r.kinematic_number) +
+                    "; diffusion_number=" + csv_number(r.diffusion_number)) +
+           "\n";
+  }
   for (const auto& r : s.warnings) {
     out += "applicability," + csv_text(r.element) + ",,,,,,,," + csv_text(r.message) + "\n";
   }
@@ -210,6 +217,13 @@ nlohmann::json to_json(const MassBalanceRecord& r) {
           {"storage_change_m3", number(r.storage_change_m3)},
           {"error_m3", number(r.error_m3)},
           {"relative_error", number(r.relative_error)}};
+}
+
+nlohmann::json to_json(const WaveNumberRecord& r) {
+  return {{"element", r.element},
+          {"time_of_rise_s", number(r.time_of_rise_s)},
+          {"kinematic_number", number(r.kinematic_number)},
+          {"diffusion_number", number(r.diffusion_number)}};
 }
 
 nlohmann::json to_json(const ApplicabilityWarning& r) {
@@ -265,6 +279,7 @@ std::string format_summary_json(const RunSummary& summary) {
   j["pairs"] = array_of(summary.pairs);
   j["shocks"] = array_of(summary.shocks);
   j["mass_balance"] = array_of(summary.mass_balance);
+  j["wave_numbers"] = array_of(summary.wave_numbers);
   j["applicability_warnings"] = array_of(summary.warnings);
   return j.dump(2) + "\n";
 }

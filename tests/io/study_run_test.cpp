@@ -110,16 +110,18 @@ TEST(RunSummary, ApplicabilityNumberDoesNotDependOnWhenTheFloodArrives) {
         "[[reach]]\nid = \"r1\"\nto = \"out\"\nlength = 1200.0\nslope = 0.0005\n"
         "manning_n = 0.04\nsection = { shape = \"rectangular\", bottom_width = 4.0 }\n"
         "[[outlet]]\nid = \"out\"\n");
-    for (const auto& w : r.summary.warnings) {
-      const auto at = w.message.find("T S0 u0/d0 = ");
-      if (w.element == "r1" && at != std::string::npos) {
-        return std::stod(w.message.substr(at + 13));
-      }
+    for (const auto& w : r.summary.wave_numbers) {
+      if (w.element != "r1") continue;
+      // The warning is given exactly when the number is below Ponce's 85.
+      EXPECT_EQ(w.kinematic_number < 85.0, has_warning(r, "r1", "t_r S0 u0/d0"));
+      EXPECT_GT(w.time_of_rise_s, 0.0);
+      return w.kinematic_number;
     }
     return -1.0;
   };
   const double early = tau_for(10.0), late = tau_for(310.0);
-  ASSERT_GT(early, 0.0) << "a flat, short flood should be flagged";
+  ASSERT_GT(early, 0.0) << "r1 has applicability numbers";
+  EXPECT_LT(early, 85.0) << "a flat, short flood should be flagged";
   EXPECT_NEAR(late, early, 0.1 * early);
 }
 

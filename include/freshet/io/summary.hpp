@@ -65,6 +65,15 @@ struct ApplicabilityWarning {
   std::string message;
 };
 
+// Applicability numbers of one reach (Ponce 1989 time-of-rise form; routing/applicability.hpp),
+// at the reach outlet at the time of peak discharge.
+struct WaveNumberRecord {
+  std::string element;
+  double time_of_rise_s = kNotApplicable;
+  double kinematic_number = kNotApplicable;  // t_r S0 u0 / d0, kinematic wave applies >= 85
+  double diffusion_number = kNotApplicable;  // t_r S0 (g/d0)^(1/2), diffusion wave >= 15
+};
+
 struct RunSummary {
   std::string title;   // e.g. "freshet run of basin 'Alder Brook', storm 100-year 6-hour"
   std::string source;  // freshet version string
@@ -72,6 +81,7 @@ struct RunSummary {
   std::vector<PairSummary> pairs;
   std::vector<ShockRecord> shocks;
   std::vector<MassBalanceRecord> mass_balance;
+  std::vector<WaveNumberRecord> wave_numbers;
   std::vector<ApplicabilityWarning> warnings;
 };
 
