@@ -5,6 +5,7 @@
 // the tests mark it. Registration is the single table at the end of this file.
 #include "verification_cases.hpp"
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <exception>
@@ -25,6 +26,7 @@
 #include "freshet/network/structures/level_pool.hpp"
 #include "freshet/network/structures/outlets.hpp"
 #include "freshet/network/structures/stage_storage.hpp"
+#include "freshet/routing/applicability.hpp"
 #include "freshet/routing/kinematic_reach.hpp"
 #include "freshet/routing/lateral_inflow.hpp"
 
@@ -279,6 +281,35 @@ CaseValues linear_reservoir_outflow() {
   return {inflow * (1.0 - std::exp(-t_end / k)), pool.state().outflow_m3s};
 }
 
+// Chow, Maidment & Mays (1988) Applied Hydrology, Examples 8.2.1-8.2.2 (from memory): a
+// 1-acre vertical-walled basin, outflow tabulated at 0.5 ft steps, inflow 0-360-0 cfs at
+// 10-min intervals; storage-indication routing peaks at about 270 cfs at 80 min
+// (as tests/network/structures/level_pool_test.cpp).
+CaseValues chow_detention_peak_outflow() {
+  const double ft3 = units::kCubicMetresPerCubicFoot, dt_s = 600.0;
+  const std::vector<double> outflow_cfs{0,   3,   8,   17,  30,  43,  60,  78,  97,  117, 137,
+                                        156, 173, 190, 205, 218, 231, 242, 253, 264, 275};
+  const std::vector<double> inflow_cfs{0,   60,  120, 180, 240, 300, 360, 320, 280, 240, 200,
+                                       160, 120, 80,  40,  0,   0,   0,   0,   0,   0};
+  std::vector<double> storage_m3, outflow_m3s, inflow_m3s;
+  for (std::size_t k = 0; k < outflow_cfs.size(); ++k) {
+    storage_m3.push_back(43560.0 * 0.5 * static_cast<double>(k) * ft3);
+    outflow_m3s.push_back(outflow_cfs[k] * ft3);
+  }
+  for (double q : inflow_cfs) inflow_m3s.push_back(q * ft3);
+  const std::vector<double> out = network::structures::route_storage_indication(
+      storage_m3, outflow_m3s, dt_s, inflow_m3s, 0.0);
+  double peak_m3s = 0.0;
+  for (double q : out) peak_m3s = std::max(peak_m3s, q);
+  return {270.0, peak_m3s / ft3};
+}
+
+// Ponce (2014), SDSU CIV E 445 Lab 11 solution, with Ponce (1989) Engineering Hydrology
+// eq. 9-44: t_r = 6 h, S0 = 0.015, u0 = 1.5 m/s, d0 = 3 m gives t_r S0 u0/d0 = 162.
+CaseValues ponce_kinematic_number() {
+  return {162.0, routing::wave_applicability(6.0 * 3600.0, 0.015, 1.5, 3.0).kinematic_number};
+}
+
 // FHWA HDS-5 (Schall et al. 2012), Appendix A, submerged inlet control
 // HW/D = c (K_u Q / (A D^0.5))^2 + Y - 0.5 S with K_u = 1.811 (SI) and Table A.1 constants
 // c = 0.0398, Y = 0.67 for a concrete pipe, square edge with headwall. D = 1.2 m, S = 0.01,
@@ -364,6 +395,14 @@ const VerificationCase kCases[] = {
      "m", 1e-6, TK::absolute,
      "FHWA HDS-5 (Schall et al. 2012) Appendix A, submerged form, Table A.1",
      hds5_inlet_control_headwater},
+    {"chow-8.2-detention-peak", "network", "peak outflow of the 1-acre detention example",
+     "cfs", 0.5, TK::absolute,
+     "Chow, Maidment & Mays (1988) Applied Hydrology, Examples 8.2.1-8.2.2 (from memory)",
+     chow_detention_peak_outflow},
+    {"ponce-kinematic-number", "routing", "t_r S0 u0/d0, t_r 6 h, S0 0.015, 1.5 m/s, 3 m", "-",
+     0.5, TK::absolute,
+     "Ponce (1989) Engineering Hydrology eq. 9-44; Ponce (2014) SDSU CIV E 445 Lab 11",
+     ponce_kinematic_number},
 };
 
 }  // namespace
