@@ -1,4 +1,5 @@
 // freshet route: route a basin for one or more design storms and write the results.
+#include <algorithm>
 #include <cstdio>
 #include <iostream>
 
@@ -49,7 +50,16 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
     const std::string notes = format_notes(r);
     if (!notes.empty()) std::cout << "Element reports:\n" << notes;
     std::cout << "Reach numerics:\n";
-    for (const auto& [id, d] : r.reach_numerics) std::cout << "  " << id << ": " << d.brief_report() << "\n";
+    for (const auto& [id, d] : r.reach_numerics) {
+      std::cout << "  " << id << ": " << d.brief_report();
+      if (d.shocks_found > 0) {
+        const auto listed = std::count_if(r.summary.shocks.begin(), r.summary.shocks.end(),
+                                          [&id](const io::ShockRecord& s) { return s.element == id; });
+        std::cout << " (" << listed << " with a jump of at least a tenth of the reach's peak, "
+                  << "listed under Shocks)";
+      }
+      std::cout << "\n";
+    }
     char imbalance[32];
     std::snprintf(imbalance, sizeof imbalance, "%.1e", r.numerics.worst_relative_imbalance);
     std::cout << "Numerics: " << r.numerics.coupling_steps << " coupling steps, largest volume "

@@ -167,6 +167,38 @@ std::filesystem::path run_folder(const RunRequest& request) {
   return request.out_dir / (request.scenario_id.empty() ? "base" : request.scenario_id);
 }
 
+std::vector<std::filesystem::path> planned_output_files(const Study& study,
+                                                        const RunRequest& request) {
+  const std::filesystem::path folder = run_folder(request);
+  const std::string& storm = request.storm_id;
+  std::vector<std::filesystem::path> files;
+  for (const char* part : {"_summary_stations.csv", "_summary_pairs.csv", "_summary_checks.csv",
+                           "_summary.json"}) {
+    files.push_back(folder / (storm + part));
+  }
+  for (const auto& id : request.export_stations) {
+    files.push_back(folder / (storm + "_" + id + "_hydrograph.csv"));
+  }
+  bool channel = false, subcatchment = false;
+  for (const auto& s : study.stations()) (s.kind == "subcatchment" ? subcatchment : channel) = true;
+  if (channel) files.push_back(folder / (storm + ".nc"));
+  if (subcatchment) files.push_back(folder / (storm + "_subcatchments.nc"));
+  if (!request.profile_reaches.empty()) files.push_back(folder / (storm + "_profiles.nc"));
+  return files;
+}
+
+void check_outputs_free(const Study& study, const RunRequest& request) {
+  if (request.overwrite == Overwrite::yes) return;
+  for (const auto& path : planned_output_files(study, request)) {
+    std::error_code ec;
+    if (std::filesystem::exists(path, ec)) {
+      throw IoError("output file '" + path.string() +
+                    "' already exists; refusing to overwrite it (on the command line: "
+                    "--overwrite)");
+    }
+  }
+}
+
 namespace {
 
 // Inflow against outflow of every element fed by exactly one other station. Subcatchment
@@ -279,7 +311,7 @@ void add_warnings(const network::Model& model,
       summary.wave_numbers.push_back(
           {model.links[i].id, tp_s, a.kinematic_number, a.diffusion_number});
       if (!a.kinematic_ok) {
-        const auto number = [](double x) { return format_fixed(x, x < 10.0 ? 2 : 0); };
+        const auto number = [](double x) { return format_fixed(x, x < 10.0 ? 2 : 1); };
         std::string message =
             "time-of-rise number t_r S0 u0/d0 = " + number(a.kinematic_number) +
             " < 85 (Ponce, Li & Simons 1978; Ponce 1989): the kinematic wave may misstate "
@@ -578,8 +610,11 @@ std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
 RunOutcome run_study(const Study& study,
                      const RunRequest& req,
                      const network::ProgressFn& progress) {
+  check_outputs_free(study, req);
   network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
   const std::vector<StationDescription> stations = study.stations();
+  const std::vector<std::size_t> exported = export_indices(req, stations);
+  if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
   const std::filesystem::path folder = run_folder(req);
   std::error_code ec;
   std::filesystem::create_directories(folder, ec);
@@ -588,8 +623,6 @@ RunOutcome run_study(const Study& study,
   StudySink sink(stations, model);
   RunFiles files;
   open_run_files(study, req, model, stations, folder, sink, files);
-  const std::vector<std::size_t> exported = export_indices(req, stations);
-  if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
   for (std::size_t i : exported) sink.keep_series(i);
 
   const StudySettings& set = study.settings();

@@ -5,9 +5,12 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
+#include <filesystem>
 #include <string>
 
+#include "freshet/core/error.hpp"
 #include "temp_dir.hpp"
 
 namespace freshet::io {
@@ -139,6 +142,42 @@ TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
       "ponding = { bottom = 10.0, area = 4000.0 }\n"
       "[[outlet]]\nid = \"out\"\n");
   EXPECT_TRUE(has_warning(r, "r1", "backwater"));
+}
+
+// The planned file list is exactly what a run writes, so an existing result can be refused
+// before any routing; without --overwrite a second run stops at once and leaves the first
+// run's files untouched.
+TEST(RunOutputs, PlannedFilesAreWrittenAndAnExistingResultStopsTheRunFirst) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1.0\n60,3.0\n120,1.0\n");
+  write_text(dir / "b.toml", head(2.0) +
+      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n");
+  const Study study = Study::load(dir / "b.toml");
+  RunRequest req;
+  req.storm_id = "s1";
+  req.out_dir = dir / "out";
+  req.source = "freshet test";
+  req.export_stations = {"out"};
+  req.profile_reaches = {"r1"};
+  const RunOutcome first = run_study(study, req);
+  auto planned = planned_output_files(study, req);
+  auto written = first.files;
+  std::sort(planned.begin(), planned.end());
+  std::sort(written.begin(), written.end());
+  EXPECT_EQ(planned, written);
+
+  const auto stamp = std::filesystem::last_write_time(dir / "out" / "base" / "s1.nc");
+  EXPECT_THROW((void)run_study(study, req), IoError);
+  EXPECT_EQ(std::filesystem::last_write_time(dir / "out" / "base" / "s1.nc"), stamp);
+  std::size_t partial = 0;
+  for (const auto& e : std::filesystem::directory_iterator(dir / "out" / "base")) {
+    partial += e.path().filename().string().find("partial") != std::string::npos;
+  }
+  EXPECT_EQ(partial, 0u) << "no temporary file is left behind";
+
+  req.overwrite = Overwrite::yes;
+  EXPECT_NO_THROW(check_outputs_free(study, req));
 }
 
 }  // namespace

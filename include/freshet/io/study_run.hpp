@@ -73,4 +73,14 @@ RunOutcome run_study(const Study& study, const RunRequest& request,
 // The output folder of one run: out_dir/<scenario id, or "base">.
 std::filesystem::path run_folder(const RunRequest& request);
 
+// Every file run_study would write for this request, under its final name (NetCDF series,
+// summaries, hydrograph exports), in the order it writes them.
+std::vector<std::filesystem::path> planned_output_files(const Study& study,
+                                                        const RunRequest& request);
+
+// Throws IoError naming the first planned file that already exists, unless the request
+// allows overwriting. run_study calls it before routing; a batch can call it for all of its
+// requests before starting any.
+void check_outputs_free(const Study& study, const RunRequest& request);
+
 }  // namespace freshet::io
