@@ -10,6 +10,21 @@ namespace freshet::io {
 
 namespace {
 
+// Volume between two times: the series' integral, or differences of a cumulative volume.
+class Volumes {
+ public:
+  Volumes(const PiecewiseLinearSeries& series, const PiecewiseLinearSeries* cumulative)
+      : series_(series), cumulative_(cumulative) {}
+  [[nodiscard]] double between(double a_s, double b_s) const {
+    return cumulative_ ? cumulative_->value_at(b_s) - cumulative_->value_at(a_s)
+                       : series_.integral(a_s, b_s);
+  }
+
+ private:
+  const PiecewiseLinearSeries& series_;
+  const PiecewiseLinearSeries* cumulative_;
+};
+
 std::vector<double> node_times(double t_start_s, double dt_s, std::size_t n) {
   std::vector<double> t(n + 1);
   for (std::size_t k = 0; k <= n; ++k) t[k] = t_start_s + static_cast<double>(k) * dt_s;
@@ -21,7 +36,7 @@ std::vector<double> node_times(double t_start_s, double dt_s, std::size_t n) {
 //   minimise sum_k (p_k + (-1)^k c - q_k)^2  =>  c = -mean_k((-1)^k (p_k - q_k)),
 // clamped to the range that keeps every value non-negative: c >= -p_k (k even), c <= p_k (k odd).
 // Returns an empty vector when that range is empty.
-std::vector<double> interval_volume_values(const PiecewiseLinearSeries& s,
+std::vector<double> interval_volume_values(const PiecewiseLinearSeries& s, const Volumes& v,
                                            const std::vector<double>& t) {
   const std::size_t n = t.size() - 1;
   std::vector<double> q(n + 1);
@@ -30,7 +45,7 @@ std::vector<double> interval_volume_values(const PiecewiseLinearSeries& s,
   p[0] = q[0];
   double largest = std::abs(q[0]);
   for (std::size_t k = 0; k < n; ++k) {
-    p[k + 1] = 2.0 * s.integral(t[k], t[k + 1]) / (t[k + 1] - t[k]) - p[k];
+    p[k + 1] = 2.0 * v.between(t[k], t[k + 1]) / (t[k + 1] - t[k]) - p[k];
     largest = std::max(largest, std::abs(p[k + 1]));
   }
   double sum = 0.0;
@@ -47,14 +62,42 @@ std::vector<double> interval_volume_values(const PiecewiseLinearSeries& s,
   return p;
 }
 
-std::vector<double> scaled_sample_values(const PiecewiseLinearSeries& s,
+// Each node takes half of the volume its two intervals miss, per unit time; the end nodes take
+// all of their one interval's. Sum over nodes of the trapezoid weights times the corrections
+// is sum_k e_k, so the total volume is exact. Empty when a value would be negative.
+std::vector<double> locally_corrected_values(const PiecewiseLinearSeries& s, const Volumes& v,
+                                             const std::vector<double>& t) {
+  const std::size_t n = t.size() - 1;
+  std::vector<double> q(n + 1), missed(n);
+  for (std::size_t k = 0; k <= n; ++k) q[k] = s.value_at(t[k]);
+  for (std::size_t k = 0; k < n; ++k) {
+    const double dt = t[k + 1] - t[k];
+    missed[k] = v.between(t[k], t[k + 1]) - 0.5 * (q[k] + q[k + 1]) * dt;
+  }
+  std::vector<double> out(n + 1);
+  double largest = 0.0;
+  for (std::size_t k = 0; k <= n; ++k) {
+    const double left = k > 0 ? missed[k - 1] / (t[k] - t[k - 1]) : 0.0;
+    const double right = k < n ? missed[k] / (t[k + 1] - t[k]) : 0.0;
+    const double weight = (k == 0 || k == n) ? 1.0 : 0.5;
+    out[k] = q[k] + weight * (left + right);
+    largest = std::max(largest, std::abs(q[k]));
+  }
+  for (double& value : out) {
+    if (value < -1e-12 * largest) return {};
+    value = std::max(value, 0.0);
+  }
+  return out;
+}
+
+std::vector<double> scaled_sample_values(const PiecewiseLinearSeries& s, const Volumes& v,
                                          const std::vector<double>& t) {
   const std::size_t n = t.size() - 1;
   std::vector<double> q(n + 1);
   double trapezoid = 0.0;
   for (std::size_t k = 0; k <= n; ++k) q[k] = s.value_at(t[k]);
   for (std::size_t k = 0; k < n; ++k) trapezoid += 0.5 * (q[k] + q[k + 1]) * (t[k + 1] - t[k]);
-  const double volume = s.integral(t.front(), t.back());
+  const double volume = v.between(t.front(), t.back());
   if (trapezoid == 0.0) {
     if (volume != 0.0) {
       throw InputError(Problem{"", 0, 0, "resampled series", "dt_s",
@@ -64,24 +107,28 @@ std::vector<double> scaled_sample_values(const PiecewiseLinearSeries& s,
     return q;
   }
   const double scale = volume / trapezoid;
-  for (double& v : q) v *= scale;
+  for (double& value : q) value *= scale;
   return q;
 }
 
 }  // namespace
 
-PiecewiseLinearSeries resample_preserving_volume(const PiecewiseLinearSeries& series,
-                                                 double t_start_s, double dt_s,
-                                                 std::size_t n_intervals, ResampleMethod method) {
+PiecewiseLinearSeries resample_preserving_volume(
+    const PiecewiseLinearSeries& series, double t_start_s, double dt_s, std::size_t n_intervals,
+    ResampleMethod method, const PiecewiseLinearSeries* cumulative_volume) {
   FRESHET_ASSERT(dt_s > 0.0 && n_intervals >= 1 && !series.empty(),
                  "resample needs dt > 0, at least one interval and a non-empty series");
   const std::vector<double> t = node_times(t_start_s, dt_s, n_intervals);
-  std::vector<double> values = method == ResampleMethod::interval_volumes
-                                   ? interval_volume_values(series, t)
-                                   : scaled_sample_values(series, t);
+  const Volumes v(series, cumulative_volume);
+  std::vector<double> values;
+  switch (method) {
+    case ResampleMethod::interval_volumes: values = interval_volume_values(series, v, t); break;
+    case ResampleMethod::local_correction: values = locally_corrected_values(series, v, t); break;
+    case ResampleMethod::scaled_samples: values = scaled_sample_values(series, v, t); break;
+  }
   if (values.empty()) {
     throw InputError(Problem{"", 0, 0, "resampled series", "dt_s",
-                             "= " + format_value(dt_s) + ": keeping every interval's volume would "
+                             "= " + format_value(dt_s) + ": keeping the volume this way would "
                              "need negative values (a feature shorter than the interval); choose "
                              "a shorter interval or the scaled-samples method"});
   }

@@ -54,9 +54,10 @@ class StudySink final : public network::RecordSink {
   [[nodiscard]] bool observes_every_step() const override { return true; }
   void observe(double time_s, std::span<const StationSample> samples) override {
     watch_.observe(time_s, samples);
-    for (auto& [i, series] : exports_) {
-      series.first.push_back(time_s);
-      series.second.push_back(samples[i].discharge_m3s);
+    for (auto& [i, kept] : exports_) {
+      kept.times_s.push_back(time_s);
+      kept.discharge_m3s.push_back(samples[i].discharge_m3s);
+      kept.volume_m3.push_back(samples[i].outflow_volume_m3);
     }
     for (std::size_t i = 0; i < samples.size(); ++i) {
       const StationSample& s = samples[i];
@@ -72,11 +73,16 @@ class StudySink final : public network::RecordSink {
   [[nodiscard]] const detail::RunWatch& watch() const { return watch_; }
   [[nodiscard]] const std::vector<std::size_t>& channel_index() const { return channel_index_; }
   [[nodiscard]] const std::vector<std::size_t>& sub_index() const { return sub_index_; }
-  // Keeps the full discharge series of station i (every coupling step) for export.
+  // Keeps the full discharge series of station i (every coupling step) for export, with the
+  // volume that has left it so far (exact, from its ledger).
   void keep_series(std::size_t i) { exports_[i]; }
   [[nodiscard]] PiecewiseLinearSeries series(std::size_t i, const std::string& what) const {
-    const auto& [t, q] = exports_.at(i);
-    return PiecewiseLinearSeries(t, q, what);
+    const KeptSeries& k = exports_.at(i);
+    return PiecewiseLinearSeries(k.times_s, k.discharge_m3s, what);
+  }
+  [[nodiscard]] PiecewiseLinearSeries volume_series(std::size_t i, const std::string& what) const {
+    const KeptSeries& k = exports_.at(i);
+    return PiecewiseLinearSeries(k.times_s, k.volume_m3, what);
   }
 
  private:
@@ -114,7 +120,10 @@ class StudySink final : public network::RecordSink {
   std::vector<std::size_t> sub_index_;
   std::vector<double> row_;
   detail::RunWatch watch_;
-  std::map<std::size_t, std::pair<std::vector<double>, std::vector<double>>> exports_;
+  struct KeptSeries {
+    std::vector<double> times_s, discharge_m3s, volume_m3;
+  };
+  std::map<std::size_t, KeptSeries> exports_;
 };
 
 std::string now_iso() {
@@ -467,17 +476,33 @@ std::filesystem::path write_export(const Study& study,
   const StudySettings& set = study.settings();
   const auto [dt_s, n] = export_grid(study, req);
   const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
-  // Each interval keeps its own volume where that needs no negative discharge; otherwise one
-  // factor scales the samples so that the total volume is kept (io/series_resample.hpp).
-  std::string method = "each interval's volume kept (interval volumes)";
+  const PiecewiseLinearSeries volume = sink.volume_series(i, "station '" + station.id + "'");
+  // Each interval keeps its own volume where that needs no negative discharge; otherwise the
+  // samples are corrected locally by the volume their intervals miss (base flow untouched);
+  // failing that, one factor scales them. The total volume is kept in every case
+  // (io/series_resample.hpp).
+  struct Attempt {
+    ResampleMethod method;
+    const char* label;
+  };
+  const Attempt attempts[] = {
+      {ResampleMethod::interval_volumes, "each interval's volume kept (interval volumes)"},
+      {ResampleMethod::local_correction,
+       "total volume kept by correcting each sample with the volume its two intervals miss "
+       "(interval volumes would need negative discharge)"},
+      {ResampleMethod::scaled_samples,
+       "total volume kept by scaling the samples (other volume-keeping forms would need "
+       "negative discharge)"}};
   std::optional<PiecewiseLinearSeries> r;
-  try {
-    r = resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::interval_volumes);
-  } catch (const InputError&) {
-    r = resample_preserving_volume(q, 0.0, dt_s, n, ResampleMethod::scaled_samples);
-    method =
-        "total volume kept by scaling the samples (interval volumes would need negative "
-        "discharge)";
+  std::string method;
+  for (const Attempt& a : attempts) {
+    try {
+      r = resample_preserving_volume(q, 0.0, dt_s, n, a.method, &volume);
+      method = a.label;
+      break;
+    } catch (const InputError&) {
+      if (a.method == ResampleMethod::scaled_samples) throw;
+    }
   }
   SeriesTable table;
   table.quantity = SeriesQuantity::discharge;

@@ -62,7 +62,10 @@ void prime(Model& model) {
 }
 
 void take_samples(const Model& model, std::vector<StationSample>& samples) {
-  for (std::size_t i = 0; i < model.elements.size(); ++i) samples[i] = model.elements[i]->sample();
+  for (std::size_t i = 0; i < model.elements.size(); ++i) {
+    samples[i] = model.elements[i]->sample();
+    samples[i].outflow_volume_m3 = model.elements[i]->ledger().outflow_m3;
+  }
 }
 
 void emit(const Model& model, double t_s, std::vector<StationSample>& samples, RecordSink& sink) {

@@ -85,6 +85,48 @@ TEST(Resample, SpikeOnANodeSpreadsOverTheTwoAdjacentIntervals) {
   EXPECT_LT(relative(s.integral(0.0, 7200.0), 300.0), 1e-12);
 }
 
+// Local correction on the triangle on base flow (a 10-minute grid misses the peak at 47 min):
+// the total volume is the triangle plus the base-flow rectangle, the base flow before the
+// rise and after the recession is left exactly as it was, and the samples around the peak
+// are raised towards it (plain sampling would read the peak at 40 or 50 min).
+TEST(Resample, LocalCorrectionKeepsVolumeAndBaseFlowAndRaisesAnOffGridPeak) {
+  const auto q = triangle_on_base_flow();
+  const double dt = 600.0;
+  const std::size_t n = 24;  // 4 h
+  const auto r = resample_preserving_volume(q, 0.0, dt, n, ResampleMethod::local_correction);
+  const double exact = 0.5 * 11580.0 * 12.0 + 1.5 * 14400.0;
+  EXPECT_LT(relative(r.integral(0.0, static_cast<double>(n) * dt), exact), 1e-12);
+  // Linear between nodes on [0, 2400] and [12000, 14400]: untouched (0 and the last nodes).
+  for (std::size_t k : {0u, 1u, 2u, 3u, 21u, 22u, 23u, 24u}) {
+    EXPECT_NEAR(r.values()[k], q.value_at(r.times_s()[k]), 1e-12) << "node " << k;
+  }
+  double sampled_peak = 0.0, corrected_peak = 0.0;
+  for (std::size_t k = 0; k <= n; ++k) {
+    sampled_peak = std::max(sampled_peak, q.value_at(r.times_s()[k]));
+    corrected_peak = std::max(corrected_peak, r.values()[k]);
+  }
+  EXPECT_GT(corrected_peak, sampled_peak);
+  EXPECT_LT(corrected_peak, 13.5);
+}
+
+TEST(Resample, LocalCorrectionRefusesToGoNegative) {
+  // A 2-minute spike inside one 30-minute interval between zero flows: the nodes around it are
+  // raised to carry its 300 m3, nothing goes negative.
+  const PiecewiseLinearSeries inside({0.0, 2400.0, 2460.0, 2520.0, 7200.0},
+                                     {0.0, 0.0, 5.0, 0.0, 0.0});
+  const auto r = resample_preserving_volume(inside, 0.0, 1800.0, 4,
+                                            ResampleMethod::local_correction);
+  EXPECT_LT(relative(r.integral(0.0, 7200.0), 300.0), 1e-12);
+  for (double v : r.values()) EXPECT_GE(v, 0.0);
+  // The same spike centred on a node: the samples count it as a 3600 s wide triangle (9000 m3
+  // instead of 300 m3), and taking the excess back would drive the zero neighbours negative.
+  const PiecewiseLinearSeries on_node({0.0, 3540.0, 3600.0, 3660.0, 7200.0},
+                                      {0.0, 0.0, 5.0, 0.0, 0.0});
+  EXPECT_THROW((void)resample_preserving_volume(on_node, 0.0, 1800.0, 4,
+                                                ResampleMethod::local_correction),
+               InputError);
+}
+
 TEST(Resample, VolumeSurvivesWritingAndReadingCsv) {
   const auto q = triangle_on_base_flow();
   const auto r = resample_preserving_volume(q, 0.0, 300.0, 40, ResampleMethod::interval_volumes);

@@ -14,8 +14,15 @@
 //    the interval between zero flows; or zero flow at both ends with off-grid breakpoints,
 //    which pins the mode twice), the function throws InputError rather than write a negative
 //    discharge: choose a shorter dt, or scaled_samples.
+//  * ResampleMethod::local_correction: Q_k = q(t_k) + (e_{k-1} + e_k) / (2 dt), where
+//    e_k = V_k - (q(t_k) + q(t_{k+1})) dt / 2 is interval k's volume missed by the sampled
+//    points (at the two ends the one adjacent interval's e / dt). The total volume is kept
+//    exactly; where the original is linear between nodes (steady flow, straight limbs)
+//    nothing changes; under a peak that falls between nodes the samples are raised towards
+//    it. Throws InputError when a corrected value would be negative.
 //  * ResampleMethod::scaled_samples: Q_k = s q(t_k), with one factor s making the trapezoid
-//    volume equal the original volume. Never negative; per-interval volumes are approximate.
+//    volume equal the original volume. Never negative; per-interval volumes are approximate,
+//    and every value, base flow included, is scaled.
 //
 //   auto out = resample_preserving_volume(q, 0.0, 300.0, 72, ResampleMethod::interval_volumes);
 //   // out.values(): 73 samples, 5-minute interval, same 6-hour volume as q.
@@ -27,13 +34,17 @@
 
 namespace freshet::io {
 
-enum class ResampleMethod { interval_volumes, scaled_samples };
+enum class ResampleMethod { interval_volumes, local_correction, scaled_samples };
 
-// Precondition: dt_s > 0, n_intervals >= 1. Throws InputError when the interval-volume solution
-// would be negative (see above) or when scaled_samples meets a zero sample sum with a non-zero
-// volume.
-PiecewiseLinearSeries resample_preserving_volume(const PiecewiseLinearSeries& series,
-                                                 double t_start_s, double dt_s,
-                                                 std::size_t n_intervals, ResampleMethod method);
+// Precondition: dt_s > 0, n_intervals >= 1. Throws InputError when the interval-volume or
+// locally corrected solution would be negative (see above) or when scaled_samples meets a zero
+// sample sum with a non-zero volume.
+// `cumulative_volume`, when given, is the volume passed since some origin (m3 for a
+// discharge) at the series' own times; volumes between nodes are then its differences
+// instead of the integral of `series` (for instantaneous samples of a flow whose volumes are
+// known exactly, from a ledger).
+PiecewiseLinearSeries resample_preserving_volume(
+    const PiecewiseLinearSeries& series, double t_start_s, double dt_s, std::size_t n_intervals,
+    ResampleMethod method, const PiecewiseLinearSeries* cumulative_volume = nullptr);
 
 }  // namespace freshet::io

@@ -26,6 +26,9 @@ struct StationSample {
   double velocity_m_s = kNoValue;   // mean velocity Q/A where defined
   double rain_m_s = kNoValue;       // subcatchments: rainfall intensity
   double excess_m_s = kNoValue;     // subcatchments: rainfall excess (runoff-producing) rate
+  // Volume that has left the element since the run started (its ledger's outflow), filled in
+  // by the driver: differences give exact volumes between samples.
+  double outflow_volume_m3 = kNoValue;
 };
 
 // Every element keeps the shared freshet::VolumeLedger (core/volume_ledger.hpp).
