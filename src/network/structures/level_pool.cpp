@@ -19,6 +19,17 @@ LevelPool::LevelPool(std::string name, StageStorage storage, StageDischarge outf
   p.require(options_.max_halvings >= 0, "max_halvings", options_.max_halvings, "must be >= 0");
   if (!outflow_) p.add("outflow", "is empty: a level pool needs an outlet relation");
   p.throw_if_any();
+  // An empty pool cannot discharge: an outlet below the storage relation's lowest stage would
+  // report outflow from no water (and start the elements below with flow that never fell).
+  const double bottom = storage_.bottom_stage_m();
+  const double empty_outflow_m3s = outflow_(bottom);
+  if (!(empty_outflow_m3s == 0.0)) {
+    p.add("outflow", "= " + format_value(empty_outflow_m3s) + " m3/s at the storage relation's "
+                     "lowest stage " + format_value(bottom) + " m: an outlet lies below the "
+                     "empty pool; extend the storage relation down to the lowest outlet "
+                     "(storage 0 there)");
+    p.throw_if_any();
+  }
   reset(0.0, storage_.bottom_stage_m());
 }
 

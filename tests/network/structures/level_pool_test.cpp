@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <string>
 #include <vector>
 #include <cstdio>
 #include <gtest/gtest.h>
@@ -239,6 +240,18 @@ TEST(LevelPool, ClipsAtEmptyInsteadOfGoingNegative) {
   EXPECT_EQ(pool.state().storage_m3, 0.0);
   EXPECT_NEAR(s.outflow_volume_m3, 5.0, 1e-12);
   EXPECT_NEAR(pool.ledger().balance_error_m3(), 0.0, 1e-12);
+}
+
+// An outlet below the storage relation's lowest stage would discharge from an empty pool.
+TEST(LevelPool, RejectsAnOutletBelowTheEmptyPool) {
+  const auto leaky = [](double h) { return 0.5 + std::max(0.0, h - 10.0); };  // 0.5 at the floor
+  try {
+    LevelPool pool("basin 'north-lea'", StageStorage::prismatic(10.0, 500.0, 0.0, "nl"), leaky);
+    FAIL() << "accepted an outlet below the pool floor";
+  } catch (const InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("basin 'north-lea'"), std::string::npos) << e.what();
+    EXPECT_NE(std::string(e.what()).find("below the empty pool"), std::string::npos) << e.what();
+  }
 }
 
 TEST(LevelPool, RejectsNegativeInflowAndBadOptions) {
