@@ -48,7 +48,10 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
           << cell(k == 0 ? "" : signed_number(p.peak_discharge_m3s - b.peak_discharge_m3s, 3), 9,
                   true)
           << cell(clock_hm(p.peak_time_s), 8, true) << cell(number(p.peak_stage_m, 2), 13, true)
-          << cell(k == 0 ? "" : signed_number(p.peak_stage_m - b.peak_stage_m, 2), 9, true)
+          << cell(k == 0                                            ? ""
+                  : p.stage_is_elevation == b.stage_is_elevation ? signed_number(p.peak_stage_m - b.peak_stage_m, 2)
+                                                                 : "datum",
+                  9, true)
           << cell(number(p.volume_m3, 0), 12, true)
           << cell(p.overtopping.empty() ? "" : p.overtopping, 13, true) << "\n";
     }

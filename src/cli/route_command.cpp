@@ -66,7 +66,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
               << "imbalance of any element " << imbalance << " of its volume, wall time "
               << number(r.numerics.wall_time_s, 2) << " s\n\n";
   }
-  if (runs.size() > 1) std::cout << format_critical_storms(runs, study.stations()) << "\n";
+  if (runs.size() > 1) std::cout << format_critical_storms(runs, study.stations(a.scenario)) << "\n";
   std::cout << "Outputs:\n";
   for (const auto& r : runs) {
     for (const auto& f : r.files) std::cout << "  " << f.string() << "\n";

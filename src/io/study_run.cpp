@@ -189,7 +189,9 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
     files.push_back(folder / (storm + "_" + id + "_hydrograph.csv"));
   }
   bool channel = false, subcatchment = false;
-  for (const auto& s : study.stations()) (s.kind == "subcatchment" ? subcatchment : channel) = true;
+  for (const auto& s : study.stations(request.scenario_id)) {
+    (s.kind == "subcatchment" ? subcatchment : channel) = true;
+  }
   if (channel) files.push_back(folder / (storm + ".nc"));
   if (subcatchment) files.push_back(folder / (storm + "_subcatchments.nc"));
   if (!request.profile_reaches.empty()) files.push_back(folder / (storm + "_profiles.nc"));
@@ -534,6 +536,7 @@ std::vector<StationPeak> station_peaks(const network::Model& model,
                   st.peak_discharge_m3s,
                   st.peak_time_s,
                   st.peak_stage_m,
+                  stations[i].stage_is_elevation,
                   st.runoff_volume_m3,
                   "",
                   kNotApplicable};
@@ -637,7 +640,7 @@ RunOutcome run_study(const Study& study,
                      const network::ProgressFn& progress) {
   check_outputs_free(study, req);
   network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
-  const std::vector<StationDescription> stations = study.stations();
+  const std::vector<StationDescription> stations = study.stations(req.scenario_id);
   const std::vector<std::size_t> exported = export_indices(req, stations);
   if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
   const std::filesystem::path folder = run_folder(req);

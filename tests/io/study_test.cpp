@@ -412,6 +412,32 @@ slope = -0.5
                        {"reach 'r1', field 'slope' = -0.5: must be > 0"}));
 }
 
+// A scenario may rename an element or give it a datum; its runs must describe their stations
+// (names, whether stage is an elevation) as the scenario has them, not as the base does.
+TEST(StudyLoad, ScenarioStationsCarryTheScenariosNamesAndDatum) {
+  Fixture f(kHead + kGoodNetwork + R"(
+[[scenario]]
+id = "surveyed"
+[scenario.change.r1]
+name = "Reach 1, surveyed"
+outlet_invert = 52.0
+)");
+  const Study study = Study::load(f.basin);
+  const auto find = [](const std::vector<StationDescription>& list, const std::string& id) {
+    for (const auto& s : list) {
+      if (s.id == id) return s;
+    }
+    throw std::runtime_error("no station " + id);
+  };
+  const StationDescription base = find(study.stations(), "r1");
+  const StationDescription surveyed = find(study.stations("surveyed"), "r1");
+  EXPECT_FALSE(base.stage_is_elevation);
+  EXPECT_TRUE(surveyed.stage_is_elevation);
+  EXPECT_EQ(surveyed.name, "Reach 1, surveyed");
+  EXPECT_NE(base.name, surveyed.name);
+  EXPECT_THROW((void)study.stations("nosuch"), InputError);
+}
+
 TEST(StudyLoad, UnknownStormOrScenarioIdAsked) {
   Fixture f(kHead + kGoodNetwork);
   const Study study = Study::load(f.basin);

@@ -70,8 +70,9 @@ class Study {
   [[nodiscard]] const std::vector<ScenarioDefinition>& scenarios() const noexcept;
   [[nodiscard]] const StormDefinition& storm(std::string_view id) const;  // InputError if unknown
   [[nodiscard]] const ScenarioDefinition& scenario(std::string_view id) const;  // likewise
-  // Stations of the base network, in model order (one per element).
-  [[nodiscard]] std::vector<StationDescription> stations() const;
+  // Stations of the base network (scenario_id empty) or of a scenario, in model order (one per
+  // element). A scenario may rename an element or give it a datum. InputError if unknown.
+  [[nodiscard]] std::vector<StationDescription> stations(std::string_view scenario_id = {}) const;
 
   // A fresh model of the base network (scenario_id empty) or of a scenario, with every
   // subcatchment receiving `storm`. Throws InputError for an unknown scenario.

@@ -46,6 +46,7 @@ struct StationPeak {
   double peak_discharge_m3s = kNotApplicable;
   double peak_time_s = kNotApplicable;
   double peak_stage_m = kNotApplicable;
+  bool stage_is_elevation = false;  // peak_stage_m is an elevation (else a depth)
   double volume_m3 = kNotApplicable;
   // Culvert crossings: whether and how long the road overtopped, e.g. "55 min" or "no";
   // empty for other elements.

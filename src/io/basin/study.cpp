@@ -27,7 +27,8 @@ struct Study::Impl {
   std::vector<ScenarioDefinition> scenarios;
   // scenario id -> its [scenario.change] table, inside `root` (toml++ copies lose positions)
   std::map<std::string, const toml::table*, std::less<>> changes;
-  std::vector<StationDescription> stations;
+  std::vector<StationDescription> stations;  // the base network's
+  std::map<std::string, std::vector<StationDescription>, std::less<>> scenario_stations;
   std::unique_ptr<detail::CrossingCache> crossings = std::make_unique<detail::CrossingCache>();
 
   void read_settings(FieldReader& r, std::vector<Problem>& problems);
@@ -330,7 +331,9 @@ Study Study::load(const std::filesystem::path& basin_file) {
   const std::size_t before = problems.size();
   impl->build("", rain, problems, &impl->stations);
   if (problems.size() == before) {  // scenarios only add news when the base is sound
-    for (const auto& s : impl->scenarios) impl->build(s.id, rain, problems);
+    for (const auto& s : impl->scenarios) {
+      impl->build(s.id, rain, problems, &impl->scenario_stations[s.id]);
+    }
   }
   if (!problems.empty()) throw InputError(std::move(problems));
   return Study(std::move(impl));
@@ -342,7 +345,11 @@ const std::vector<StormDefinition>& Study::storms() const noexcept { return impl
 const std::vector<ScenarioDefinition>& Study::scenarios() const noexcept {
   return impl_->scenarios;
 }
-std::vector<StationDescription> Study::stations() const { return impl_->stations; }
+std::vector<StationDescription> Study::stations(std::string_view scenario_id) const {
+  if (scenario_id.empty()) return impl_->stations;
+  (void)scenario(scenario_id);  // InputError if unknown
+  return impl_->scenario_stations.find(scenario_id)->second;
+}
 
 const StormDefinition& Study::storm(std::string_view id) const {
   for (const auto& s : impl_->storms) {
