@@ -57,6 +57,15 @@ void FieldReader::report(std::string_view key, std::string message) {
   problems_.push_back(make(find(key), key, std::move(message)));
 }
 
+void FieldReader::report_item(std::string_view key, std::size_t index, std::string message) {
+  const toml::node* node = find(key);
+  const toml::array* arr = node ? node->as_array() : nullptr;
+  const toml::node* item = arr && index < arr->size() ? arr->get(index) : nullptr;
+  problems_.push_back(make(item ? item : node,
+                           std::string(key) + "[" + std::to_string(index + 1) + "]",
+                           std::move(message)));
+}
+
 void FieldReader::report_here(std::string message) {
   problems_.push_back(make(nullptr, "", std::move(message)));
 }
@@ -219,6 +228,13 @@ const toml::array* FieldReader::optional_array(std::string_view key) {
   if (!node) return nullptr;
   if (!node->is_array()) problems_.push_back(make(node, key, "must be an array"));
   return node->as_array();
+}
+
+void FieldReader::consume_all() {
+  for (const toml::table* t : {&table_, override_}) {
+    if (!t) continue;
+    for (const auto& [key, node] : *t) read_.emplace(key.str());
+  }
 }
 
 void FieldReader::finish() {

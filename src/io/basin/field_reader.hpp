@@ -50,8 +50,13 @@ class FieldReader {
   const toml::node* optional_node(std::string_view key);
 
   void report(std::string_view key, std::string message);  // problem located at `key`
+  // Problem located at item `index` (0-based) of the array `key`, named "key[index + 1]".
+  void report_item(std::string_view key, std::size_t index, std::string message);
   void report_here(std::string message);                   // problem located at the table
   void finish();  // reports every key that was never read
+  // Marks every key as read: for a table whose reading stopped early (an unknown method, an
+  // error thrown while building), whose remaining keys cannot be judged.
+  void consume_all();
 
   [[nodiscard]] bool has(std::string_view key) const { return find(key) != nullptr; }
   [[nodiscard]] const std::string& file() const { return file_; }

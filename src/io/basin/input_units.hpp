@@ -37,7 +37,15 @@ struct InputUnits {
   [[nodiscard]] double weir_coefficient_si(double v) const {
     return us() ? v * std::sqrt(units::kMetresPerFoot) : v;
   }
+  // Back to the file's units, for messages about derived quantities.
+  [[nodiscard]] double length_in_file(double m) const { return m / length_m(1.0); }
+  [[nodiscard]] double discharge_in_file(double m3s) const { return m3s / discharge_m3s(1.0); }
+  // Unit labels, for messages quoting a value as the file gives it.
   [[nodiscard]] const char* length_unit() const { return us() ? "ft" : "m"; }
+  [[nodiscard]] const char* depth_unit() const { return us() ? "in" : "mm"; }
+  [[nodiscard]] const char* rate_unit() const { return us() ? "in/h" : "mm/h"; }
+  [[nodiscard]] const char* volume_unit() const { return us() ? "acre-ft" : "m3"; }
+  [[nodiscard]] const char* discharge_unit() const { return us() ? "ft3/s" : "m3/s"; }
 };
 
 }  // namespace freshet::io::detail

@@ -118,8 +118,10 @@ template <class ReadFn>
 void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&& read) {
   const auto* id_node = table.get("id");
   const std::string id = id_node && id_node->is_string() ? id_node->value_or(std::string{}) : "";
-  const std::string label = std::string(network::to_string(kind)) + " '" + id + "'";
   const toml::table* changed = changes_ ? changes_->get_as<toml::table>(id) : nullptr;
+  // An element a scenario changes is named with the scenario: its problems are the scenario's.
+  const std::string label = (changed ? "scenario '" + cache_scope_ + "', " : std::string{}) +
+                            std::string(network::to_string(kind)) + " '" + id + "'";
   Reader r(table, file_, label, problems_, changed);
   network::Link link;
   link.id = r.text("id");
@@ -140,8 +142,10 @@ void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&&
     e = read(r, link.id);
   } catch (const InputError& error) {
     relocate(error, r, problems_);
+    r.consume_all();  // reading stopped here: the keys not yet read cannot be judged
   } catch (const IoError& error) {
     r.report_here(error.what());
+    r.consume_all();
   }
   r.finish();
   if (problems_.size() != before || !e) complete_ = false;
@@ -168,65 +172,137 @@ std::unique_ptr<network::Element> NetworkReader::read_inflow(Reader& r, const st
 
 namespace {
 
+// "= 0.5 in/h" style: a value quoted as the file gives it.
+std::string quoted(double value, const char* unit) {
+  return "= " + format_value(value) + (unit && *unit ? std::string(" ") + unit : "");
+}
+
+// A fraction in (0, 1) (porosities).
+double open_fraction(FieldReader& l, std::string_view key) {
+  const double v = l.positive(key);
+  if (std::isfinite(v) && v >= 1.0) l.report(key, quoted(v, "") + ": must be < 1");
+  return v;
+}
+
+// NRCS curve number. `curve_number_for_ratio` says for which lambda the CN was derived: 0.2
+// (the default: a tabulated TR-55 value), converted to the 0.05 basis by Hawkins et al.
+// (2002) when initial_abstraction_ratio = 0.05; or 0.05 (a CN already on that basis).
+hydrology::CurveNumberParameters read_curve_number(FieldReader& l) {
+  hydrology::CurveNumberParameters p;
+  p.curve_number = l.positive("curve_number");
+  if (p.curve_number <= 30.0 || p.curve_number > 100.0) {  // false when NaN (reported)
+    l.report("curve_number", quoted(p.curve_number, "") + ": must be in (30, 100]");
+  }
+  const auto ratio = l.optional_non_negative("initial_abstraction_ratio");
+  if (ratio && *ratio >= 1.0) {
+    l.report("initial_abstraction_ratio", quoted(*ratio, "") + ": must be in [0, 1)");
+  }
+  p.initial_abstraction_ratio = ratio.value_or(0.2);
+  const double basis = l.optional_number("curve_number_for_ratio").value_or(0.2);
+  if (std::isfinite(basis) && basis != 0.2 && basis != 0.05) {
+    l.report("curve_number_for_ratio",
+             quoted(basis, "") + ": must be 0.2 (a tabulated curve number) or 0.05 (a curve "
+                                 "number derived for initial_abstraction_ratio = 0.05)");
+  } else if (basis == 0.05 && p.initial_abstraction_ratio != 0.05) {
+    l.report("curve_number_for_ratio",
+             "= 0.05 needs initial_abstraction_ratio = 0.05 (found " +
+                 format_value(p.initial_abstraction_ratio) +
+                 "); freshet converts a curve number only from the 0.2 basis to 0.05");
+  }
+  p.convert_storage_for_ratio_0_05 = p.initial_abstraction_ratio == 0.05 && basis == 0.2;
+  return p;
+}
+
+hydrology::GreenAmptParameters read_green_ampt(FieldReader& l, const InputUnits& u) {
+  hydrology::GreenAmptParameters p;
+  p.hydraulic_conductivity_m_s = u.rate_m_s(l.positive("conductivity"));
+  p.suction_head_m = u.rain_depth_m(l.positive("suction_head"));
+  p.porosity = open_fraction(l, "porosity");
+  p.effective_porosity = open_fraction(l, "effective_porosity");
+  if (p.effective_porosity > p.porosity) {  // false when either is NaN
+    l.report("effective_porosity", quoted(p.effective_porosity, "") +
+                                       ": must not exceed porosity = " +
+                                       format_value(p.porosity));
+  }
+  p.initial_effective_saturation = l.non_negative("initial_saturation");
+  if (p.initial_effective_saturation >= 1.0) {
+    l.report("initial_saturation", quoted(p.initial_effective_saturation, "") +
+                                       ": must be < 1 (initial moisture below saturation)");
+  }
+  return p;
+}
+
+hydrology::HortonParameters read_horton(FieldReader& l, const InputUnits& u) {
+  const double f0 = l.non_negative("initial_rate");
+  const double fc = l.non_negative("final_rate");
+  if (f0 < fc) {  // false when either is NaN
+    l.report("initial_rate", quoted(f0, u.rate_unit()) + ": must be >= final_rate = " +
+                                 format_value(fc) + " " + u.rate_unit());
+  }
+  hydrology::HortonParameters p;
+  p.initial_capacity_m_s = u.rate_m_s(f0);
+  p.final_capacity_m_s = u.rate_m_s(fc);
+  p.decay_rate_per_s = l.positive("decay_per_h") / units::kSecondsPerHour;
+  return p;
+}
+
+// Ranges are checked here, under the file's own field names and units; the loss models
+// check the physics again when they are built (a safety net: their messages use SI names).
 std::unique_ptr<hydrology::LossModel> read_pervious_loss(FieldReader& l, const InputUnits& u,
                                                          const std::string& element) {
-  // Ranges are checked here, under the file's own field names and units; the loss models
-  // check the physics (CN range, porosities, f0 >= fc) again when they are built.
   const std::size_t before = l.problems().size();
   const std::string method =
       l.choice("method", {"curve-number", "green-ampt", "horton", "initial-continuing", "none"});
+  if (method.empty()) {
+    l.consume_all();  // without a method, its keys cannot be judged
+    return nullptr;
+  }
   if (method == "curve-number") {
-    hydrology::CurveNumberParameters p;
-    p.curve_number = l.positive("curve_number");
-    p.initial_abstraction_ratio =
-        l.optional_non_negative("initial_abstraction_ratio").value_or(0.2);
+    const auto p = read_curve_number(l);
     if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::CurveNumberLoss>(p, element);
   }
   if (method == "green-ampt") {
-    hydrology::GreenAmptParameters p;
-    p.hydraulic_conductivity_m_s = u.rate_m_s(l.positive("conductivity"));
-    p.suction_head_m = u.rain_depth_m(l.positive("suction_head"));
-    p.porosity = l.positive("porosity");
-    p.effective_porosity = l.positive("effective_porosity");
-    p.initial_effective_saturation = l.non_negative("initial_saturation");
+    const auto p = read_green_ampt(l, u);
     if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::GreenAmptLoss>(p, element);
   }
   if (method == "horton") {
-    hydrology::HortonParameters p;
-    p.initial_capacity_m_s = u.rate_m_s(l.non_negative("initial_rate"));
-    p.final_capacity_m_s = u.rate_m_s(l.non_negative("final_rate"));
-    p.decay_rate_per_s = l.positive("decay_per_h") / units::kSecondsPerHour;
+    const auto p = read_horton(l, u);
     if (l.problems().size() != before) return nullptr;
     return std::make_unique<hydrology::HortonLoss>(p, element);
   }
-  if (method == "initial-continuing" || method == "none") {
-    hydrology::InitialContinuingParameters p;
-    if (method == "initial-continuing") {
-      p.initial_loss_m = u.rain_depth_m(l.non_negative("initial_loss"));
-      p.continuing_loss_m_s = u.rate_m_s(l.non_negative("continuing_rate"));
-    }
-    if (l.problems().size() != before) return nullptr;
-    return std::make_unique<hydrology::InitialContinuingLoss>(p, element);
+  hydrology::InitialContinuingParameters p;
+  if (method == "initial-continuing") {
+    p.initial_loss_m = u.rain_depth_m(l.non_negative("initial_loss"));
+    p.continuing_loss_m_s = u.rate_m_s(l.non_negative("continuing_rate"));
   }
-  return nullptr;
+  if (l.problems().size() != before) return nullptr;
+  return std::make_unique<hydrology::InitialContinuingLoss>(p, element);
 }
+
+}  // namespace
 
 std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits& u,
                                                 const std::string& element) {
   auto pervious = read_pervious_loss(l, u, element);
   const auto fraction = l.optional_non_negative("impervious_fraction");
   const auto storage = l.optional_non_negative("impervious_storage");
-  if (!pervious) return nullptr;
-  if (!fraction && !storage) return pervious;
+  if (fraction && *fraction > 1.0) {
+    l.report("impervious_fraction", quoted(*fraction, "") + ": must be in [0, 1]");
+  }
+  if (storage && !fraction) {
+    l.report("impervious_storage",
+             quoted(*storage, u.depth_unit()) + ": has no effect without impervious_fraction "
+                                                "(give the impervious share, or remove this key)");
+  }
+  if (!pervious || (fraction && !(*fraction <= 1.0)) || (storage && !fraction)) return nullptr;
+  if (!fraction) return pervious;
   hydrology::ImperviousCover cover;
-  cover.fraction = fraction.value_or(0.0);
+  cover.fraction = *fraction;
   cover.depression_storage_m = u.rain_depth_m(storage.value_or(0.0));
   return std::make_unique<hydrology::CompositeLoss>(cover, std::move(pervious), element);
 }
-
-}  // namespace
 
 std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
                                                                   const std::string& id) {
@@ -362,110 +438,283 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
 
 namespace {
 
-std::optional<structures::StageStorage> read_storage(FieldReader& s, const InputUnits& u,
-                                                     const std::string& element) {
+// A pool's stage-storage relation with its limits as the file gives them (file units), so
+// the checks where storage meets outflow quote the user's own numbers.
+struct PoolStorage {
+  structures::StageStorage relation;
+  double bottom = 0.0;        // first stage of the table, or the prismatic bottom
+  std::optional<double> top;  // last stage of a table (a prismatic pond has no top)
+
+  // Reports `message` at the bottom's key (stages[1] or bottom).
+  void report_bottom(FieldReader& s, const std::string& message) const {
+    if (top) {
+      s.report_item("stages", 0, message);
+    } else {
+      s.report("bottom", message);
+    }
+  }
+};
+
+// The rules of StageStorage::from_table, in the file's keys and units.
+void check_storage_table(FieldReader& s, const std::vector<double>& h,
+                         const std::vector<double>& v, const InputUnits& u) {
+  if (h.size() != v.size()) {
+    s.report("storages", "has " + std::to_string(v.size()) + " values but stages has " +
+                             std::to_string(h.size()) + ": give one storage per stage");
+  }
+  if (h.size() < 2) s.report("stages", "has " + std::to_string(h.size()) + " values: needs >= 2");
+  for (std::size_t k = 1; k < h.size(); ++k) {
+    if (h[k] <= h[k - 1]) {
+      s.report_item("stages", k, quoted(h[k], u.length_unit()) +
+                                     ": stages must strictly increase (the one before is " +
+                                     format_value(h[k - 1]) + " " + u.length_unit() + ")");
+    }
+  }
+  if (!v.empty() && v.front() != 0.0 && std::isfinite(v.front())) {
+    s.report_item("storages", 0, quoted(v.front(), u.volume_unit()) +
+                                     ": must be 0 (the empty pond at the first stage)");
+  }
+  for (std::size_t k = 1; k < v.size(); ++k) {
+    if (v[k] < v[k - 1]) {
+      s.report_item("storages", k, quoted(v[k], u.volume_unit()) +
+                                       ": storage must not decrease (the one before is " +
+                                       format_value(v[k - 1]) + " " + u.volume_unit() + ")");
+    } else if (k + 1 == v.size() && k + 1 == h.size() && !(v[k] > v[k - 1])) {
+      s.report_item("storages", k, quoted(v[k], u.volume_unit()) +
+                                       ": must exceed the storage before it (" +
+                                       format_value(v[k - 1]) + " " + u.volume_unit() +
+                                       "): above its last point the table continues with the "
+                                       "last surface area, which must not be 0");
+    }
+  }
+}
+
+std::optional<PoolStorage> read_storage(FieldReader& s, const InputUnits& u,
+                                        const std::string& element) {
+  const std::size_t before = s.problems().size();
   if (s.optional_node("stages")) {
     std::vector<double> stage = s.numbers("stages");
     std::vector<double> volume = s.numbers("storages");
+    if (s.problems().size() == before) check_storage_table(s, stage, volume, u);
+    if (s.problems().size() != before) return std::nullopt;
+    const double bottom = stage.front(), top = stage.back();
     for (double& v : stage) v = u.length_m(v);
     for (double& v : volume) v = u.volume_m3(v);
-    return structures::StageStorage::from_table(std::move(stage), std::move(volume),
-                                                structures::StorageInterpolation::monotone_cubic,
-                                                element);
+    try {
+      return PoolStorage{structures::StageStorage::from_table(
+                             std::move(stage), std::move(volume),
+                             structures::StorageInterpolation::monotone_cubic, element),
+                         bottom, top};
+    } catch (const InputError& e) {
+      relocate(e, s, s.problems());
+      return std::nullopt;
+    }
   }
-  const double bottom = u.length_m(s.number("bottom"));
-  const double area = u.length_m(u.length_m(s.positive("area")));
-  const double growth = u.length_m(s.optional_non_negative("area_growth").value_or(0.0));
-  if (!std::isfinite(bottom) || !std::isfinite(area) || !std::isfinite(growth)) return std::nullopt;
-  return structures::StageStorage::prismatic(bottom, area, growth, element);
+  const double bottom = s.number("bottom");
+  const double area = s.positive("area");
+  const double growth = s.optional_non_negative("area_growth").value_or(0.0);
+  if (s.problems().size() != before) return std::nullopt;
+  return PoolStorage{structures::StageStorage::prismatic(u.length_m(bottom),
+                                                         u.length_m(u.length_m(area)),
+                                                         u.length_m(growth), element),
+                     bottom, std::nullopt};
+}
+
+// The tables of a culvert crossing as read, in file units where the checks need them.
+struct CrossingInput {
+  structures::CulvertSpec spec;
+  double inlet_invert = std::numeric_limits<double>::quiet_NaN();  // file units
+  std::optional<double> tailwater;                                 // file units
+};
+
+void read_barrel(FieldReader& b, const InputUnits& u, CrossingInput& in) {
+  structures::CulvertSpec& spec = in.spec;
+  const std::string shape = b.choice("shape", {"circular", "box"});
+  spec.shape = shape == "box" ? structures::BarrelShape::box : structures::BarrelShape::circular;
+  if (shape == "box") {
+    spec.rise_m = u.length_m(b.positive("rise"));
+    spec.span_m = u.length_m(b.positive("span"));
+  } else {
+    spec.rise_m = u.length_m(b.positive("diameter"));
+  }
+  spec.barrel_count = static_cast<int>(b.optional_integer("count", 1).value_or(1));
+  spec.length_m = u.length_m(b.positive("length"));
+  in.inlet_invert = b.number("inlet_invert");
+  spec.inlet_invert_stage_m = u.length_m(in.inlet_invert);
+  spec.outlet_invert_stage_m = u.length_m(b.number("outlet_invert"));
+  spec.manning_n = b.positive("manning_n");
+  const std::string inlet = b.text("inlet");
+  if (auto type = structures::parse_inlet_type(inlet)) {
+    spec.inlet = *type;
+    if (!shape.empty() && structures::inlet_coefficients(*type).shape != spec.shape) {
+      b.report("inlet", "= '" + inlet + "': inlet type is for the other barrel shape (shape = '" +
+                            shape + "')");
+    }
+  } else if (!inlet.empty()) {
+    b.report("inlet", "= '" + inlet + "': unknown inlet type (see docs/basin-file.md)");
+  }
+  spec.entrance_loss = b.optional_non_negative("entrance_loss");
+}
+
+// The barrels must start from the pond: its relation reaches down to the inlet invert.
+void check_ponding_floor(FieldReader& p, const PoolStorage& ponding, const CrossingInput& in,
+                         const InputUnits& u) {
+  if (!(ponding.bottom > in.inlet_invert)) return;
+  const std::string what = ponding.top ? "the ponding table starts" : "the ponding bottom is";
+  ponding.report_bottom(
+      p, quoted(ponding.bottom, u.length_unit()) + ": " + what + " above the barrel inlet "
+             "invert " + format_value(in.inlet_invert) + " " + u.length_unit() +
+             ", so the barrels would discharge from an empty pond: extend the " +
+             (ponding.top ? "table down to the invert (storage 0 there)"
+                          : "pond down to the invert (bottom = inlet_invert)"));
+}
+
+// The pond starts at the tailwater when it stands above the inlet invert.
+void check_tailwater(FieldReader& r, const PoolStorage& ponding, const CrossingInput& in,
+                     const InputUnits& u) {
+  if (!in.tailwater || !ponding.top || !(*in.tailwater > *ponding.top) ||
+      !(*in.tailwater > in.inlet_invert)) {
+    return;
+  }
+  r.report("tailwater", quoted(*in.tailwater, u.length_unit()) +
+                            ": the pond starts at the tailwater, above the top of the ponding "
+                            "table (" + format_value(*ponding.top) + " " + u.length_unit() +
+                            "): extend the table up to the tailwater level");
+}
+
+std::optional<structures::RoadOvertopping> read_road(FieldReader& rd, const InputUnits& u,
+                                                     const CrossingInput& in,
+                                                     const std::optional<PoolStorage>& ponding) {
+  const std::size_t before = rd.problems().size();
+  const std::vector<double> station = rd.numbers("stations");
+  const std::vector<double> crest = rd.numbers("elevations");
+  const auto c = rd.optional_positive("coefficient");
+  if (rd.problems().size() != before) return std::nullopt;
+  if (station.size() != crest.size()) {
+    rd.report("elevations", "has " + std::to_string(crest.size()) + " values but stations has " +
+                                std::to_string(station.size()) + ": give one per station");
+  }
+  if (station.size() < 2) {
+    rd.report("stations", "has " + std::to_string(station.size()) + " values: needs >= 2");
+  }
+  for (std::size_t k = 1; k < station.size(); ++k) {
+    if (station[k] <= station[k - 1]) {
+      rd.report_item("stations", k, quoted(station[k], u.length_unit()) +
+                                        ": stations must strictly increase");
+    }
+  }
+  if (rd.problems().size() != before) return std::nullopt;
+  const auto low = static_cast<std::size_t>(std::min_element(crest.begin(), crest.end()) -
+                                            crest.begin());
+  const std::string at = quoted(crest[low], u.length_unit()) + ": the lowest road crest is below ";
+  const std::string advice =
+      ": water would cross the road before it fills the pond; check that the road survey, the "
+      "barrel and the ponding table use the same datum";
+  if (crest[low] < in.inlet_invert) {
+    rd.report_item("elevations", low, at + "the barrel inlet invert " +
+                                          format_value(in.inlet_invert) + " " + u.length_unit() +
+                                          advice);
+  } else if (ponding && crest[low] < ponding->bottom) {
+    rd.report_item("elevations", low, at + "the ponding relation's first stage " +
+                                          format_value(ponding->bottom) + " " + u.length_unit() +
+                                          advice);
+  }
+  if (rd.problems().size() != before) return std::nullopt;
+  std::vector<double> station_m = station, crest_m = crest;
+  for (double& v : station_m) v = u.length_m(v);
+  for (double& v : crest_m) v = u.length_m(v);
+  const double c_file = c.value_or(u.us() ? structures::kRoadOvertoppingCoefficientSi /
+                                                std::sqrt(units::kMetresPerFoot)
+                                          : structures::kRoadOvertoppingCoefficientSi);
+  std::optional<double> tailwater_m;
+  if (in.tailwater) tailwater_m = u.length_m(*in.tailwater);
+  return structures::RoadOvertopping(std::move(station_m), std::move(crest_m),
+                                     u.weir_coefficient_si(c_file), rd.element(), tailwater_m);
+}
+
+// The safety net behind the checks above: whatever the outlets, an empty pool discharges
+// nothing.
+bool empty_pool_is_dry(FieldReader& r, double outflow_m3s, const PoolStorage& storage,
+                       const InputUnits& u) {
+  if (!(outflow_m3s > 0.0)) return true;
+  r.report_here("discharges " + format_value(u.discharge_in_file(outflow_m3s)) + " " +
+                u.discharge_unit() + " with its pond empty (stage " +
+                format_value(storage.bottom) + " " + u.length_unit() +
+                ", the bottom of its storage relation): an outlet or barrel sits below the "
+                "storage relation; extend the relation down to the lowest outlet");
+  return false;
 }
 
 }  // namespace
 
 std::unique_ptr<network::Element> NetworkReader::read_culvert(Reader& r, const std::string& id) {
-  structures::CulvertSpec spec;
+  CrossingInput in;
   const toml::table* barrel = r.optional_table("barrel");
   if (!barrel) r.report_here("is missing required table 'barrel'");
   if (barrel) {
     Reader b(*barrel, file_, r.element() + " barrel", problems_);
-    const std::string shape = b.choice("shape", {"circular", "box"});
-    spec.shape = shape == "box" ? structures::BarrelShape::box : structures::BarrelShape::circular;
-    if (shape == "box") {
-      spec.rise_m = units_.length_m(b.positive("rise"));
-      spec.span_m = units_.length_m(b.positive("span"));
-    } else {
-      spec.rise_m = units_.length_m(b.positive("diameter"));
-    }
-    spec.barrel_count = static_cast<int>(b.optional_integer("count", 1).value_or(1));
-    spec.length_m = units_.length_m(b.positive("length"));
-    spec.inlet_invert_stage_m = units_.length_m(b.number("inlet_invert"));
-    spec.outlet_invert_stage_m = units_.length_m(b.number("outlet_invert"));
-    spec.manning_n = b.positive("manning_n");
-    const std::string inlet = b.text("inlet");
-    if (auto type = structures::parse_inlet_type(inlet)) {
-      spec.inlet = *type;
-    } else if (!inlet.empty()) {
-      b.report("inlet", "= '" + inlet + "': unknown inlet type (see docs/basin-file.md)");
-    }
-    spec.entrance_loss = b.optional_non_negative("entrance_loss");
+    read_barrel(b, units_, in);
     b.finish();
   }
   // The tailwater (a fixed downstream water level) acts on the barrels' outlet control and
   // submerges the road weir when it stands above the crest.
-  std::optional<double> tailwater;
-  if (auto tw = r.optional_number("tailwater")) tailwater = units_.length_m(*tw);
-  std::optional<structures::RoadOvertopping> road;
-  if (const toml::table* t = r.optional_table("road")) {
-    Reader rd(*t, file_, r.element() + " road", problems_);
-    std::vector<double> station = rd.numbers("stations");
-    std::vector<double> crest = rd.numbers("elevations");
-    for (double& v : station) v = units_.length_m(v);
-    for (double& v : crest) v = units_.length_m(v);
-    const double c = units_.weir_coefficient_si(
-        rd.optional_positive("coefficient")
-            .value_or(units_.us() ? structures::kRoadOvertoppingCoefficientSi /
-                                        std::sqrt(units::kMetresPerFoot)
-                                  : structures::kRoadOvertoppingCoefficientSi));
-    rd.finish();
-    try {
-      road.emplace(std::move(station), std::move(crest), c, r.element(), tailwater);
-    } catch (const InputError& e) {
-      relocate(e, rd, problems_);  // keep reading: the ponding table is checked too
-    }
-  }
-  std::optional<structures::StageStorage> ponding;
+  in.tailwater = r.optional_number("tailwater");
+  std::optional<PoolStorage> ponding;
   if (const toml::table* t = r.optional_table("ponding")) {
     Reader p(*t, file_, r.element() + " ponding", problems_);
     ponding = read_storage(p, units_, r.element());
+    if (ponding) check_ponding_floor(p, *ponding, in, units_);
     p.finish();
   } else {
     r.report_here("is missing required table 'ponding' (the storage upstream of the road)");
   }
+  if (ponding) check_tailwater(r, *ponding, in, units_);
+  std::optional<structures::RoadOvertopping> road;
+  if (const toml::table* t = r.optional_table("road")) {
+    Reader rd(*t, file_, r.element() + " road", problems_);
+    road = read_road(rd, units_, in, ponding);
+    rd.finish();
+  }
   if (!barrel || !ponding || !clean()) return nullptr;
+  const structures::CulvertSpec& spec = in.spec;
   // Rate to above anything the pond, the road or the barrels will see (above the table the
   // barrels are computed directly, more slowly).
   double top_m = std::max(spec.inlet_invert_stage_m + 3.0 * spec.rise_m,
-                          ponding->top_stage_m() + 1.0);
+                          ponding->relation.top_stage_m() + 1.0);
   if (road) top_m = std::max(top_m, road->lowest_crest_stage_m() + 3.0);
+  std::optional<double> tailwater_m;
+  if (in.tailwater) tailwater_m = units_.length_m(*in.tailwater);
   auto build = [&]() -> CrossingCache::Crossing {
     return std::make_shared<const structures::CulvertCrossing>(
-        structures::Culvert(spec, r.element()), road, tailwater, top_m, r.element());
+        structures::Culvert(spec, r.element()), road, tailwater_m, top_m, r.element());
   };
   CrossingCache::Crossing crossing =
       cache_ ? cache_->get_or_build(cache_scope_ + "/" + id, build) : build();
+  if (!empty_pool_is_dry(r, crossing->discharge_m3s(ponding->relation.bottom_stage_m()),
+                         *ponding, units_)) {
+    return nullptr;
+  }
   structures::LevelPoolOptions options;
   options.max_substep_s = 10.0;
   return std::make_unique<network::PoolElement>(id, ElementKind::culvert, std::move(crossing),
-                                                std::move(*ponding), options);
+                                                std::move(ponding->relation), options);
 }
 
 namespace {
 
-std::optional<structures::Outlet> read_outlet(FieldReader& o, const InputUnits& u) {
+// One outlet as read, with the key and file value of its lowest point.
+struct OutletInput {
+  structures::Outlet outlet;
+  std::string floor_key;
+  double floor = 0.0;
+};
+
+std::optional<OutletInput> read_outlet(FieldReader& o, const InputUnits& u) {
   const std::string type = o.choice("type", {"orifice", "weir", "v-notch"});
   if (type == "orifice") {
     structures::Orifice orifice;
-    orifice.invert_stage_m = u.length_m(o.number("invert"));
+    const double invert = o.number("invert");
+    orifice.invert_stage_m = u.length_m(invert);
     if (o.optional_node("diameter")) {
       orifice.shape = structures::OrificeShape::circular;
       orifice.diameter_m = u.length_m(o.positive("diameter"));
@@ -474,30 +723,72 @@ std::optional<structures::Outlet> read_outlet(FieldReader& o, const InputUnits& 
       orifice.width_m = u.length_m(o.positive("width"));
       orifice.height_m = u.length_m(o.positive("height"));
     }
-    if (auto cd = o.optional_positive("coefficient")) orifice.discharge_coefficient = *cd;
-    return orifice;
+    if (auto cd = o.optional_positive("coefficient")) {
+      if (*cd > 1.0) o.report("coefficient", quoted(*cd, "") + ": must be in (0, 1]");
+      orifice.discharge_coefficient = *cd;
+    }
+    return OutletInput{orifice, "invert", invert};
   }
   if (type == "weir") {
     structures::RectangularWeir weir;
-    weir.crest_stage_m = u.length_m(o.number("crest"));
+    const double crest = o.number("crest");
+    weir.crest_stage_m = u.length_m(crest);
     weir.length_m = u.length_m(o.positive("length"));
     if (auto c = o.optional_positive("coefficient")) weir.coefficient_si = u.weir_coefficient_si(*c);
-    return weir;
+    return OutletInput{weir, "crest", crest};
   }
   if (type == "v-notch") {
     structures::VNotchWeir weir;
-    weir.vertex_stage_m = u.length_m(o.number("vertex"));
+    const double vertex = o.number("vertex");
+    weir.vertex_stage_m = u.length_m(vertex);
     weir.notch_angle_deg = o.positive("angle_deg");
+    if (weir.notch_angle_deg >= 180.0) {
+      o.report("angle_deg", quoted(weir.notch_angle_deg, "degrees") + ": must be in (0, 180)");
+    }
     if (auto c = o.optional_positive("coefficient")) weir.discharge_coefficient = *c;
-    return weir;
+    return OutletInput{weir, "vertex", vertex};
   }
+  o.consume_all();  // without a type, the outlet's keys cannot be judged
   return std::nullopt;
+}
+
+// An outlet below the storage relation would discharge from an empty pond.
+void check_outlet_floor(FieldReader& o, const OutletInput& outlet, const PoolStorage& storage,
+                        const InputUnits& u) {
+  if (!(outlet.floor < storage.bottom)) return;
+  const std::string unit = u.length_unit();
+  o.report(outlet.floor_key,
+           quoted(outlet.floor, unit.c_str()) + ": is below " +
+               (storage.top ? "the first stage of the storage table (" : "the pond bottom (") +
+               format_value(storage.bottom) + " " + unit +
+               "), so the outlet would discharge from an empty pond: " +
+               (storage.top ? "extend the table down to " + format_value(outlet.floor) + " " +
+                                  unit + " (storage 0 there)"
+                            : "lower 'bottom' to " + format_value(outlet.floor) + " " + unit) +
+               ", or raise the outlet");
+}
+
+// initial_stage must lie within the storage relation.
+void check_initial_stage(FieldReader& r, double initial, const PoolStorage& storage,
+                         const InputUnits& u) {
+  const std::string unit = u.length_unit();
+  if (initial < storage.bottom) {
+    r.report("initial_stage", quoted(initial, unit.c_str()) +
+                                  ": is below the bottom of the storage (" +
+                                  format_value(storage.bottom) + " " + unit + ")");
+  } else if (storage.top && initial > *storage.top) {
+    r.report("initial_stage", quoted(initial, unit.c_str()) +
+                                  ": is above the top of the storage table (" +
+                                  format_value(*storage.top) + " " + unit +
+                                  "): extend the table up to the starting level, or lower "
+                                  "initial_stage");
+  }
 }
 
 }  // namespace
 
 std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const std::string& id) {
-  std::optional<structures::StageStorage> storage;
+  std::optional<PoolStorage> storage;
   if (const toml::table* t = r.optional_table("storage")) {
     Reader s(*t, file_, r.element() + " storage", problems_);
     storage = read_storage(s, units_, r.element());
@@ -513,24 +804,24 @@ std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const
     ++k;
     if (const toml::table* t = node.as_table()) {
       Reader o(*t, file_, r.element() + " outlet " + std::to_string(k), problems_);
-      if (auto outlet = read_outlet(o, units_)) outlets.push_back(*outlet);
+      if (auto outlet = read_outlet(o, units_)) {
+        if (storage) check_outlet_floor(o, *outlet, *storage, units_);
+        outlets.push_back(outlet->outlet);
+      }
       o.finish();
     }
   }
   const auto initial = r.optional_number("initial_stage");
-  if (initial && storage && units_.length_m(*initial) < storage->bottom_stage_m()) {
-    const double bottom = storage->bottom_stage_m() / units_.length_m(1.0);  // file's unit
-    r.report("initial_stage", "= " + format_value(*initial) + ": is below the bottom of the "
-                              "storage (" + format_value(bottom) + " " + units_.length_unit() +
-                              ")");
-  }
+  if (initial && storage) check_initial_stage(r, *initial, *storage, units_);
   if (!storage || outlets.empty() || !clean()) return nullptr;
   auto riser = std::make_unique<structures::Riser>(std::move(outlets), r.element());
-  const double start_m = initial ? units_.length_m(*initial) : storage->bottom_stage_m();
+  const double bottom_m = storage->relation.bottom_stage_m();
+  if (!empty_pool_is_dry(r, riser->discharge_m3s(bottom_m), *storage, units_)) return nullptr;
+  const double start_m = initial ? units_.length_m(*initial) : bottom_m;
   structures::LevelPoolOptions options;
   options.max_substep_s = 10.0;
-  return std::make_unique<network::PoolElement>(id, std::move(riser), std::move(*storage), options,
-                                                start_m);
+  return std::make_unique<network::PoolElement>(id, std::move(riser),
+                                                std::move(storage->relation), options, start_m);
 }
 
 }  // namespace freshet::io::detail

@@ -15,6 +15,7 @@
 
 #include "field_reader.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
+#include "freshet/hydrology/loss_model.hpp"
 #include "freshet/io/study.hpp"
 #include "freshet/network/driver.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
@@ -89,6 +90,12 @@ class NetworkReader {
   bool complete_ = true;
   std::size_t element_start_ = 0;
 };
+
+// Reads a subcatchment's `loss` table (docs/basin-file.md): the pervious method and the
+// optional impervious share. Returns nullptr when the table has problems (all reported to
+// `l`, under the file's own keys and units). `element` names the owner in library errors.
+std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits& u,
+                                                const std::string& element);
 
 // Converts an InputError raised by a library constructor into located problems.
 void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& problems);
