@@ -345,6 +345,22 @@ void add_warnings(const network::Model& model,
   }
 }
 
+// A station whose discharge is still at its highest when the run ends may not have peaked.
+void add_end_of_run_warnings(const StudySink& sink,
+                             const std::vector<StationDescription>& stations,
+                             RunSummary& summary) {
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    const SummaryAccumulator& acc = sink.accumulator(i);
+    if (acc.sample_count() < 2 || acc.peak_time_s() < acc.last_time_s()) continue;
+    const double rise_m3s = acc.peak_discharge_m3s() - acc.first_discharge_m3s();
+    if (!(rise_m3s > 1e-9 * std::max(1.0, acc.peak_discharge_m3s()))) continue;
+    summary.warnings.push_back(
+        {stations[i].id, "discharge is still at its highest when the run ends (t = " +
+                             format_fixed(acc.last_time_s() / 3600.0, 2) +
+                             " h): the peak may come later; lengthen duration_h"});
+  }
+}
+
 RunSummary summarise(const Study& study,
                      const RunRequest& req,
                      const network::Model& model,
@@ -366,6 +382,7 @@ RunSummary summarise(const Study& study,
   add_shocks(model, s);
   add_balances(numerics, s);
   add_warnings(model, sink, stations, s);
+  add_end_of_run_warnings(sink, stations, s);
   return s;
 }
 

@@ -144,6 +144,22 @@ TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
   EXPECT_TRUE(has_warning(r, "r1", "backwater"));
 }
 
+// A run that ends while the flood is still rising warns at every station still at its peak;
+// the same flood in a long enough run does not.
+TEST(RunSummary, WarnsWhenTheRunEndsBeforeThePeak) {
+  const std::string network =
+      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n";
+  TempDir short_dir, long_dir;
+  for (const TempDir* d : {&short_dir, &long_dir}) {
+    write_text(*d / "q.csv", "time_min,discharge_m3s\n0,1.0\n90,8.0\n180,1.0\n300,1.0\n");
+  }
+  const RunOutcome cut = run(short_dir, head(1.0) + network);
+  EXPECT_TRUE(has_warning(cut, "out", "still at its highest when the run ends"));
+  const RunOutcome full = run(long_dir, head(5.0) + network);
+  EXPECT_FALSE(has_warning(full, "out", "still at its highest"));
+}
+
 // The planned file list is exactly what a run writes, so an existing result can be refused
 // before any routing; without --overwrite a second run stops at once and leaves the first
 // run's files untouched.

@@ -438,6 +438,39 @@ outlet_invert = 52.0
   EXPECT_THROW((void)study.stations("nosuch"), InputError);
 }
 
+// A storm that ends after the run, or a series that starts before it, would lose rain
+// without a trace; both are refused with the depth that would be lost. NRCS Type II, 60 mm:
+// by 1 h the table has 0.011 of the depth (2 h: 0.022, linear), so 60 (1 - 0.011) = 59.3 mm
+// would be lost in a 1-hour run.
+TEST(StudyLoad, StormsMustFallInsideTheRun) {
+  Fixture late(kHead + kGoodNetwork + R"(
+[[storm]]
+id = "day"
+method = "nrcs-24h"
+distribution = "II"
+depth = 60.0
+step_min = 15
+)");
+  ASSERT_FALSE(late.problems().empty());
+  EXPECT_TRUE(has_line(late.what, late.basin.string() + ":",
+                       {"storm 'day'", "ends at 24.00 h, after the run", "59.3 mm of its 60.0 mm",
+                        "would not be routed"}))
+      << late.what;
+
+  Fixture early(kHead + kGoodNetwork + R"(
+[[storm]]
+id = "gauge"
+method = "series"
+file = "gauge.csv"
+)",
+                {{"flow.csv", kSteadyCsv},
+                 {"gauge.csv", "time_min,intensity_mm_per_h\n-30,30\n10,30\n20,0\n"}});
+  ASSERT_FALSE(early.problems().empty());
+  EXPECT_TRUE(has_line(early.what, early.basin.string() + ":",
+                       {"storm 'gauge'", "starts at t = -30 min, before the study start"}))
+      << early.what;
+}
+
 TEST(StudyLoad, UnknownStormOrScenarioIdAsked) {
   Fixture f(kHead + kGoodNetwork);
   const Study study = Study::load(f.basin);

@@ -119,6 +119,7 @@ class SummaryAccumulator {
       sample_moment_ += (b - a) / 6.0 * (a * (2.0 * q0 + q1) + b * (q0 + 2.0 * q1));
     } else {
       origin_s_ = time_s;
+      first_q_m3s_ = discharge_m3s;
     }
     if (count_ == 0 || discharge_m3s > peak_q_m3s_) {
       peak_q_m3s_ = discharge_m3s;
@@ -143,6 +144,8 @@ class SummaryAccumulator {
   [[nodiscard]] double peak_discharge_m3s() const { return count_ ? peak_q_m3s_ : kNotApplicable; }
   [[nodiscard]] double peak_time_s() const { return count_ ? peak_time_s_ : kNotApplicable; }
   [[nodiscard]] double peak_stage_m() const { return peak_stage_m_; }
+  [[nodiscard]] double first_discharge_m3s() const { return count_ ? first_q_m3s_ : kNotApplicable; }
+  [[nodiscard]] double last_time_s() const { return count_ ? last_time_s_ : kNotApplicable; }
   [[nodiscard]] double volume_m3() const {
     return has_handed_volume_ ? handed_volume_m3_ : (count_ ? sample_volume_m3_ : kNotApplicable);
   }
@@ -173,6 +176,7 @@ class SummaryAccumulator {
   long count_ = 0;
   double origin_s_ = 0.0;  // first sample time: moments are taken about it (less round-off)
   double last_time_s_ = 0.0;
+  double first_q_m3s_ = 0.0;
   double last_q_m3s_ = 0.0;
   double peak_q_m3s_ = 0.0;
   double peak_time_s_ = 0.0;
