@@ -44,8 +44,9 @@ std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args) 
 std::vector<io::RunOutcome> run_batch(const io::Study& study,
                                       const std::vector<io::RunRequest>& requests,
                                       const BatchOptions& options) {
-  // Refuse before any routing when a run would meet an existing result (without --overwrite).
-  for (const auto& request : requests) io::check_outputs_free(study, request);
+  // Refuse before any routing when a run would meet an existing result (without --overwrite)
+  // or route a storm that outlasts the run.
+  for (const auto& request : requests) io::check_run_request(study, request);
   const std::size_t n = requests.size();
   std::vector<io::RunOutcome> results(n);
   std::vector<std::exception_ptr> errors(n);

@@ -23,6 +23,12 @@ int check(const std::string& basin) {
     const double depth = s.rain.total_depth_m() / (us ? units::kMetresPerInch : 1e-3);
     std::cout << " " << s.id << " (" << number(depth, us ? 2 : 1) << (us ? " in)" : " mm)");
   }
+  for (const auto& s : study.storms()) {
+    if (s.ends_after_run) {
+      std::cout << "\n  warning: " << s.ends_after_run->to_string()
+                << " (routing this storm is refused)";
+    }
+  }
   std::cout << "\n  scenarios:";
   if (study.scenarios().empty()) std::cout << " none";
   for (const auto& s : study.scenarios()) std::cout << " " << s.id;

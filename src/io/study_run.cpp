@@ -198,7 +198,10 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
   return files;
 }
 
-void check_outputs_free(const Study& study, const RunRequest& request) {
+void check_run_request(const Study& study, const RunRequest& request) {
+  const StormDefinition& storm = study.storm(request.storm_id);  // InputError if unknown
+  if (storm.ends_after_run) throw InputError(*storm.ends_after_run);
+  if (!request.scenario_id.empty()) (void)study.scenario(request.scenario_id);
   if (request.overwrite == Overwrite::yes) return;
   for (const auto& path : planned_output_files(study, request)) {
     std::error_code ec;
@@ -486,12 +489,17 @@ std::pair<double, std::size_t> export_grid(const Study& study, const RunRequest&
   return {dt_s, n};
 }
 
+// Exported peaks further than this from the routed peak are pointed out (our criterion, no
+// source: a coarse interval can cut or, with a volume correction, raise a sharp peak).
+constexpr double kExportPeakTolerance = 0.02;
+
 std::filesystem::path write_export(const Study& study,
                                    const RunRequest& req,
                                    const StudySink& sink,
                                    std::size_t i,
                                    const StationDescription& station,
-                                   const std::filesystem::path& folder) {
+                                   const std::filesystem::path& folder,
+                                   RunSummary& summary) {
   const StudySettings& set = study.settings();
   const auto [dt_s, n] = export_grid(study, req);
   const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
@@ -530,6 +538,18 @@ std::filesystem::path write_export(const Study& study,
   table.metadata = {"station " + station.id + " (" + station.name + "), storm " + req.storm_id +
                         (req.scenario_id.empty() ? ", base" : ", scenario " + req.scenario_id),
                     "resampled to " + format_value(dt_s) + " s: " + method};
+  const double routed_peak_m3s = summary.stations[i].peak_discharge_m3s;
+  const double exported_peak_m3s = *std::max_element(r->values().begin(), r->values().end());
+  const double change = exported_peak_m3s / routed_peak_m3s - 1.0;
+  if (routed_peak_m3s > 0.0 && std::abs(change) > kExportPeakTolerance) {
+    const std::string note =
+        "the exported peak " + format_fixed(exported_peak_m3s, 3) + " m3/s is " +
+        format_fixed(100.0 * std::abs(change), 1) + " % " + (change < 0.0 ? "below" : "above") +
+        " the routed peak " + format_fixed(routed_peak_m3s, 3) + " m3/s at this " +
+        format_value(dt_s / 60.0) + "-min interval; a shorter export interval keeps it closer";
+    table.metadata.push_back(note);
+    summary.warnings.push_back({station.id, "hydrograph export: " + note});
+  }
   CsvWriteOptions options;
   options.title = "freshet hydrograph";
   options.time_base = set.start_iso + " (study start)";
@@ -614,7 +634,7 @@ void open_run_files(const Study& study,
   sink.after_record = [&files](double t) { files.profile_cells->write(*files.profiles, t); };
 }
 
-// Summaries (CSV, JSON), exports, then the NetCDF files renamed into place last, so that
+// Exports, summaries (CSV, JSON), then the NetCDF files renamed into place last, so that
 // nothing looks finished unless everything was written.
 void write_run_files(const Study& study,
                      const RunRequest& req,
@@ -624,14 +644,15 @@ void write_run_files(const Study& study,
                      const std::filesystem::path& folder,
                      RunFiles& files,
                      RunOutcome& out) {
+  // Exports first: what they note about their peaks goes into the summaries.
+  for (std::size_t i : exported) {
+    out.files.push_back(write_export(study, req, sink, i, stations[i], folder, out.summary));
+  }
   const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
   const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
   write_summary_json(json, out.summary, req.overwrite);
   out.files.push_back(json);
-  for (std::size_t i : exported) {
-    out.files.push_back(write_export(study, req, sink, i, stations[i], folder));
-  }
   for (auto* file : {&files.stations, &files.subcatchments, &files.profiles}) {
     if (!*file) continue;
     (*file)->commit();
@@ -655,7 +676,7 @@ std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
 RunOutcome run_study(const Study& study,
                      const RunRequest& req,
                      const network::ProgressFn& progress) {
-  check_outputs_free(study, req);
+  check_run_request(study, req);
   network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
   const std::vector<StationDescription> stations = study.stations(req.scenario_id);
   const std::vector<std::size_t> exported = export_indices(req, stations);

@@ -3,6 +3,8 @@
 // definitions of the quantities (stated beside each check), not from earlier runs.
 #include "freshet/io/study_run.hpp"
 
+#include "freshet/io/csv_series.hpp"
+
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -160,6 +162,33 @@ TEST(RunSummary, WarnsWhenTheRunEndsBeforeThePeak) {
   EXPECT_FALSE(has_warning(full, "out", "still at its highest"));
 }
 
+// Exports carry the routed volume exactly (from the element's ledger), read back by the
+// inflow reader; a coarse interval that cuts the peak by more than 2 % is pointed out.
+TEST(RunExports, VolumeIsTheRoutedVolumeAndACutPeakIsPointedOut) {
+  const auto export_run = [](double interval_min) {
+    TempDir dir;
+    write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n22,9.0\n47,0.5\n180,0.5\n");
+    write_text(dir / "b.toml", head(3.0) +
+        "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+        "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n");
+    const Study study = Study::load(dir / "b.toml");
+    RunRequest req;
+    req.storm_id = "s1";
+    req.out_dir = dir / "out";
+    req.source = "freshet test";
+    req.export_stations = {"out"};
+    req.export_interval_s = interval_min * 60.0;
+    const RunOutcome r = run_study(study, req);
+    const PiecewiseLinearSeries q =
+        read_hydrograph_csv(dir / "out" / "base" / "s1_out_hydrograph.csv");
+    const double routed = station(r, "out").runoff_volume_m3;
+    EXPECT_NEAR(q.integral(q.times_s().front(), q.times_s().back()), routed, 1e-6 * routed);
+    return has_warning(r, "out", "hydrograph export: the exported peak");
+  };
+  EXPECT_FALSE(export_run(5.0));
+  EXPECT_TRUE(export_run(30.0));
+}
+
 // The planned file list is exactly what a run writes, so an existing result can be refused
 // before any routing; without --overwrite a second run stops at once and leaves the first
 // run's files untouched.
@@ -193,7 +222,7 @@ TEST(RunOutputs, PlannedFilesAreWrittenAndAnExistingResultStopsTheRunFirst) {
   EXPECT_EQ(partial, 0u) << "no temporary file is left behind";
 
   req.overwrite = Overwrite::yes;
-  EXPECT_NO_THROW(check_outputs_free(study, req));
+  EXPECT_NO_THROW(check_run_request(study, req));
 }
 
 }  // namespace

@@ -439,9 +439,10 @@ outlet_invert = 52.0
 }
 
 // A storm that ends after the run, or a series that starts before it, would lose rain
-// without a trace; both are refused with the depth that would be lost. NRCS Type II, 60 mm:
-// by 1 h the table has 0.011 of the depth (2 h: 0.022, linear), so 60 (1 - 0.011) = 59.3 mm
-// would be lost in a 1-hour run.
+// without a trace. A series starting before time 0 is an error in the file. A storm that
+// outlasts the run is kept with a problem that stops its own runs only (the run length is
+// shared by every storm of a file). NRCS Type II, 60 mm: by 1 h the table has 0.011 of the
+// depth (2 h: 0.022, linear), so 60 (1 - 0.011) = 59.3 mm would be lost in a 1-hour run.
 TEST(StudyLoad, StormsMustFallInsideTheRun) {
   Fixture late(kHead + kGoodNetwork + R"(
 [[storm]]
@@ -451,11 +452,20 @@ distribution = "II"
 depth = 60.0
 step_min = 15
 )");
-  ASSERT_FALSE(late.problems().empty());
-  EXPECT_TRUE(has_line(late.what, late.basin.string() + ":",
+  const Study study = Study::load(late.basin);
+  EXPECT_FALSE(study.storm("s1").ends_after_run.has_value());
+  ASSERT_TRUE(study.storm("day").ends_after_run.has_value());
+  const std::string text = study.storm("day").ends_after_run->to_string();
+  EXPECT_TRUE(has_line(text, late.basin.string() + ":",
                        {"storm 'day'", "ends at 24.00 h, after the run", "59.3 mm of its 60.0 mm",
                         "would not be routed"}))
-      << late.what;
+      << text;
+  RunRequest req;
+  req.storm_id = "day";
+  req.out_dir = late.dir / "out";
+  EXPECT_THROW(check_run_request(study, req), InputError);
+  req.storm_id = "s1";
+  EXPECT_NO_THROW(check_run_request(study, req));
 
   Fixture early(kHead + kGoodNetwork + R"(
 [[storm]]

@@ -16,10 +16,12 @@
 
 #include <filesystem>
 #include <memory>
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
 
+#include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
 #include "freshet/network/driver.hpp"
@@ -43,6 +45,9 @@ struct StormDefinition {
   std::string id;
   std::string description;  // e.g. "alternating block, 60 min, 5 min blocks"
   hydrology::Hyetograph rain;
+  // Set when some of the storm's rain falls after the run ends: routing this storm is refused
+  // with this problem (other storms of the file still run); `freshet check` warns.
+  std::optional<Problem> ends_after_run;
 };
 
 struct ScenarioDefinition {

@@ -75,13 +75,14 @@ RunOutcome run_study(const Study& study, const RunRequest& request,
 std::filesystem::path run_folder(const RunRequest& request);
 
 // Every file run_study would write for this request, under its final name (NetCDF series,
-// summaries, hydrograph exports), in the order it writes them.
+// summaries, hydrograph exports).
 std::vector<std::filesystem::path> planned_output_files(const Study& study,
                                                         const RunRequest& request);
 
-// Throws IoError naming the first planned file that already exists, unless the request
-// allows overwriting. run_study calls it before routing; a batch can call it for all of its
-// requests before starting any.
-void check_outputs_free(const Study& study, const RunRequest& request);
+// Checks a request before any routing: InputError for an unknown storm or scenario, or a storm
+// whose rain goes on after the run ends; IoError naming the first planned file that already
+// exists, unless the request allows overwriting. run_study calls it; a batch can call it for
+// all of its requests before starting any.
+void check_run_request(const Study& study, const RunRequest& request);
 
 }  // namespace freshet::io

@@ -130,28 +130,31 @@ hydrology::Hyetograph read_series_storm(FieldReader& r, const std::filesystem::p
   return hydrology::Hyetograph::from_depths(t.times_s, depth_m, label);
 }
 
-// A storm must fall inside the run: rain before the study start or after the run's end would
-// be dropped without a trace, and the storm would look smaller than it is.
-void check_storm_within_run(const hydrology::Hyetograph& rain, const StudySettings& settings,
-                            const InputUnits& u, FieldReader& r) {
+// A storm must fall inside the run: rain before the study start would be dropped without a
+// trace (an error), and so would rain after the run's end (returned as a problem that stops
+// only the runs of this storm, since the run length is shared by all storms of a file).
+std::optional<Problem> check_storm_within_run(const hydrology::Hyetograph& rain,
+                                              const StudySettings& settings, const InputUnits& u,
+                                              FieldReader& r, const toml::table& storm_table) {
   const auto depth = [&u](double m) {
     return format_fixed(m / u.rain_depth_m(1.0), u.us() ? 2 : 1) + " " + u.depth_unit();
   };
-  const auto minutes = [](double s) { return format_fixed(s / 60.0, 0) + " min"; };
   if (rain.start_s() < 0.0) {
-    r.report_here("starts at t = " + minutes(rain.start_s()) + ", before the study start: " +
-                  depth(rain.cumulative_depth_m(0.0)) + " of its " +
-                  depth(rain.total_depth_m()) + " would fall before the run begins; storms "
-                  "start at time 0, so shift the series");
+    r.report_here("starts at t = " + format_fixed(rain.start_s() / 60.0, 0) +
+                  " min, before the study start: " + depth(rain.cumulative_depth_m(0.0)) +
+                  " of its " + depth(rain.total_depth_m()) + " would fall before the run "
+                  "begins; storms start at time 0, so shift the series");
   }
   const double lost_m = rain.total_depth_m() - rain.cumulative_depth_m(settings.duration_s);
-  if (settings.duration_s > 0.0 && lost_m > 0.0) {
-    r.report_here("ends at " + format_fixed(rain.end_s() / 3600.0, 2) + " h, after the run (" +
-                  "duration_h = " + format_value(settings.duration_s / 3600.0) + "): " +
-                  depth(lost_m) + " of its " + depth(rain.total_depth_m()) +
-                  " would not be routed; set duration_h to at least the storm's end plus the "
-                  "time the basin takes to drain");
-  }
+  if (!(settings.duration_s > 0.0 && lost_m > 0.0)) return std::nullopt;
+  const auto& where = storm_table.source().begin;
+  return Problem{r.file(), static_cast<int>(where.line), static_cast<int>(where.column),
+                 r.element(), "",
+                 "ends at " + format_fixed(rain.end_s() / 3600.0, 2) + " h, after the run (" +
+                     "duration_h = " + format_value(settings.duration_s / 3600.0) + "): " +
+                     depth(lost_m) + " of its " + depth(rain.total_depth_m()) +
+                     " would not be routed; set duration_h to at least the storm's end plus "
+                     "the time the basin takes to drain"};
 }
 
 hydrology::IdfCurve read_idf(FieldReader& r, const InputUnits& u, const std::string& label) {
@@ -220,8 +223,8 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
                                    : hydrology::alternating_block_storm(idf, o, label);
       }
       if (rain) {
-        check_storm_within_run(*rain, settings, u, r);
-        storms.push_back({id, description, std::move(*rain)});
+        auto late = check_storm_within_run(*rain, settings, u, r, *t);
+        storms.push_back({id, description, std::move(*rain), std::move(late)});
       }
     } catch (const InputError& e) {
       detail::relocate(e, r, problems);
