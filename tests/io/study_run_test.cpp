@@ -167,7 +167,7 @@ TEST(RunSummary, WarnsWhenTheRunEndsBeforeThePeak) {
 TEST(RunExports, VolumeIsTheRoutedVolumeAndACutPeakIsPointedOut) {
   const auto export_run = [](double interval_min) {
     TempDir dir;
-    write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n22,9.0\n47,0.5\n180,0.5\n");
+    write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n62,9.0\n150,0.5\n180,0.5\n");
     write_text(dir / "b.toml", head(3.0) +
         "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
         "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n");
@@ -185,8 +185,8 @@ TEST(RunExports, VolumeIsTheRoutedVolumeAndACutPeakIsPointedOut) {
     EXPECT_NEAR(q.integral(q.times_s().front(), q.times_s().back()), routed, 1e-6 * routed);
     return has_warning(r, "out", "hydrograph export: the exported peak");
   };
-  EXPECT_FALSE(export_run(5.0));
-  EXPECT_TRUE(export_run(30.0));
+  EXPECT_FALSE(export_run(5.0));   // peak within 2 %
+  EXPECT_TRUE(export_run(60.0));   // hourly samples of a 2.5-hour flood: about 20 % low
 }
 
 // The planned file list is exactly what a run writes, so an existing result can be refused
