@@ -481,6 +481,29 @@ file = "gauge.csv"
       << early.what;
 }
 
+// IDF-table problems quote the values and units as typed, at the offending item.
+TEST(StudyLoad, IdfTableProblemsQuoteTheFilesUnits) {
+  Fixture f(R"([study]
+title = "fixture"
+units = "us"
+duration_h = 1.0
+output_interval_min = 5.0
+
+[[storm]]
+id = "s1"
+method = "alternating-block"
+duration_min = 30
+step_min = 5
+idf_table = { durations_min = [5, 15, 30], intensities = [4.0, 1.2, 0.5] }
+)" + kGoodNetwork);
+  ASSERT_FALSE(f.problems().empty());
+  EXPECT_TRUE(has_line(f.what, f.at("idf_table"),
+                       {"storm 's1' idf_table", "field 'intensities[2]' = 1.2 in/h",
+                        "depth must not decrease"}))
+      << f.what;
+  EXPECT_EQ(f.what.find("e-0"), std::string::npos) << "no SI values: " << f.what;
+}
+
 TEST(StudyLoad, UnknownStormOrScenarioIdAsked) {
   Fixture f(kHead + kGoodNetwork);
   const Study study = Study::load(f.basin);

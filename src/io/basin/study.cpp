@@ -1,6 +1,7 @@
 #include "freshet/io/study.hpp"
 
 #include <chrono>
+#include <cmath>
 #include <cstdio>
 #include <map>
 #include <sstream>
@@ -157,7 +158,42 @@ std::optional<Problem> check_storm_within_run(const hydrology::Hyetograph& rain,
                      "the time the basin takes to drain"};
 }
 
-hydrology::IdfCurve read_idf(FieldReader& r, const InputUnits& u, const std::string& label) {
+// The IDF table's rules, checked on the values as the file gives them (minutes, mm/h or in/h)
+// so that messages quote what the engineer typed: durations positive and increasing,
+// intensities positive, and the depth i d never decreasing with duration.
+void check_idf_table_as_written(FieldReader& f, const std::vector<double>& duration_min,
+                                const std::vector<double>& intensity, const InputUnits& u) {
+  if (duration_min.size() != intensity.size()) {
+    f.report("intensities", "has " + std::to_string(intensity.size()) + " values for " +
+                                std::to_string(duration_min.size()) + " durations_min");
+    return;
+  }
+  if (duration_min.size() < 2) f.report("durations_min", "needs at least 2 durations");
+  const std::string rate = u.rate_unit();
+  for (std::size_t k = 0; k < duration_min.size(); ++k) {
+    const double d = duration_min[k], i = intensity[k];
+    if (!(std::isfinite(d) && d > 0.0)) {
+      f.report_item("durations_min", k, "= " + format_value(d) + " min: must be > 0");
+    } else if (k > 0 && !(d > duration_min[k - 1])) {
+      f.report_item("durations_min", k, "= " + format_value(d) + " min: must be greater than "
+                                            "the one before (" + format_value(duration_min[k - 1]) +
+                                            " min)");
+    }
+    if (!(std::isfinite(i) && i > 0.0)) {
+      f.report_item("intensities", k, "= " + format_value(i) + " " + rate + ": must be > 0");
+    } else if (k > 0 && i * d < intensity[k - 1] * duration_min[k - 1]) {
+      f.report_item("intensities", k,
+                    "= " + format_value(i) + " " + rate + ": the depth i x d over " +
+                        format_value(d) + " min would be less than over " +
+                        format_value(duration_min[k - 1]) + " min; depth must not decrease "
+                        "with duration");
+    }
+  }
+}
+
+// Empty when the table has problems (already reported, in the file's units).
+std::optional<hydrology::IdfCurve> read_idf(FieldReader& r, const InputUnits& u,
+                                            const std::string& label) {
   if (const toml::table* t = r.optional_table("idf")) {
     FieldReader f(*t, r.file(), label + " idf", r.problems());
     hydrology::IdfFormula formula;
@@ -171,9 +207,12 @@ hydrology::IdfCurve read_idf(FieldReader& r, const InputUnits& u, const std::str
     FieldReader f(*t, r.file(), label + " idf_table", r.problems());
     std::vector<double> duration_s = f.numbers("durations_min");
     std::vector<double> intensity = f.numbers("intensities");
+    const std::size_t reported = f.problems().size();
+    check_idf_table_as_written(f, duration_s, intensity, u);
     for (double& d : duration_s) d *= units::kSecondsPerMinute;
     for (double& i : intensity) i = u.rate_m_s(i);
     f.finish();
+    if (f.problems().size() != reported) return std::nullopt;
     return hydrology::IdfCurve::from_table(std::move(duration_s), std::move(intensity), label);
   }
   throw InputError(Problem{r.file(), r.line(), r.column(), label, "idf",
@@ -218,9 +257,11 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
         o.duration_s = r.positive("duration_min") * units::kSecondsPerMinute;
         o.step_s = r.positive("step_min") * units::kSecondsPerMinute;
         o.peak_ratio = r.optional_number("peak_ratio").value_or(0.5);
-        const hydrology::IdfCurve idf = read_idf(r, u, label);
-        rain = method == "chicago" ? hydrology::chicago_storm(idf, o, label)
-                                   : hydrology::alternating_block_storm(idf, o, label);
+        const std::optional<hydrology::IdfCurve> idf = read_idf(r, u, label);
+        if (idf) {
+          rain = method == "chicago" ? hydrology::chicago_storm(*idf, o, label)
+                                     : hydrology::alternating_block_storm(*idf, o, label);
+        }
       }
       if (rain) {
         auto late = check_storm_within_run(*rain, settings, u, r, *t);
