@@ -62,30 +62,62 @@ std::vector<double> interval_volume_values(const PiecewiseLinearSeries& s, const
   return p;
 }
 
-// Each node takes half of the volume its two intervals miss, per unit time; the end nodes take
-// all of their one interval's. Sum over nodes of the trapezoid weights times the corrections
-// is sum_k e_k, so the total volume is exact. Empty when a value would be negative.
+// Largest value of the original over [a, b] (its breakpoints inside and both ends).
+double local_max(const PiecewiseLinearSeries& s, double a_s, double b_s) {
+  double m = std::max(s.value_at(a_s), s.value_at(b_s));
+  const auto times = s.times_s();
+  const auto values = s.values();
+  auto it = std::upper_bound(times.begin(), times.end(), a_s);
+  for (; it != times.end() && *it < b_s; ++it) {
+    m = std::max(m, values[static_cast<std::size_t>(it - times.begin())]);
+  }
+  return m;
+}
+
+// Each interval's missed volume e_k goes to its two nodes in proportion to their values
+// (half each when both are zero), and each node turns the volume it received into a
+// discharge through its trapezoid weight. No value can go negative: a node receives at most
+// -(its value x its trapezoid weight), because an interval's true volume is never negative
+// (e_k >= -(q_k + q_k+1) dt / 2). A node may not rise above the original's largest value
+// over its two intervals either (a sharp peak between nodes would otherwise be overstated):
+// what such a cap holds back is handed to the nodes still below their caps, in proportion
+// to their room. Empty when there is not room enough (or round-off leaves a value below 0).
 std::vector<double> locally_corrected_values(const PiecewiseLinearSeries& s, const Volumes& v,
                                              const std::vector<double>& t) {
   const std::size_t n = t.size() - 1;
-  std::vector<double> q(n + 1), missed(n);
-  for (std::size_t k = 0; k <= n; ++k) q[k] = s.value_at(t[k]);
+  std::vector<double> q(n + 1), received(n + 1, 0.0), weight(n + 1, 0.0), cap(n + 1);
+  for (std::size_t k = 0; k <= n; ++k) {
+    q[k] = s.value_at(t[k]);
+    cap[k] = local_max(s, t[k > 0 ? k - 1 : 0], t[k < n ? k + 1 : n]);
+  }
+  double largest = 0.0;
   for (std::size_t k = 0; k < n; ++k) {
     const double dt = t[k + 1] - t[k];
-    missed[k] = v.between(t[k], t[k + 1]) - 0.5 * (q[k] + q[k + 1]) * dt;
+    const double missed = v.between(t[k], t[k + 1]) - 0.5 * (q[k] + q[k + 1]) * dt;
+    const double both = q[k] + q[k + 1];
+    const double share = both > 0.0 ? q[k] / both : 0.5;
+    received[k] += share * missed;
+    received[k + 1] += (1.0 - share) * missed;
+    weight[k] += 0.5 * dt;
+    weight[k + 1] += 0.5 * dt;
+    largest = std::max({largest, cap[k], cap[k + 1]});
   }
   std::vector<double> out(n + 1);
-  double largest = 0.0;
+  double held_back_m3 = 0.0, room_m3 = 0.0;
   for (std::size_t k = 0; k <= n; ++k) {
-    const double left = k > 0 ? missed[k - 1] / (t[k] - t[k - 1]) : 0.0;
-    const double right = k < n ? missed[k] / (t[k + 1] - t[k]) : 0.0;
-    const double weight = (k == 0 || k == n) ? 1.0 : 0.5;
-    out[k] = q[k] + weight * (left + right);
-    largest = std::max(largest, std::abs(q[k]));
+    out[k] = q[k] + received[k] / weight[k];
+    if (out[k] < -1e-12 * largest) return {};
+    out[k] = std::max(out[k], 0.0);
+    if (out[k] > cap[k]) {
+      held_back_m3 += (out[k] - cap[k]) * weight[k];
+      out[k] = cap[k];
+    }
+    room_m3 += (cap[k] - out[k]) * weight[k];
   }
-  for (double& value : out) {
-    if (value < -1e-12 * largest) return {};
-    value = std::max(value, 0.0);
+  if (held_back_m3 > 0.0) {
+    if (held_back_m3 > room_m3) return {};
+    const double fill = held_back_m3 / room_m3;
+    for (std::size_t k = 0; k <= n; ++k) out[k] += fill * (cap[k] - out[k]);
   }
   return out;
 }

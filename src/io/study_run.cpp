@@ -504,22 +504,19 @@ std::filesystem::path write_export(const Study& study,
   const auto [dt_s, n] = export_grid(study, req);
   const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
   const PiecewiseLinearSeries volume = sink.volume_series(i, "station '" + station.id + "'");
-  // Each interval keeps its own volume where that needs no negative discharge; otherwise the
-  // samples are corrected locally by the volume their intervals miss (base flow untouched);
-  // failing that, one factor scales them. The total volume is kept in every case
-  // (io/series_resample.hpp).
+  // The point values corrected locally by the volume their intervals miss: the routed total
+  // volume exactly, base flow untouched, never negative (io/series_resample.hpp). Exact
+  // interval volumes can ripple around a peak, so they come second; scaling is the last
+  // resort.
   struct Attempt {
     ResampleMethod method;
     const char* label;
   };
   const Attempt attempts[] = {
-      {ResampleMethod::interval_volumes, "each interval's volume kept (interval volumes)"},
       {ResampleMethod::local_correction,
-       "total volume kept by correcting each sample with the volume its two intervals miss "
-       "(interval volumes would need negative discharge)"},
-      {ResampleMethod::scaled_samples,
-       "total volume kept by scaling the samples (other volume-keeping forms would need "
-       "negative discharge)"}};
+       "routed volume kept: each sample corrected by the volume its two intervals miss"},
+      {ResampleMethod::interval_volumes, "routed volume kept in every interval"},
+      {ResampleMethod::scaled_samples, "routed volume kept by scaling the samples"}};
   std::optional<PiecewiseLinearSeries> r;
   std::string method;
   for (const Attempt& a : attempts) {

@@ -14,12 +14,16 @@
 //    the interval between zero flows; or zero flow at both ends with off-grid breakpoints,
 //    which pins the mode twice), the function throws InputError rather than write a negative
 //    discharge: choose a shorter dt, or scaled_samples.
-//  * ResampleMethod::local_correction: Q_k = q(t_k) + (e_{k-1} + e_k) / (2 dt), where
-//    e_k = V_k - (q(t_k) + q(t_{k+1})) dt / 2 is interval k's volume missed by the sampled
-//    points (at the two ends the one adjacent interval's e / dt). The total volume is kept
-//    exactly; where the original is linear between nodes (steady flow, straight limbs)
-//    nothing changes; under a peak that falls between nodes the samples are raised towards
-//    it. Throws InputError when a corrected value would be negative.
+//  * ResampleMethod::local_correction: the point values q(t_k), each corrected by the volume
+//    its intervals miss: e_k = V_k - (q_k + q_k+1) dt / 2 is shared between interval k's two
+//    nodes in proportion to their values (half each when both are zero), and a node adds
+//    the volume it received divided by its trapezoid weight (dt, or dt/2 at the ends). The
+//    total volume is kept exactly; where the original is linear between nodes (steady flow,
+//    straight limbs) nothing changes; a peak between nodes is raised towards the original's.
+//    Never negative (an interval's true volume is never negative, so a node can lose at most
+//    its own value), and never above the original's largest value over the node's two
+//    intervals: what that cap holds back goes to the nodes still below their caps, in
+//    proportion to their room. Throws InputError when there is not room enough.
 //  * ResampleMethod::scaled_samples: Q_k = s q(t_k), with one factor s making the trapezoid
 //    volume equal the original volume. Never negative; per-interval volumes are approximate,
 //    and every value, base flow included, is scaled.
@@ -36,9 +40,9 @@ namespace freshet::io {
 
 enum class ResampleMethod { interval_volumes, local_correction, scaled_samples };
 
-// Precondition: dt_s > 0, n_intervals >= 1. Throws InputError when the interval-volume or
-// locally corrected solution would be negative (see above) or when scaled_samples meets a zero
-// sample sum with a non-zero volume.
+// Precondition: dt_s > 0, n_intervals >= 1. Throws InputError when the interval-volume
+// solution would be negative (see above) or when scaled_samples meets a zero sample sum with
+// a non-zero volume.
 // `cumulative_volume`, when given, is the volume passed since some origin (m3 for a
 // discharge) at the series' own times; volumes between nodes are then its differences
 // instead of the integral of `series` (for instantaneous samples of a flow whose volumes are
