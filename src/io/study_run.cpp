@@ -1,10 +1,12 @@
 #include "freshet/io/study_run.hpp"
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
 #include <ctime>
 #include <functional>
+#include <limits>
 #include <map>
 #include <optional>
 
@@ -504,10 +506,10 @@ std::filesystem::path write_export(const Study& study,
   const auto [dt_s, n] = export_grid(study, req);
   const PiecewiseLinearSeries q = sink.series(i, "station '" + station.id + "'");
   const PiecewiseLinearSeries volume = sink.volume_series(i, "station '" + station.id + "'");
-  // The point values corrected locally by the volume their intervals miss: the routed total
-  // volume exactly, base flow untouched, never negative (io/series_resample.hpp). Exact
-  // interval volumes can ripple around a peak, so they come second; scaling is the last
-  // resort.
+  // Every form keeps the routed total volume exactly (io/series_resample.hpp); they differ
+  // in shape. The one whose peak comes closest to the routed peak is written: at a short
+  // interval that is usually the local correction (base flow untouched, peak kept), at a
+  // coarse one the scaled samples (the sampled shape, one factor).
   struct Attempt {
     ResampleMethod method;
     const char* label;
@@ -517,15 +519,24 @@ std::filesystem::path write_export(const Study& study,
        "routed volume kept: each sample corrected by the volume its two intervals miss"},
       {ResampleMethod::interval_volumes, "routed volume kept in every interval"},
       {ResampleMethod::scaled_samples, "routed volume kept by scaling the samples"}};
+  const double routed_peak_m3s = summary.stations[i].peak_discharge_m3s;
   std::optional<PiecewiseLinearSeries> r;
   std::string method;
+  double best_miss = std::numeric_limits<double>::infinity();
   for (const Attempt& a : attempts) {
     try {
-      r = resample_preserving_volume(q, 0.0, dt_s, n, a.method, &volume);
-      method = a.label;
-      break;
+      PiecewiseLinearSeries candidate =
+          resample_preserving_volume(q, 0.0, dt_s, n, a.method, &volume);
+      const auto values = candidate.values();
+      const double miss =
+          std::abs(*std::max_element(values.begin(), values.end()) - routed_peak_m3s);
+      if (miss < best_miss) {
+        best_miss = miss;
+        r = std::move(candidate);
+        method = a.label;
+      }
     } catch (const InputError&) {
-      if (a.method == ResampleMethod::scaled_samples) throw;
+      if (a.method == ResampleMethod::scaled_samples && !r) throw;
     }
   }
   SeriesTable table;
@@ -535,7 +546,6 @@ std::filesystem::path write_export(const Study& study,
   table.metadata = {"station " + station.id + " (" + station.name + "), storm " + req.storm_id +
                         (req.scenario_id.empty() ? ", base" : ", scenario " + req.scenario_id),
                     "resampled to " + format_value(dt_s) + " s: " + method};
-  const double routed_peak_m3s = summary.stations[i].peak_discharge_m3s;
   const double exported_peak_m3s = *std::max_element(r->values().begin(), r->values().end());
   const double change = exported_peak_m3s / routed_peak_m3s - 1.0;
   if (routed_peak_m3s > 0.0 && std::abs(change) > kExportPeakTolerance) {
