@@ -30,6 +30,9 @@ void CulvertCrossing::build_rating(double top_stage_m, int points) {
     stage_m_.push_back(invert + (top_stage_m - invert) * k / (points - 1.0));
   stage_m_.push_back(invert + culvert_.spec().rise_m);
   if (road_) stage_m_.push_back(road_->lowest_crest_stage_m());
+  // The barrels start to flow where the pond rises above a tailwater: a node there keeps the
+  // interpolated rating at zero up to it (a pond standing at the tailwater does not flow).
+  if (tailwater_m_) stage_m_.push_back(*tailwater_m_);
   std::sort(stage_m_.begin(), stage_m_.end());
   stage_m_.erase(std::remove_if(stage_m_.begin(), stage_m_.end(),
                                 [&](double h) { return h < invert || h > top_stage_m; }),

@@ -247,5 +247,18 @@ TEST(CulvertCrossing, AboveTheRatingTheBarrelsFollowTheirEquations) {
   EXPECT_TRUE(xing.beyond_rating(104.0));
 }
 
+// A pond standing at a tailwater above the inlet invert has no head across the barrels:
+// the rating is zero there (continuity: no flow without a difference in level), and flows
+// once the pond rises above it.
+TEST(CulvertCrossing, NoFlowWhileThePondStandsAtTheTailwater) {
+  const Culvert pipe(concrete_pipe(1.2, 30.0, 0.3), "xing");
+  const double tailwater = 100.4537;  // between the uniform rating stages (0.0125 m apart)
+  const CulvertCrossing xing(pipe, std::nullopt, tailwater, 105.0, "crossing 'low-weir'");
+  EXPECT_EQ(pipe.discharge_for_headwater_m3s(tailwater, tailwater), 0.0);
+  EXPECT_EQ(xing.barrel_discharge_m3s(tailwater), 0.0);
+  EXPECT_EQ(xing.barrel_discharge_m3s(tailwater - 0.1), 0.0);
+  EXPECT_GT(xing.barrel_discharge_m3s(tailwater + 0.2), 0.0);
+}
+
 }  // namespace
 }  // namespace freshet::network::structures
