@@ -85,7 +85,9 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   std::cout << study.settings().title << "\nComparison of the base network";
   for (std::size_t k = 1; k < scenarios.size(); ++k) std::cout << (k == 1 ? " with " : ", ") << scenarios[k];
   std::cout << "\n";
-  for (const auto& s : study.scenarios()) std::cout << "  " << s.id << ": " << s.description << "\n";
+  for (std::size_t k = 1; k < scenarios.size(); ++k) {
+    std::cout << "  " << scenarios[k] << ": " << study.scenario(scenarios[k]).description << "\n";
+  }
   for (std::size_t j = 0; j < storms.size(); ++j) {
     std::vector<const io::RunOutcome*> group;
     for (std::size_t k = 0; k < scenarios.size(); ++k) group.push_back(&runs[j * scenarios.size() + k]);

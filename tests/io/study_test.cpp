@@ -479,6 +479,16 @@ file = "gauge.csv"
   EXPECT_TRUE(has_line(early.what, early.basin.string() + ":",
                        {"storm 'gauge'", "starts at t = -30 min, before the study start"}))
       << early.what;
+  // Rows before time 0 that carry no rain lose nothing: accepted.
+  Fixture dry_lead(kHead + kGoodNetwork + R"(
+[[storm]]
+id = "gauge"
+method = "series"
+file = "gauge.csv"
+)",
+                   {{"flow.csv", kSteadyCsv},
+                    {"gauge.csv", "time_min,intensity_mm_per_h\n-10,0\n0,0\n10,30\n20,0\n"}});
+  EXPECT_TRUE(dry_lead.problems().empty()) << dry_lead.what;
 }
 
 // IDF-table problems quote the values and units as typed, at the offending item.

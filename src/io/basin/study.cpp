@@ -140,7 +140,7 @@ std::optional<Problem> check_storm_within_run(const hydrology::Hyetograph& rain,
   const auto depth = [&u](double m) {
     return format_fixed(m / u.rain_depth_m(1.0), u.us() ? 2 : 1) + " " + u.depth_unit();
   };
-  if (rain.start_s() < 0.0) {
+  if (rain.start_s() < 0.0 && rain.cumulative_depth_m(0.0) > 0.0) {
     r.report_here("starts at t = " + format_fixed(rain.start_s() / 60.0, 0) +
                   " min, before the study start: " + depth(rain.cumulative_depth_m(0.0)) +
                   " of its " + depth(rain.total_depth_m()) + " would fall before the run "
