@@ -45,8 +45,9 @@ struct StormDefinition {
   std::string id;
   std::string description;  // e.g. "alternating block, 60 min, 5 min blocks"
   hydrology::Hyetograph rain;
-  // Set when some of the storm's rain falls after the run ends: routing this storm is refused
-  // with this problem (other storms of the file still run); `freshet check` warns.
+  // Set when some of the storm's rain falls after the run ends: a command that would route
+  // this storm stops with this problem before routing anything (the file's other storms can
+  // still be routed on their own, with --storm); `freshet check` warns.
   std::optional<Problem> ends_after_run;
 };
 
