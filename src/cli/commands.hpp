@@ -5,6 +5,7 @@
 
 #include <CLI/CLI.hpp>
 #include <functional>
+#include <string>
 
 namespace freshet::cli {
 
@@ -20,6 +21,9 @@ enum ExitCode : int {
 
 struct GlobalOptions {
   bool quiet = false;  // no progress on stderr
+  // The command line as typed (program name "freshet", arguments with spaces quoted), for
+  // the NetCDF history attribute.
+  std::string command_line;
 };
 
 using Action = std::function<int()>;

@@ -74,7 +74,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   for (const auto& storm : storms) {
     for (const auto& scenario : scenarios) {
       requests.push_back({scenario, storm, options.out_dir, options.overwrite,
-                          "freshet compare " + a.basin,
+                          global.command_line,
                           std::string("freshet ") + FRESHET_VERSION, {}, 0.0, {}});
     }
   }

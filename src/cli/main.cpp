@@ -15,6 +15,12 @@ int main(int argc, char** argv) {
   app.require_subcommand(1);
   app.fallthrough();  // global flags (--quiet) may also follow the subcommand
   GlobalOptions global;
+  global.command_line = "freshet";
+  for (int k = 1; k < argc; ++k) {
+    const std::string arg = argv[k];
+    const bool quote = arg.empty() || arg.find_first_of(" \t'\"") != std::string::npos;
+    global.command_line += quote ? " '" + arg + "'" : " " + arg;
+  }
   app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
   Action action;
   add_route_command(app, global, action);

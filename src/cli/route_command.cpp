@@ -19,17 +19,6 @@ struct RouteArgs : RunArgs {
   std::vector<std::string> profiles;
 };
 
-std::string command_line(const RouteArgs& a) {
-  std::string s = "freshet route " + a.basin;
-  for (const auto& st : a.storms) s += " --storm " + st;
-  if (!a.scenario.empty()) s += " --scenario " + a.scenario;
-  if (!a.out_dir.empty()) s += " --out " + a.out_dir;
-  if (a.overwrite) s += " --overwrite";
-  for (const auto& e : a.exports) s += " --export " + e;
-  for (const auto& p : a.profiles) s += " --profile " + p;
-  return s;
-}
-
 int route(const RouteArgs& a, const GlobalOptions& global) {
   const io::Study study = io::Study::load(a.basin);
   if (!a.scenario.empty()) (void)study.scenario(a.scenario);  // InputError if unknown
@@ -37,7 +26,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   const BatchOptions options = batch_options(a, global.quiet);
   std::vector<io::RunRequest> requests;
   for (const auto& storm : storms) {
-    requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, command_line(a),
+    requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, global.command_line,
                         std::string("freshet ") + FRESHET_VERSION, a.exports,
                         a.export_interval_min * 60.0, a.profiles});
   }

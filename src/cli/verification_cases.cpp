@@ -313,7 +313,9 @@ CaseValues ponce_kinematic_number() {
 // FHWA HDS-5 (Schall et al. 2012), Appendix A, submerged inlet control
 // HW/D = c (K_u Q / (A D^0.5))^2 + Y - 0.5 S with K_u = 1.811 (SI) and Table A.1 constants
 // c = 0.0398, Y = 0.67 for a concrete pipe, square edge with headwall. D = 1.2 m, S = 0.01,
-// Q = 3 m3/s (evaluated by hand, as tests/network/structures).
+// Q = 3 m3/s. The form is evaluated here with the Table A.1 constants (recalled, then matched
+// against a third-party reproduction of Table A.1; HDS-5 original not at hand), as in
+// tests/network/structures.
 CaseValues hds5_inlet_control_headwater() {
   using namespace network::structures;
   CulvertSpec spec;
@@ -393,7 +395,8 @@ const VerificationCase kCases[] = {
      linear_reservoir_outflow},
     {"hds5-inlet-control", "network", "submerged inlet-control headwater, 1.2 m concrete pipe",
      "m", 1e-6, TK::absolute,
-     "FHWA HDS-5 (Schall et al. 2012) Appendix A, submerged form, Table A.1",
+     "FHWA HDS-5 (Schall et al. 2012) Appendix A, submerged form; Table A.1 constants "
+     "recalled, matched against a third-party copy",
      hds5_inlet_control_headwater},
     {"chow-8.2-detention-peak", "network", "peak outflow of the 1-acre detention example",
      "cfs", 0.5, TK::absolute,

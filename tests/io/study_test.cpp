@@ -1002,8 +1002,8 @@ TEST(StudyPhysics, DemoBasinConservesVolume) {
 
 // (c) A detention basin with one free-flowing rectangular weir under a constant inflow
 // settles where the weir passes the inflow: Q = C L H^1.5, so H = (Q / (C L))^(2/3)
-// (weir equation, Chow 1959, Open-Channel Hydraulics, sec. 14-? ; Brater & King 1976,
-// Handbook of Hydraulics, ch. 5; equation form standard, section numbers from memory).
+// (weir equation: Chow 1959, Open-Channel Hydraulics, section number not at hand; Brater &
+// King 1976, Handbook of Hydraulics, ch. 5; equation form standard, chapter from memory).
 TEST(StudyPhysics, DetentionBasinSettlesAtTheWeirHead) {
   const double q = 2.0, c = 1.6, length = 3.0, crest = 10.0;
   Fixture f(kHead + R"(

@@ -60,8 +60,9 @@ TEST(Culvert, CriticalDepthCircularAndBox) {
 }
 
 // Reference: part-full circular pipe under Manning's law carries at most about 1.076 times
-// its full-flow discharge, at y/D of about 0.938 (Chow 1959, Open-Channel Hydraulics,
-// sec. 6-? figure of hydraulic elements; from memory).
+// its full-flow discharge, at y/D of about 0.938 (Chow 1959, Open-Channel Hydraulics, the
+// figure of hydraulic elements of a circular section; section number not at hand; values
+// from memory).
 TEST(Culvert, NormalDepthAndLargestPartFullDischarge) {
   const Culvert pipe(concrete_pipe(1.0, 100.0, 1.0), "pipe");
   const double q_full = 1.0 / 0.012 * (kPi / 4.0) * std::pow(0.25, 2.0 / 3.0) * 0.1;
@@ -76,8 +77,10 @@ TEST(Culvert, NormalDepthAndLargestPartFullDischarge) {
 }
 
 // Reference: HDS-5 (2012) Appendix A submerged form HW/D = c (K_u Q/(A D^0.5))^2 + Y - 0.5 S,
-// K_u = 1.811, with Table A.1 constants; evaluated by hand below.
-TEST(Culvert, InletControlSubmergedByHand) {
+// K_u = 1.811, with Table A.1 constants (c = 0.0398, Y = 0.67: recalled, then matched against
+// a third-party reproduction of Table A.1; HDS-5 original not at hand). The form is evaluated
+// in the test, independently of the implementation's code path.
+TEST(Culvert, InletControlSubmergedFromTheFormula) {
   const Culvert pipe(concrete_pipe(1.2, 40.0, 0.4), "pipe");  // S = 0.01
   const double a = kPi * 1.44 / 4.0;
   const double x = 1.811 * 3.0 / (a * std::sqrt(1.2));
@@ -88,7 +91,7 @@ TEST(Culvert, InletControlSubmergedByHand) {
 // Reference: HDS-5 (2012) Appendix A unsubmerged form 1,
 // HW/D = Hc/D + K (K_u Q/(A D^0.5))^M - 0.5 S, Hc = dc + Vc^2/2g = 1.5 dc for a box;
 // box 30-75 degree wingwall flares K = 0.026, M = 1.0; two barrels share the flow.
-TEST(Culvert, InletControlUnsubmergedBoxByHand) {
+TEST(Culvert, InletControlUnsubmergedBoxFromTheFormula) {
   CulvertSpec s = concrete_pipe(1.5, 25.0, 0.25);  // S = 0.01
   s.shape = BarrelShape::box;
   s.span_m = 2.0;
@@ -136,8 +139,8 @@ TEST(Culvert, SiAndUsInletControlFormsAgreeToTheRoundingOfKu) {
 }
 
 // Reference: HDS-5 (2012) ch. 3 outlet control with the outlet submerged:
-// HW = TW + (1 + k_e + 2 g n^2 L / R^(4/3)) V^2 / 2g - L S (energy equation, by hand).
-TEST(Culvert, OutletControlFullFlowEnergyEquationByHand) {
+// HW = TW + (1 + k_e + 2 g n^2 L / R^(4/3)) V^2 / 2g - L S (energy equation, evaluated in the test).
+TEST(Culvert, OutletControlFullFlowFromTheEnergyEquation) {
   const Culvert pipe(concrete_pipe(1.2, 40.0, 0.2), "pipe");
   const double q = 3.0, a = kPi * 1.44 / 4.0, r = 0.3, v = q / a;
   const double tw_depth = 1.7;  // above the crown at the outlet
