@@ -35,5 +35,13 @@ grep -q 'green-ampt-ponding-time' "$dir/stderr.txt" || fail "failing case not na
 grep -q '^green-ampt-ponding-time .* FAIL ' "$dir/report.txt" || fail "case not marked FAIL"
 grep -q "^$((cases - 1)) passed, 1 failed\$" "$dir/report.txt" || fail "closing count wrong"
 grep -q 'SELF-TEST' "$dir/report.txt" || fail "perturbed report not marked as self-test"
+# An existing report is refused before any case runs, and left as it was.
+before=$(cksum < "$report")
+"$freshet" verify --out "$report" > "$dir/again.txt" 2>&1
+status=$?
+[ "$status" -eq 4 ] || fail "verify over an existing report exited $status, expected 4"
+grep -q 'already exists' "$dir/again.txt" || fail "refusal not explained"
+grep -q 'passed, 0 failed' "$dir/again.txt" && fail "cases ran before the refusal"
+[ "$(cksum < "$report")" = "$before" ] || fail "existing report changed"
 echo "verify_report_test: passed"
 exit 0
