@@ -341,10 +341,18 @@ void add_warnings(const network::Model& model,
       }
     }
     if (reach->capacity_steps() > 0) {
-      summary.warnings.push_back(
-          {model.links[i].id,
-           "conduit reached its part-full capacity; surcharge is not "
-           "represented and inflow above capacity is held back in the reach"});
+      std::string message =
+          "conduit reached its part-full capacity; surcharge is not represented and inflow "
+          "above capacity is held back in the reach";
+      if (reach->peak_volume_above_full_m3() > 0.0) {
+        message += ": it held up to " + format_fixed(reach->peak_volume_above_full_m3(), 0) +
+                   " m3 above its full volume of " + format_fixed(reach->full_volume_m3(), 0) +
+                   " m3 (at t = " +
+                   format_fixed(reach->time_of_peak_volume_above_full_s() / 60.0, 0) +
+                   " min), water that would in fact surcharge the pipe or flood at manholes; "
+                   "flows below it are delayed and lowered accordingly";
+      }
+      summary.warnings.push_back({model.links[i].id, std::move(message)});
     }
     add_backwater_warning(model, sink, stations, i, summary);
   }

@@ -15,12 +15,19 @@ ReachElement::ReachElement(std::string id,
     : Element(std::move(id), ElementKind::reach),
       section_(std::move(section)),
       reach_(std::move(reach)),
-      outlet_invert_m_(outlet_invert_m) {}
+      outlet_invert_m_(outlet_invert_m) {
+  if (const auto crown = section_.section->full_depth_m()) {
+    full_area_m2_ = section_.section->area_m2(*crown);
+    full_volume_m3_ = full_area_m2_ * reach_->spec().length_m;
+  }
+}
 
 void ReachElement::reset(double /*start_s*/) {
   reach_->set_uniform_discharge(0.0);  // dry; restarts the reach's clock and ledger
   capacity_steps_ = 0;
   peak_outflow_m3s_ = 0.0;
+  peak_above_full_m3_ = 0.0;
+  peak_above_full_s_ = 0.0;
 }
 
 void ReachElement::prime(double inflow_m3s) {
@@ -48,6 +55,15 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
   const int last = reach_->spec().cell_count - 1;
   const auto areas = reach_->cell_area_m2();
   if (section_.at_capacity(*std::max_element(areas.begin(), areas.end()))) ++capacity_steps_;
+  if (full_area_m2_ > 0.0) {
+    double above_m2 = 0.0;
+    for (double a : areas) above_m2 += std::max(0.0, a - full_area_m2_);
+    const double above_m3 = above_m2 * reach_->cell_width_m();
+    if (above_m3 > peak_above_full_m3_) {
+      peak_above_full_m3_ = above_m3;
+      peak_above_full_s_ = in.t1_s;
+    }
+  }
   const double end_m3s = reach_->cell_discharge_m3s(last);
   peak_outflow_m3s_ = std::max(peak_outflow_m3s_, end_m3s);
   return {r.mean_outflow_m3s, end_m3s};
@@ -100,9 +116,15 @@ std::vector<ElementNote> ReachElement::notes() const {
     out.push_back({text});
   }
   if (capacity_steps_ > 0) {
-    out.push_back({"conduit at capacity for " + std::to_string(capacity_steps_) +
-                   " coupling step(s): surcharge is not represented by the kinematic wave; "
-                   "peak flows above capacity are held back"});
+    std::string text = "conduit at capacity for " + std::to_string(capacity_steps_) +
+                       " coupling step(s): surcharge is not represented by the kinematic wave; "
+                       "peak flows above capacity are held back";
+    if (peak_above_full_m3_ > 0.0) {
+      text += "; up to " + format_fixed(peak_above_full_m3_, 0) + " m3 above its full volume (" +
+              format_fixed(full_volume_m3_, 0) + " m3) at t = " +
+              format_fixed(peak_above_full_s_ / 60.0, 0) + " min";
+    }
+    out.push_back({text});
   }
   return out;
 }

@@ -189,6 +189,32 @@ TEST(RunExports, VolumeIsTheRoutedVolumeAndACutPeakIsPointedOut) {
   EXPECT_TRUE(export_run(60.0));   // hourly samples of a 2.5-hour flood: about 20 % low
 }
 
+// A 600 mm pipe (n 0.013, S 0.005) carries at most about 1.076 x its full-flow discharge
+// Q_full = (1/n)(pi D^2/4)(D/4)^(2/3) S^(1/2) = 0.434 m3/s, i.e. about 0.467 m3/s (Chow 1959,
+// circular-section hydraulic elements, from memory). Fed 1.2 m3/s for an hour, it cannot pass
+// about (1.2 - 0.467) x 3600 = 2640 m3; a kinematic pipe keeps that water, and the summary
+// must say how much it held above its full volume (pi 0.3^2 x 200 = 56.5 m3).
+TEST(RunSummary, ASurchargedPipeReportsTheVolumeItHeldAboveFull) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.1\n1,1.2\n61,1.2\n62,0.1\n240,0.1\n");
+  const RunOutcome r = run(dir, head(4.0) +
+      "[[inflow]]\nid = \"up\"\nto = \"pipe\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"pipe\"\nto = \"out\"\nlength = 200.0\nslope = 0.005\n"
+      "manning_n = 0.013\nsection = { shape = \"circular\", diameter = 0.6 }\n"
+      "[[outlet]]\nid = \"out\"\n");
+  const ApplicabilityWarning* w = nullptr;
+  for (const auto& x : r.summary.warnings) {
+    if (x.element == "pipe" && x.message.find("above its full volume") != std::string::npos) w = &x;
+  }
+  ASSERT_NE(w, nullptr) << "no surcharge volume reported";
+  const auto at = w->message.find("held up to ");
+  ASSERT_NE(at, std::string::npos);
+  const double held_m3 = std::stod(w->message.substr(at + 11));
+  EXPECT_GT(held_m3, 0.9 * (1.2 - 0.467) * 3600.0 - 56.5);
+  EXPECT_LT(held_m3, 1.02 * (1.2 - 0.467) * 3600.0);
+  EXPECT_NE(w->message.find("full volume of 57 m3"), std::string::npos) << w->message;
+}
+
 // The planned file list is exactly what a run writes, so an existing result can be refused
 // before any routing; without --overwrite a second run stops at once and leaves the first
 // run's files untouched.

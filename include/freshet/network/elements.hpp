@@ -37,6 +37,13 @@ class ReachElement final : public Element {
   // Coupling steps at whose end some cell held the conduit's capacity area (the kinematic
   // wave at its limit: surcharge is not represented).
   [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
+  // Closed conduits: the conduit's full volume (full area x length), and the largest volume
+  // held above the full area (summed over cells, at coupling-step ends) with its time. A
+  // kinematic conduit cannot surcharge, so water it cannot pass stays in it; in a real system
+  // that water would pressurise the pipe or leave at manholes. 0 for open channels.
+  [[nodiscard]] double full_volume_m3() const { return full_volume_m3_; }
+  [[nodiscard]] double peak_volume_above_full_m3() const { return peak_above_full_m3_; }
+  [[nodiscard]] double time_of_peak_volume_above_full_s() const { return peak_above_full_s_; }
   // The reach's kinematic shocks that matter to the flood, in order of formation: each one's
   // discharge jump at formation is at least kSignificantShockFraction of the reach's peak
   // outflow. Small fronts (the first trickle running onto a dry bed) are left out.
@@ -49,6 +56,10 @@ class ReachElement final : public Element {
   std::optional<double> outlet_invert_m_;
   long capacity_steps_ = 0;
   double peak_outflow_m3s_ = 0.0;  // at step ends, for the significance of shocks
+  double full_area_m2_ = 0.0;      // 0 for open sections
+  double full_volume_m3_ = 0.0;
+  double peak_above_full_m3_ = 0.0;
+  double peak_above_full_s_ = 0.0;
 };
 
 // A subcatchment: rain, losses and overland planes. Its station reports the runoff, the
