@@ -86,9 +86,13 @@ std::vector<const routing::ShockReport*> ReachElement::significant_shocks() cons
   std::vector<const routing::ShockReport*> out;
   for (const routing::ShockReport& shock : reach_->shock_reports()) {
     if (!shock.formed || shock.path.empty()) continue;
-    const routing::ShockSample& first = shock.path.front();
-    const double jump_m3s = geometry::discharge_m3s(section_.flux, first.area_left_m2) -
-                            geometry::discharge_m3s(section_.flux, first.area_right_m2);
+    // A kinematic shock is born with no jump and grows as characteristics run into it: its
+    // largest jump along its path is what the flood sees.
+    double jump_m3s = 0.0;
+    for (const routing::ShockSample& at : shock.path) {
+      jump_m3s = std::max(jump_m3s, geometry::discharge_m3s(section_.flux, at.area_left_m2) -
+                                        geometry::discharge_m3s(section_.flux, at.area_right_m2));
+    }
     if (jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_) out.push_back(&shock);
   }
   return out;

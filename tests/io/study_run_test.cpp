@@ -215,6 +215,30 @@ TEST(RunSummary, ASurchargedPipeReportsTheVolumeItHeldAboveFull) {
   EXPECT_NE(w->message.find("full volume of 57 m3"), std::string::npos) << w->message;
 }
 
+// A shock is born with no jump and grows as characteristics run into it, so it must be judged
+// by its largest jump, not its first. A 1 -> 40 -> 1 m3/s triangle (rise 10-20 min) into a
+// 5 km wide channel (b 20 m, S 0.001, n 0.035): the exact solution (characteristics with
+// c = dQ/dA of Manning's law and Rankine-Hugoniot shock fitting; Whitham 1974, Linear and
+// Nonlinear Waves, ch. 2), computed for this case by an independent script, has the front
+// break near 18 m at 10.7 min and reach the outlet at 83.6 min as a jump from 1 to 28.0 m3/s.
+TEST(RunSummary, AShockThatGrowsIntoTheFloodFrontIsListed) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1\n10,1\n20,40\n60,1\n180,1\n");
+  const RunOutcome r = run(dir, head(3.0) +
+      "[[inflow]]\nid = \"up\"\nto = \"ch\"\nfile = \"q.csv\"\n"
+      "[[reach]]\nid = \"ch\"\nto = \"out\"\nlength = 5000.0\nslope = 0.001\n"
+      "manning_n = 0.035\nsection = { shape = \"rectangular\", bottom_width = 20.0 }\n"
+      "cells = 100\n[[outlet]]\nid = \"out\"\n");
+  ASSERT_EQ(r.summary.shocks.size(), 1u);
+  const ShockRecord& shock = r.summary.shocks.front();
+  EXPECT_EQ(shock.element, "ch");
+  EXPECT_NE(shock.message.find("reached the outlet at t = 8"), std::string::npos)
+      << shock.message;
+  const auto at = shock.message.find("reached the outlet at t = ");
+  ASSERT_NE(at, std::string::npos);
+  EXPECT_NEAR(std::stod(shock.message.substr(at + 26)), 83.6, 2.0) << shock.message;
+}
+
 // The planned file list is exactly what a run writes, so an existing result can be refused
 // before any routing; without --overwrite a second run stops at once and leaves the first
 // run's files untouched.

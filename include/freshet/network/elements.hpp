@@ -45,8 +45,9 @@ class ReachElement final : public Element {
   [[nodiscard]] double peak_volume_above_full_m3() const { return peak_above_full_m3_; }
   [[nodiscard]] double time_of_peak_volume_above_full_s() const { return peak_above_full_s_; }
   // The reach's kinematic shocks that matter to the flood, in order of formation: each one's
-  // discharge jump at formation is at least kSignificantShockFraction of the reach's peak
-  // outflow. Small fronts (the first trickle running onto a dry bed) are left out.
+  // largest discharge jump along its path is at least kSignificantShockFraction of the
+  // reach's peak outflow. Small fronts (the first trickle running onto a dry bed) are left
+  // out.
   [[nodiscard]] std::vector<const routing::ShockReport*> significant_shocks() const;
   static constexpr double kSignificantShockFraction = 0.1;  // our criterion, no source
 
