@@ -39,9 +39,9 @@ RunWatch::RunWatch(const network::Model& model, const std::vector<StationDescrip
       area_m2_(stations.size(), 0.0),
       excess_m3_(stations.size(), 0.0),
       excess_moment_(stations.size(), 0.0),
-      reach_series_(stations.size()),
+      series_(stations.size()),
       start_m3s_(stations.size(), 0.0),
-      is_reach_(stations.size(), false),
+      tracked_(stations.size(), false),
       pond_below_(stations.size(), -1),
       backwater_m_(stations.size(), kNaN),
       backwater_time_s_(stations.size(), kNaN) {
@@ -56,7 +56,7 @@ RunWatch::RunWatch(const network::Model& model, const std::vector<StationDescrip
       }
     }
     const bool reach = model.links[i].kind == network::ElementKind::reach;
-    is_reach_[i] = reach;
+    tracked_[i] = reach || sub != nullptr;
     if (reach && down[i] >= 0 && stations[i].stage_is_elevation &&
         dynamic_cast<const network::PoolElement*>(
             model.elements[static_cast<std::size_t>(down[i])].get())) {
@@ -75,7 +75,7 @@ void RunWatch::observe(double t_s, std::span<const network::StationSample> sampl
       excess_moment_[i] += v * (t_s - 0.5 * dt_s);
     }
     if (!started_) start_m3s_[i] = samples[i].discharge_m3s;
-    if (is_reach_[i]) reach_series_[i].add(t_s, samples[i].discharge_m3s);
+    if (tracked_[i]) series_[i].add(t_s, samples[i].discharge_m3s);
     if (pond_below_[i] >= 0) {
       const double excess =
           samples[static_cast<std::size_t>(pond_below_[i])].stage_m - samples[i].stage_m;
@@ -100,7 +100,8 @@ double RunWatch::excess_centroid_s(std::size_t i) const {
 
 double RunWatch::rise_start_s(std::size_t i, double peak_time_s, double peak_m3s) const {
   const double threshold = start_m3s_[i] + 0.05 * (peak_m3s - start_m3s_[i]);
-  return reach_series_[i].last_time_at_or_below(threshold, peak_time_s);
+  if (!tracked_[i]) return kNaN;
+  return series_[i].last_time_at_or_below(threshold, peak_time_s);
 }
 
 }  // namespace freshet::io::detail

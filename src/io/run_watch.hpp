@@ -1,7 +1,8 @@
 // What a study run is watched for beyond peaks and volumes, with memory that does not grow
 // with the length of the run:
 //  * the centroid of the rainfall excess upstream of each station (for centroid lags);
-//  * when each reach's outflow began to rise towards its peak (for the Ponce number);
+//  * when each reach's or subcatchment's discharge began to rise towards its peak (for the
+//    Ponce number and the coupling-step check);
 //  * the largest rise of a pond's level above the water level at the outlet of the reach
 //    feeding it (backwater that the kinematic wave cannot carry upstream).
 #pragma once
@@ -40,8 +41,9 @@ class RunWatch {
   // Centroid time of the rainfall excess of the subcatchments upstream of station i (or the
   // station itself); NaN when no rain excess reaches it.
   [[nodiscard]] double excess_centroid_s(std::size_t i) const;
-  // When reach i's outflow last stood within 5 % of its rise (from its starting value to
-  // its peak) before the peak: the start of the rising limb.
+  // When station i's discharge last stood within 5 % of its rise (from its starting value to
+  // its peak) before the peak: the start of the rising limb. Reaches and subcatchments only
+  // (NaN for other stations).
   [[nodiscard]] double rise_start_s(std::size_t i, double peak_time_s, double peak_m3s) const;
   // For a reach draining into a pond: the largest (pond level - reach outlet level) over the
   // run and when it occurred; excess <= 0 means no backwater. NaN when not applicable.
@@ -52,9 +54,9 @@ class RunWatch {
   std::vector<std::vector<std::size_t>> upstream_subcatchments_;  // per station
   std::vector<double> area_m2_;                                   // per subcatchment station
   std::vector<double> excess_m3_, excess_moment_;                 // per subcatchment station
-  std::vector<DecimatedSeries> reach_series_;                     // per station (reaches only)
+  std::vector<DecimatedSeries> series_;  // per station (reaches and subcatchments only)
   std::vector<double> start_m3s_;
-  std::vector<bool> is_reach_;
+  std::vector<bool> tracked_;
   std::vector<std::ptrdiff_t> pond_below_;                        // per reach: pool index or -1
   std::vector<double> backwater_m_, backwater_time_s_;
   double last_t_s_ = 0.0;

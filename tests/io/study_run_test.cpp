@@ -239,6 +239,27 @@ TEST(RunSummary, AShockThatGrowsIntoTheFloodFrontIsListed) {
   EXPECT_NEAR(std::stod(shock.message.substr(at + 26)), 83.6, 2.0) << shock.message;
 }
 
+// A paved 3 ha car park on a 40 m plane answers rain within minutes (Wooding 1965: t_e of
+// about 2 min here). With 15-minute coupling steps its rise spans fewer than two steps and
+// the run must say so; with the default 60 s steps it does not.
+TEST(RunSummary, ACouplingStepLongerThanARiseIsPointedOut) {
+  const auto warned = [](double coupling_s) {
+    TempDir dir;
+    const RunOutcome r = run(dir,
+        "[study]\ntitle = \"coupling\"\nunits = \"si\"\nduration_h = 3.0\n"
+        "output_interval_min = 15.0\ncoupling_step_s = " + std::to_string(coupling_s) + "\n"
+        "[[storm]]\nid = \"s1\"\nmethod = \"alternating-block\"\nduration_min = 30\n"
+        "step_min = 5\nidf = { a = 1300.0, b = 10.0, c = 0.75 }\n"
+        "[[subcatchment]]\nid = \"car-park\"\nto = \"out\"\narea = 3.0\n"
+        "loss = { method = \"none\", impervious_fraction = 1.0 }\n"
+        "[[subcatchment.plane]]\nlength = 40.0\nslope = 0.02\nmanning_n = 0.012\ncells = 40\n"
+        "[[outlet]]\nid = \"out\"\n");
+    return has_warning(r, "car-park", "less than two coupling steps");
+  };
+  EXPECT_TRUE(warned(900.0));
+  EXPECT_FALSE(warned(60.0));
+}
+
 // The planned file list is exactly what a run writes, so an existing result can be refused
 // before any routing; without --overwrite a second run stops at once and leaves the first
 // run's files untouched.

@@ -514,6 +514,15 @@ idf_table = { durations_min = [5, 15, 30], intensities = [4.0, 1.2, 0.5] }
   EXPECT_EQ(f.what.find("e-0"), std::string::npos) << "no SI values: " << f.what;
 }
 
+TEST(StudyLoad, ImplicitCourantMustBePositive) {
+  std::string head = kHead;
+  head.replace(head.find("output_interval_min"), 0, "implicit_courant = -1.0\n");
+  Fixture f(head + kGoodNetwork);
+  ASSERT_FALSE(f.problems().empty());
+  EXPECT_TRUE(has_line(f.what, f.at("implicit_courant"), {"'implicit_courant' = -1", "> 0"}))
+      << f.what;
+}
+
 TEST(StudyLoad, UnknownStormOrScenarioIdAsked) {
   Fixture f(kHead + kGoodNetwork);
   const Study study = Study::load(f.basin);
