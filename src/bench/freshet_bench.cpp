@@ -121,8 +121,18 @@ void bench_law(const char* name, const Law& law, int cells, double base_q, int r
 }  // namespace
 
 int main(int argc, char** argv) {
-  const int cells = argc > 1 ? std::atoi(argv[1]) : 20000;
-  const int repeats = argc > 2 ? std::atoi(argv[2]) : 3;
+  const auto positive = [](const char* text, int fallback) {
+    char* end = nullptr;
+    const long v = std::strtol(text, &end, 10);
+    return (end && *end == '\0' && v > 0 && v <= 10'000'000) ? static_cast<int>(v) : -fallback;
+  };
+  const int cells = argc > 1 ? positive(argv[1], 1) : 20000;
+  const int repeats = argc > 2 ? positive(argv[2], 1) : 3;
+  if (argc > 3 || cells < 0 || repeats < 0) {
+    std::printf("usage: freshet-bench [CELLS [REPEATS]]   (defaults 20000 and 3; positive "
+                "integers)\nTimes the routing schemes on a long reach; see docs/performance.md.\n");
+    return argc > 1 && (std::string(argv[1]) == "--help" || std::string(argv[1]) == "-h") ? 0 : 1;
+  }
   std::printf("freshet-bench: %d cells (dx = 10 m), best of %d; step cost relative to explicit\n",
               cells, repeats);
   const double slope = 0.002;
