@@ -63,10 +63,11 @@ class StudySink final : public network::RecordSink {
     }
     for (std::size_t i = 0; i < samples.size(); ++i) {
       const StationSample& s = samples[i];
-      if (acc_[i].sample_count() == 0 || s.discharge_m3s > acc_[i].peak_discharge_m3s()) {
+      const double peak_time_before = acc_[i].peak_time_s();
+      acc_[i].add_sample(time_s, s.discharge_m3s, s.stage_m);
+      if (acc_[i].sample_count() == 1 || acc_[i].peak_time_s() != peak_time_before) {
         at_peak_[i] = s;
       }
-      acc_[i].add_sample(time_s, s.discharge_m3s, s.stage_m);
     }
   }
 

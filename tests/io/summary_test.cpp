@@ -44,6 +44,21 @@ TEST(SummaryAccumulator, TriangleVolumeCentroidAndPeakMatchGeometry) {
   EXPECT_NEAR(s.centroid_lag_s, (kPeakTime + kBase) / 3.0 - 1000.0, 1e-9 * kBase);
 }
 
+// A flat-topped hydrograph peaks where the top is first reached, even when round-off makes
+// later samples of the plateau larger in the last digits; a real rise still moves the peak.
+TEST(SummaryAccumulator, PeakTimeOfAPlateauIsWhereItIsFirstReached) {
+  SummaryAccumulator acc;
+  acc.add_sample(0.0, 0.2);
+  acc.add_sample(60.0, 0.7027);
+  acc.add_sample(120.0, 0.7027 * (1.0 + 3e-13));
+  acc.add_sample(180.0, 0.7027 * (1.0 + 8e-13));
+  acc.add_sample(240.0, 0.5);
+  EXPECT_EQ(acc.peak_time_s(), 60.0);
+  EXPECT_EQ(acc.peak_discharge_m3s(), 0.7027 * (1.0 + 8e-13));  // the value is the largest
+  acc.add_sample(300.0, 0.71);
+  EXPECT_EQ(acc.peak_time_s(), 300.0);
+}
+
 TEST(SummaryAccumulator, HandedInVolumesTakePrecedence) {
   SummaryAccumulator acc;
   acc.add_sample(0.0, 0.0);
