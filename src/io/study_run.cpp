@@ -424,6 +424,16 @@ RunSummary summarise(const Study& study,
   add_warnings(model, sink, stations, s);
   add_end_of_run_warnings(sink, stations, s);
   add_coupling_step_warnings(sink, stations, study.settings().coupling_step_s, s);
+  // Each element's warnings together, in network order.
+  std::map<std::string, std::size_t, std::less<>> order;
+  for (std::size_t i = 0; i < stations.size(); ++i) order.emplace(stations[i].id, i);
+  std::stable_sort(s.warnings.begin(), s.warnings.end(),
+                   [&order](const ApplicabilityWarning& a, const ApplicabilityWarning& b) {
+                     const auto ia = order.find(a.element), ib = order.find(b.element);
+                     const std::size_t ka = ia == order.end() ? order.size() : ia->second;
+                     const std::size_t kb = ib == order.end() ? order.size() : ib->second;
+                     return ka < kb;
+                   });
   return s;
 }
 
