@@ -34,14 +34,24 @@ const std::string kChannel =
     "length = 1200.0\nslope = 0.002\nmanning_n = 0.03\n"
     "section = { shape = \"rectangular\", bottom_width = 4.0 }\n";
 
-RunOutcome run(const TempDir& dir, const std::string& basin_text) {
-  write_text(dir / "b.toml", basin_text);
-  const Study study = Study::load(dir / "b.toml");
+// The request every test starts from: storm s1, results under dir/out.
+RunRequest request_in(const TempDir& dir) {
   RunRequest req;
   req.storm_id = "s1";
   req.out_dir = dir / "out";
   req.source = "freshet test";
-  return run_study(study, req);
+  return req;
+}
+
+RunOutcome run(const TempDir& dir, const std::string& basin_text) {
+  write_text(dir / "b.toml", basin_text);
+  return run_study(Study::load(dir / "b.toml"), request_in(dir));
+}
+
+// An inflow hydrograph q.csv into reach r1 (kChannel) draining to outlet out.
+std::string spring_reach_outlet() {
+  return "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
+         "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n";
 }
 
 const StationSummary& station(const RunOutcome& r, const std::string& id) {
@@ -149,9 +159,7 @@ TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
 // A run that ends while the flood is still rising warns at every station still at its peak;
 // the same flood in a long enough run does not.
 TEST(RunSummary, WarnsWhenTheRunEndsBeforeThePeak) {
-  const std::string network =
-      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
-      "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n";
+  const std::string network = spring_reach_outlet();
   TempDir short_dir, long_dir;
   for (const TempDir* d : {&short_dir, &long_dir}) {
     write_text(*d / "q.csv", "time_min,discharge_m3s\n0,1.0\n90,8.0\n180,1.0\n300,1.0\n");
@@ -168,14 +176,9 @@ TEST(RunExports, VolumeIsTheRoutedVolumeAndACutPeakIsPointedOut) {
   const auto export_run = [](double interval_min) {
     TempDir dir;
     write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n62,9.0\n150,0.5\n180,0.5\n");
-    write_text(dir / "b.toml", head(3.0) +
-        "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
-        "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n");
+    write_text(dir / "b.toml", head(3.0) + spring_reach_outlet());
     const Study study = Study::load(dir / "b.toml");
-    RunRequest req;
-    req.storm_id = "s1";
-    req.out_dir = dir / "out";
-    req.source = "freshet test";
+    RunRequest req = request_in(dir);
     req.export_stations = {"out"};
     req.export_interval_s = interval_min * 60.0;
     const RunOutcome r = run_study(study, req);
@@ -266,14 +269,9 @@ TEST(RunSummary, ACouplingStepLongerThanARiseIsPointedOut) {
 TEST(RunOutputs, PlannedFilesAreWrittenAndAnExistingResultStopsTheRunFirst) {
   TempDir dir;
   write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1.0\n60,3.0\n120,1.0\n");
-  write_text(dir / "b.toml", head(2.0) +
-      "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
-      "[[reach]]\nid = \"r1\"\nto = \"out\"\n" + kChannel + "[[outlet]]\nid = \"out\"\n");
+  write_text(dir / "b.toml", head(2.0) + spring_reach_outlet());
   const Study study = Study::load(dir / "b.toml");
-  RunRequest req;
-  req.storm_id = "s1";
-  req.out_dir = dir / "out";
-  req.source = "freshet test";
+  RunRequest req = request_in(dir);
   req.export_stations = {"out"};
   req.profile_reaches = {"r1"};
   const RunOutcome first = run_study(study, req);
