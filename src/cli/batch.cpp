@@ -1,14 +1,18 @@
 #include "batch.hpp"
 
+#include <algorithm>
 #include <atomic>
 #include <cmath>
 #include <cstdio>
 #include <exception>
+#include <filesystem>
 #include <mutex>
+#include <set>
 #include <sstream>
 #include <thread>
 
 #include "freshet/core/caution.hpp"
+#include "freshet/core/error.hpp"
 #include "progress.hpp"
 
 namespace freshet::cli {
@@ -33,7 +37,7 @@ BatchOptions batch_options(const RunArgs& args, bool quiet) {
 }
 
 std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args) {
-  std::vector<std::string> storms = args.storms;
+  std::vector<std::string> storms = unique_in_order(args.storms);
   if (storms.empty()) {
     for (const auto& s : study.storms()) storms.push_back(s.id);
   }
@@ -41,12 +45,28 @@ std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args) 
   return storms;
 }
 
+std::vector<std::string> unique_in_order(const std::vector<std::string>& items) {
+  std::vector<std::string> out;
+  for (const auto& item : items) {
+    if (std::find(out.begin(), out.end(), item) == out.end()) out.push_back(item);
+  }
+  return out;
+}
+
 std::vector<io::RunOutcome> run_batch(const io::Study& study,
                                       const std::vector<io::RunRequest>& requests,
                                       const BatchOptions& options) {
   // Refuse before any routing when a run would meet an existing result (without --overwrite)
   // or route a storm that outlasts the run.
-  for (const auto& request : requests) io::check_run_request(study, request);
+  std::set<std::filesystem::path> planned;
+  for (const auto& request : requests) {
+    io::check_run_request(study, request);
+    for (const auto& path : io::planned_output_files(study, request)) {
+      if (!planned.insert(path).second) {
+        throw IoError("two runs of this command would both write '" + path.string() + "'");
+      }
+    }
+  }
   const std::size_t n = requests.size();
   std::vector<io::RunOutcome> results(n);
   std::vector<std::exception_ptr> errors(n);

@@ -34,6 +34,9 @@ void add_run_options(CLI::App* cmd, RunArgs& args);
 BatchOptions batch_options(const RunArgs& args, bool quiet);
 // The storms to run, each checked to exist (InputError names an unknown one).
 std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args);
+// The items without repeats, in their first order (a storm or station named twice on the
+// command line is run or exported once).
+std::vector<std::string> unique_in_order(const std::vector<std::string>& items);
 
 // Runs every request; results come back in request order. The first failure (by request
 // order) is rethrown after all threads have stopped; outputs of completed runs stay.

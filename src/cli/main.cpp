@@ -18,8 +18,13 @@ int main(int argc, char** argv) {
   global.command_line = "freshet";
   for (int k = 1; k < argc; ++k) {
     const std::string arg = argv[k];
-    const bool quote = arg.empty() || arg.find_first_of(" \t'\"") != std::string::npos;
-    global.command_line += quote ? " '" + arg + "'" : " " + arg;
+    if (!arg.empty() && arg.find_first_of(" \t'\"\\$") == std::string::npos) {
+      global.command_line += " " + arg;
+      continue;
+    }
+    std::string quoted = "'";  // shell single quotes; a ' inside becomes '\''
+    for (char ch : arg) quoted += ch == '\'' ? std::string("'\\''") : std::string(1, ch);
+    global.command_line += " " + quoted + "'";
   }
   app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
   Action action;

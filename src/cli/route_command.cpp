@@ -27,8 +27,8 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   std::vector<io::RunRequest> requests;
   for (const auto& storm : storms) {
     requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, global.command_line,
-                        std::string("freshet ") + FRESHET_VERSION, a.exports,
-                        a.export_interval_min * 60.0, a.profiles});
+                        std::string("freshet ") + FRESHET_VERSION, unique_in_order(a.exports),
+                        a.export_interval_min * 60.0, unique_in_order(a.profiles)});
   }
   std::cout << study.settings().title << "\n"
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)

@@ -83,7 +83,10 @@ std::string format_value(double value) {
 std::string format_fixed(double value, int decimals) {
   char buf[64];
   std::snprintf(buf, sizeof buf, "%.*f", decimals, value);
-  return buf;
+  std::string text = buf;
+  // A negative value that rounds to zero prints as "-0.00": write it as "0.00".
+  if (text.front() == '-' && text.find_first_not_of("-0.") == std::string::npos) text.erase(0, 1);
+  return text;
 }
 
 void assertion_failed(const char* expression, const char* file, int line, const char* message) {

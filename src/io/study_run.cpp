@@ -378,8 +378,8 @@ void add_coupling_step_warnings(const StudySink& sink,
     if (!(rise_s < 2.0 * coupling_step_s)) continue;
     summary.warnings.push_back(
         {stations[i].id, "its discharge rises to the peak in " + format_fixed(rise_s, 0) +
-                             " s, less than two coupling steps (coupling_step_s = " +
-                             format_value(coupling_step_s) + "): the peak may be missed here "
+                             " s, less than two coupling steps (of " +
+                             format_fixed(coupling_step_s, 1) + " s): the peak may be missed here "
                              "and smoothed downstream; set coupling_step_s to at most " +
                              format_value(std::max(1.0, std::floor(rise_s / 4.0))) + " s"});
   }
@@ -423,7 +423,10 @@ RunSummary summarise(const Study& study,
   add_balances(numerics, s);
   add_warnings(model, sink, stations, s);
   add_end_of_run_warnings(sink, stations, s);
-  add_coupling_step_warnings(sink, stations, study.settings().coupling_step_s, s);
+  const StudySettings& set = study.settings();
+  const network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s,
+                                    set.coupling_step_s};
+  add_coupling_step_warnings(sink, stations, clock.coupling_step_s(), s);
   // Each element's warnings together, in network order.
   std::map<std::string, std::size_t, std::less<>> order;
   for (std::size_t i = 0; i < stations.size(); ++i) order.emplace(stations[i].id, i);
@@ -584,6 +587,10 @@ std::filesystem::path write_export(const Study& study,
     } catch (const InputError&) {
       if (a.method == ResampleMethod::scaled_samples && !r) throw;
     }
+  }
+  if (!r) {
+    throw NumericalError("hydrograph export of station '" + station.id +
+                         "': no resampled series could be formed (non-finite peak or volume)");
   }
   SeriesTable table;
   table.quantity = SeriesQuantity::discharge;

@@ -93,7 +93,9 @@ std::vector<const routing::ShockReport*> ReachElement::significant_shocks() cons
       jump_m3s = std::max(jump_m3s, geometry::discharge_m3s(section_.flux, at.area_left_m2) -
                                         geometry::discharge_m3s(section_.flux, at.area_right_m2));
     }
-    if (jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_) out.push_back(&shock);
+    if (jump_m3s > 0.0 && jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_) {
+      out.push_back(&shock);
+    }
   }
   return out;
 }

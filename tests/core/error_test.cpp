@@ -38,3 +38,18 @@ TEST(ProblemList, EmptyListDoesNotThrow) {
 
 }  // namespace
 }  // namespace freshet
+
+namespace freshet {
+namespace {
+
+// Fixed-point text never shows a negative zero ("-0.00" for a speed of -1e-17 m/s).
+TEST(FormatFixed, RoundsAndNeverPrintsNegativeZero) {
+  EXPECT_EQ(format_fixed(2.345, 2), "2.35");
+  EXPECT_EQ(format_fixed(-1e-17, 2), "0.00");
+  EXPECT_EQ(format_fixed(-0.004, 2), "0.00");
+  EXPECT_EQ(format_fixed(-0.006, 2), "-0.01");
+  EXPECT_EQ(format_fixed(-0.0, 0), "0");
+}
+
+}  // namespace
+}  // namespace freshet

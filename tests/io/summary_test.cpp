@@ -57,6 +57,14 @@ TEST(SummaryAccumulator, PeakTimeOfAPlateauIsWhereItIsFirstReached) {
   EXPECT_EQ(acc.peak_discharge_m3s(), 0.7027 * (1.0 + 8e-13));  // the value is the largest
   acc.add_sample(300.0, 0.71);
   EXPECT_EQ(acc.peak_time_s(), 300.0);
+
+  // A pipe at capacity creeping up by 1e-8 m3/s a step for 300 steps (3.8e-5 relative in
+  // all) keeps the time its top was reached.
+  SummaryAccumulator pipe;
+  pipe.add_sample(0.0, 0.01);
+  for (int k = 1; k <= 300; ++k) pipe.add_sample(60.0 * k, 0.08057 + 1e-8 * k);
+  EXPECT_EQ(pipe.peak_time_s(), 60.0);
+  EXPECT_NEAR(pipe.peak_discharge_m3s(), 0.08057 + 3e-6, 1e-15);
 }
 
 TEST(SummaryAccumulator, HandedInVolumesTakePrecedence) {

@@ -121,10 +121,14 @@ class SummaryAccumulator {
       origin_s_ = time_s;
       first_q_m3s_ = discharge_m3s;
     }
-    // On a flat top the peak is where the top is first reached: round-off along a plateau
-    // (a few parts in 1e12) must not move the peak time to its far end.
-    if (count_ == 0 || discharge_m3s > peak_q_m3s_ + kPlateauTolerance * std::abs(peak_q_m3s_)) {
+    // On a flat top the peak is where the top is first reached: round-off along a plateau,
+    // or a creep towards a limit (a pipe at capacity), must not move the peak time to its
+    // far end. A later sample moves it only when it exceeds the discharge at the current
+    // peak time by more than kPlateauTolerance.
+    if (count_ == 0 ||
+        discharge_m3s > q_at_peak_time_ + kPlateauTolerance * std::abs(q_at_peak_time_)) {
       peak_time_s_ = time_s;
+      q_at_peak_time_ = discharge_m3s;
     }
     if (count_ == 0 || discharge_m3s > peak_q_m3s_) peak_q_m3s_ = discharge_m3s;
     if (!std::isnan(stage_m) && (std::isnan(peak_stage_m_) || stage_m > peak_stage_m_)) {
@@ -175,7 +179,8 @@ class SummaryAccumulator {
   }
 
  private:
-  static constexpr double kPlateauTolerance = 1e-9;  // relative; our choice, no source
+  static constexpr double kPlateauTolerance = 1e-4;  // relative; our choice, no source
+  double q_at_peak_time_ = 0.0;
   long count_ = 0;
   double origin_s_ = 0.0;  // first sample time: moments are taken about it (less round-off)
   double last_time_s_ = 0.0;
