@@ -102,7 +102,8 @@ inline PairSummary compare_stations(const StationSummary& up, const StationSumma
 // Tracks a station's peak, volume and centroid from streamed samples, in O(1) memory.
 //
 // Peak discharge and peak stage are the largest samples (times at output samples, no
-// interpolation). Volume and centroid integrate the piecewise-linear interpolant of the
+// interpolation); on a flat top the peak time is where the top is first reached (a later
+// sample moves it only when it is more than 0.01 % higher). Volume and centroid integrate the piecewise-linear interpolant of the
 // discharge samples exactly (trapezoid rule for the volume; for the first moment, over
 // [t0, t1] with q linear: integral of t q dt = (t1 - t0)/6 [t0 (2 q0 + q1) + t1 (q0 + 2 q1)]).
 // When the caller knows exact volumes over intervals (a scheme's outflow ledger), it hands
