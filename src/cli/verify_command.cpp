@@ -203,9 +203,8 @@ int list_cases() {
 
 int run_verify(const VerifyArgs& args) {
   if (args.list) return list_cases();
-  if (!args.out.empty() && !args.overwrite && std::filesystem::exists(args.out)) {
-    throw IoError("output file '" + args.out +
-                  "' already exists; refusing to overwrite it (on the command line: --overwrite)");
+  if (!args.out.empty()) {
+    io::require_absent(args.out, args.overwrite ? io::Overwrite::yes : io::Overwrite::no);
   }
   const std::set<std::string> perturbed = perturbed_case_ids();
   std::vector<CaseResult> results;

@@ -39,13 +39,18 @@ int rename_no_replace(const std::filesystem::path& from, const std::filesystem::
 
 }  // namespace
 
-AtomicOutputPath::AtomicOutputPath(std::filesystem::path final_path, Overwrite overwrite)
-    : final_(std::move(final_path)), partial_(partial_name(final_)), overwrite_(overwrite) {
+void require_absent(const std::filesystem::path& final_path, Overwrite overwrite) {
   std::error_code ec;
-  if (overwrite_ == Overwrite::no && std::filesystem::exists(final_, ec)) {
-    throw IoError("output file '" + final_.string() +
+  if (overwrite == Overwrite::no && std::filesystem::exists(final_path, ec)) {
+    throw IoError("output file '" + final_path.string() +
                   "' already exists; refusing to overwrite it (on the command line: --overwrite)");
   }
+}
+
+AtomicOutputPath::AtomicOutputPath(std::filesystem::path final_path, Overwrite overwrite)
+    : final_(std::move(final_path)), partial_(partial_name(final_)), overwrite_(overwrite) {
+  require_absent(final_, overwrite_);
+  std::error_code ec;
   const std::filesystem::path dir =
       final_.has_parent_path() ? final_.parent_path() : std::filesystem::path(".");
   if (!std::filesystem::is_directory(dir, ec)) {

@@ -179,25 +179,49 @@ std::filesystem::path run_folder(const RunRequest& request) {
   return request.out_dir / (request.scenario_id.empty() ? "base" : request.scenario_id);
 }
 
+namespace {
+
+// Where one run's files go, under their final names: planned_output_files() and the writers
+// take every name from here.
+struct RunPaths {
+  std::filesystem::path folder;
+  std::string storm;
+
+  [[nodiscard]] std::filesystem::path stations_nc() const { return folder / (storm + ".nc"); }
+  [[nodiscard]] std::filesystem::path subcatchments_nc() const {
+    return folder / (storm + "_subcatchments.nc");
+  }
+  [[nodiscard]] std::filesystem::path profiles_nc() const {
+    return folder / (storm + "_profiles.nc");
+  }
+  [[nodiscard]] std::filesystem::path summary_prefix() const {
+    return folder / (storm + "_summary");
+  }
+  [[nodiscard]] std::filesystem::path summary_json() const {
+    return folder / (storm + "_summary.json");
+  }
+  [[nodiscard]] std::filesystem::path export_csv(const std::string& station_id) const {
+    return folder / (storm + "_" + station_id + "_hydrograph.csv");
+  }
+};
+
+RunPaths run_paths(const RunRequest& request) { return {run_folder(request), request.storm_id}; }
+
+}  // namespace
+
 std::vector<std::filesystem::path> planned_output_files(const Study& study,
                                                         const RunRequest& request) {
-  const std::filesystem::path folder = run_folder(request);
-  const std::string& storm = request.storm_id;
-  std::vector<std::filesystem::path> files;
-  for (const char* part : {"_summary_stations.csv", "_summary_pairs.csv", "_summary_checks.csv",
-                           "_summary.json"}) {
-    files.push_back(folder / (storm + part));
-  }
-  for (const auto& id : request.export_stations) {
-    files.push_back(folder / (storm + "_" + id + "_hydrograph.csv"));
-  }
+  const RunPaths at = run_paths(request);
+  std::vector<std::filesystem::path> files = summary_csv_paths(at.summary_prefix());
+  files.push_back(at.summary_json());
+  for (const auto& id : request.export_stations) files.push_back(at.export_csv(id));
   bool channel = false, subcatchment = false;
   for (const auto& s : study.stations(request.scenario_id)) {
     (s.kind == "subcatchment" ? subcatchment : channel) = true;
   }
-  if (channel) files.push_back(folder / (storm + ".nc"));
-  if (subcatchment) files.push_back(folder / (storm + "_subcatchments.nc"));
-  if (!request.profile_reaches.empty()) files.push_back(folder / (storm + "_profiles.nc"));
+  if (channel) files.push_back(at.stations_nc());
+  if (subcatchment) files.push_back(at.subcatchments_nc());
+  if (!request.profile_reaches.empty()) files.push_back(at.profiles_nc());
   return files;
 }
 
@@ -205,14 +229,8 @@ void check_run_request(const Study& study, const RunRequest& request) {
   const StormDefinition& storm = study.storm(request.storm_id);  // InputError if unknown
   if (storm.ends_after_run) throw InputError(*storm.ends_after_run);
   if (!request.scenario_id.empty()) (void)study.scenario(request.scenario_id);
-  if (request.overwrite == Overwrite::yes) return;
   for (const auto& path : planned_output_files(study, request)) {
-    std::error_code ec;
-    if (std::filesystem::exists(path, ec)) {
-      throw IoError("output file '" + path.string() +
-                    "' already exists; refusing to overwrite it (on the command line: "
-                    "--overwrite)");
-    }
+    require_absent(path, request.overwrite);
   }
 }
 
@@ -359,6 +377,12 @@ void add_warnings(const network::Model& model,
   }
 }
 
+// The clock of every run of a study: from time 0 to duration_h, samples at the output
+// interval, elements coupled at the step the driver takes.
+network::ClockOptions run_clock(const StudySettings& set) {
+  return {0.0, set.duration_s, set.output_interval_s, set.coupling_step_s};
+}
+
 // Elements exchange flows once per coupling step and peaks are taken at step ends, so a rise
 // shorter than two steps is under-resolved: its peak can be missed here and smoothed below.
 // (Our criterion, no source: two steps is the fewest that can show a rise and a peak.)
@@ -423,10 +447,7 @@ RunSummary summarise(const Study& study,
   add_balances(numerics, s);
   add_warnings(model, sink, stations, s);
   add_end_of_run_warnings(sink, stations, s);
-  const StudySettings& set = study.settings();
-  const network::ClockOptions clock{0.0, set.duration_s, set.output_interval_s,
-                                    set.coupling_step_s};
-  add_coupling_step_warnings(sink, stations, clock.coupling_step_s(), s);
+  add_coupling_step_warnings(sink, stations, run_clock(study.settings()).coupling_step_s(), s);
   // Each element's warnings together, in network order.
   std::map<std::string, std::size_t, std::less<>> order;
   for (std::size_t i = 0; i < stations.size(); ++i) order.emplace(stations[i].id, i);
@@ -614,7 +635,7 @@ std::filesystem::path write_export(const Study& study,
   options.title = "freshet hydrograph";
   options.time_base = set.start_iso + " (study start)";
   options.overwrite = req.overwrite;
-  const auto path = folder / (req.storm_id + "_" + station.id + "_hydrograph.csv");
+  const auto path = RunPaths{folder, req.storm_id}.export_csv(station.id);
   write_series_csv(path, table, options);
   return path;
 }
@@ -666,7 +687,7 @@ void open_run_files(const Study& study,
   NetcdfWriterOptions nc;
   nc.overwrite = req.overwrite;
   if (!sink.channel_index().empty()) {
-    files.stations.emplace(folder / (req.storm_id + ".nc"), nc);
+    files.stations.emplace(RunPaths{folder, req.storm_id}.stations_nc(), nc);
     files.stations->begin(metadata(study, req, "stations"),
                           instances(stations, sink.channel_index(), "station"),
                           {OutputVariable::discharge,
@@ -675,7 +696,7 @@ void open_run_files(const Study& study,
                            OutputVariable::velocity});
   }
   if (!sink.sub_index().empty()) {
-    files.subcatchments.emplace(folder / (req.storm_id + "_subcatchments.nc"), nc);
+    files.subcatchments.emplace(RunPaths{folder, req.storm_id}.subcatchments_nc(), nc);
     files.subcatchments->begin(metadata(study, req, "subcatchments"),
                                instances(stations, sink.sub_index(), "subcatchment"),
                                {OutputVariable::discharge,
@@ -686,7 +707,7 @@ void open_run_files(const Study& study,
                    files.subcatchments ? &*files.subcatchments : nullptr);
   if (req.profile_reaches.empty()) return;
   files.profile_cells.emplace(model, req.profile_reaches);
-  files.profiles.emplace(folder / (req.storm_id + "_profiles.nc"), nc);
+  files.profiles.emplace(RunPaths{folder, req.storm_id}.profiles_nc(), nc);
   files.profiles->begin(
       metadata(study, req, "along-reach profiles"),
       files.profile_cells->instances(),
@@ -708,9 +729,10 @@ void write_run_files(const Study& study,
   for (std::size_t i : exported) {
     out.files.push_back(write_export(study, req, sink, i, stations[i], folder, out.summary));
   }
-  const std::filesystem::path prefix = folder / (req.storm_id + "_summary");
+  const RunPaths at{folder, req.storm_id};
+  const std::filesystem::path prefix = at.summary_prefix();
   for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
-  const std::filesystem::path json = folder / (req.storm_id + "_summary.json");
+  const std::filesystem::path json = at.summary_json();
   write_summary_json(json, out.summary, req.overwrite);
   out.files.push_back(json);
   for (auto* file : {&files.stations, &files.subcatchments, &files.profiles}) {
@@ -752,8 +774,7 @@ RunOutcome run_study(const Study& study,
   for (std::size_t i : exported) sink.keep_series(i);
 
   const StudySettings& set = study.settings();
-  const network::ClockOptions clock{
-      0.0, set.duration_s, set.output_interval_s, set.coupling_step_s};
+  const network::ClockOptions clock = run_clock(set);
   RunOutcome out;
   out.scenario_id = req.scenario_id;
   out.storm_id = req.storm_id;

@@ -248,21 +248,20 @@ std::string format_summary_table(const RunSummary& summary, bool with_caution) {
   return with_caution ? out + "\n" + wrapped(kCautionText, 96) : out;
 }
 
+std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix) {
+  return {prefix.string() + "_stations.csv", prefix.string() + "_pairs.csv",
+          prefix.string() + "_checks.csv"};
+}
+
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
                                                      const RunSummary& summary,
                                                      Overwrite overwrite) {
-  const std::vector<std::pair<std::string, std::string>> parts{
-      {"_stations.csv", stations_csv(summary)},
-      {"_pairs.csv", pairs_csv(summary)},
-      {"_checks.csv", checks_csv(summary)}};
+  const std::string texts[] = {stations_csv(summary), pairs_csv(summary), checks_csv(summary)};
+  const std::vector<std::filesystem::path> paths = summary_csv_paths(prefix);
   // Open all first, so an existing file stops the whole set before anything is written.
   std::vector<std::unique_ptr<AtomicFile>> files;
-  std::vector<std::filesystem::path> paths;
-  for (const auto& [suffix, text] : parts) {
-    paths.push_back(prefix.string() + suffix);
-    files.push_back(std::make_unique<AtomicFile>(paths.back(), overwrite));
-  }
-  for (std::size_t i = 0; i < parts.size(); ++i) files[i]->write(parts[i].second);
+  for (const auto& path : paths) files.push_back(std::make_unique<AtomicFile>(path, overwrite));
+  for (std::size_t i = 0; i < paths.size(); ++i) files[i]->write(texts[i]);
   for (auto& f : files) f->commit();
   return paths;
 }

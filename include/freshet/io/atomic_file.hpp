@@ -25,6 +25,10 @@ namespace freshet::io {
 
 enum class Overwrite { no, yes };
 
+// Throws IoError when `final_path` exists and overwriting is not allowed: the check every
+// writer makes on construction, for callers that want it before any work starts.
+void require_absent(const std::filesystem::path& final_path, Overwrite overwrite);
+
 // Owns `<final>.partial`: removes it on destruction unless commit() succeeded.
 class AtomicOutputPath {
  public:

@@ -25,6 +25,8 @@ std::string format_summary_table(const RunSummary& summary, bool with_caution = 
 // mass-balance records and applicability warnings, one row each); returns the paths written.
 // SI values with full round-trip precision; NaN as an empty field; text fields quoted per
 // RFC 4180 when they hold a comma, quote or line break.
+// The three paths write_summary_csv() writes for `prefix`, in order.
+std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix);
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
                                                      const RunSummary& summary,
                                                      Overwrite overwrite = Overwrite::no);
