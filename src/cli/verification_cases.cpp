@@ -304,10 +304,14 @@ CaseValues chow_detention_peak_outflow() {
   return {270.0, peak_m3s / ft3};
 }
 
-// Ponce (2014), SDSU CIV E 445 Lab 11 solution, with Ponce (1989) Engineering Hydrology
-// eq. 9-44: t_r = 6 h, S0 = 0.015, u0 = 1.5 m/s, d0 = 3 m gives t_r S0 u0/d0 = 162.
-CaseValues ponce_kinematic_number() {
-  return {162.0, routing::wave_applicability(6.0 * 3600.0, 0.015, 1.5, 3.0).kinematic_number};
+// Ponce, Li & Simons (1978), J. Hydraulics Div. ASCE 104(HY3): a kinematic wave is accurate
+// when T S0 u0/d0 >= 171 (T the wave period). On an invented reach (S0 = 0.002, u0 = 1.8 m/s,
+// d0 = 2.4 m), the wave on that boundary has T = 171 d0/(S0 u0); with T = 2 t_r freshet's
+// time-of-rise number (Ponce 1989, Engineering Hydrology) must then be 171/2 = 85.5.
+CaseValues ponce_kinematic_boundary() {
+  const double s0 = 0.002, u0 = 1.8, d0 = 2.4;
+  const double time_of_rise_s = 171.0 * d0 / (s0 * u0) / 2.0;
+  return {85.5, routing::wave_applicability(time_of_rise_s, s0, u0, d0).kinematic_number};
 }
 
 // FHWA HDS-5 (Schall et al. 2012), Appendix A, submerged inlet control
@@ -402,10 +406,11 @@ const VerificationCase kCases[] = {
      "cfs", 0.5, TK::absolute,
      "Chow, Maidment & Mays (1988) Applied Hydrology, Examples 8.2.1-8.2.2 (from memory)",
      chow_detention_peak_outflow},
-    {"ponce-kinematic-number", "routing", "t_r S0 u0/d0, t_r 6 h, S0 0.015, 1.5 m/s, 3 m", "-",
-     0.5, TK::absolute,
-     "Ponce (1989) Engineering Hydrology eq. 9-44; Ponce (2014) SDSU CIV E 445 Lab 11",
-     ponce_kinematic_number},
+    {"ponce-kinematic-boundary", "routing",
+     "t_r S0 u0/d0 at T S0 u0/d0 = 171, T = 2 t_r (invented reach)", "-", 1e-9, TK::absolute,
+     "Ponce, Li & Simons (1978) J. Hydraul. Div. ASCE 104(HY3), kinematic criterion; closed "
+     "form on invented data",
+     ponce_kinematic_boundary},
 };
 
 }  // namespace

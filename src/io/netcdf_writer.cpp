@@ -32,8 +32,8 @@ struct VariableSpec {
   double from_si;                  // multiply SI value by this before writing
 };
 
-// Standard names and canonical units: CF standard-name table v83 (2023-10-17), as listed in
-// /work/shared/ECOSYSTEM.md section 1.3; unit strings checked with udunits2 (section 1.6).
+// Standard names and canonical units: CF standard-name table v83 (2023-10-17,
+// cfconventions.org); unit strings checked with the udunits2 tool (UDUNITS-2).
 constexpr VariableSpec kSpecs[] = {
     {OutputVariable::discharge, "discharge", "discharge in the channel", "m3 s-1",
      "water_volume_transport_in_river_channel", 1.0},
@@ -211,7 +211,7 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   var.setCompression(true, options.deflate_level > 0, options.deflate_level);
   var.setFill(true, kFillFloat);
   // A chunk cache of two chunks keeps memory flat: filled chunks are written out and evicted
-  // instead of accumulating in the 16 MiB default cache (ECOSYSTEM.md sec. 2.3, item 9).
+  // instead of accumulating in the 16 MiB default cache (netCDF-C, nc_set_var_chunk_cache).
   var.setChunkCache(2 * length * width * sizeof(float), 31, 1.0f);
   std::string long_name(s.long_name);
   if (v == OutputVariable::stage) {

@@ -5,7 +5,8 @@
 #include <algorithm>
 
 #include <boost/numeric/odeint.hpp>
-// Required for Eigen state types: resizing and the vector-space algebra (ECOSYSTEM.md sec. 5).
+// Boost.Odeint's adaptor for Eigen state types: it supplies their resizing and the
+// vector-space algebra the steppers need.
 #include <boost/numeric/odeint/external/eigen/eigen.hpp>
 
 #include "freshet/core/error.hpp"

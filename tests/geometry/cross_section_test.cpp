@@ -30,19 +30,17 @@ TEST(TrapezoidalSection, MatchesTheTableOfGeometricElements) {
               s.area_m2(y) * std::pow(s.hydraulic_radius_m(y), 2.0 / 3.0) / 0.035, 1e-12);
 }
 
-TEST(RectangularSection, ReproducesAPublishedUniformFlowSolution) {
-  // V. M. Ponce, San Diego State University, CIVE 530 midterm 1, problem 4, fall 2008
-  // (facets.sdsu.edu/protected31/cive530_midterm_1_problem_4_fa08.html): b = 6 m,
-  // S0 = 0.0025, n = 0.015, y = 1.6 m -> A = 9.6 m2, R = 1.043 m, V = 3.428 m/s,
-  // Q = 32.91 m3/s. The published V and Q were computed from R rounded to 1.043 (exact
-  // 1.04348), which lowers them by (2/3)(0.00048/1.043) = 3.1e-4 relative; the tolerances
-  // below are that rounding plus half a unit in the last published digit.
-  const RectangularSection s({.bottom_width_m = 6.0, .manning_n = 0.015});
-  EXPECT_NEAR(s.area_m2(1.6), 9.6, 1e-12);
-  EXPECT_NEAR(s.hydraulic_radius_m(1.6), 1.043, 0.0005);
-  const double q = s.normal_discharge_m3s(1.6, 0.0025);
-  EXPECT_NEAR(q / s.area_m2(1.6), 3.428, 3.1e-4 * 3.428 + 0.0005);
-  EXPECT_NEAR(q, 32.91, 3.1e-4 * 32.91 + 0.005);
+TEST(RectangularSection, UniformFlowMatchesManningOnInventedData) {
+  // Closed form on invented data: Chow (1959) Table 2-1 (rectangle A = b y, P = b + 2 y) and
+  // eq. 5-6 in SI form V = R^(2/3) S0^(1/2) / n. b = 5 m, n = 0.02, S0 = 0.001, y = 1.25 m:
+  // A = 6.25 m2, R = 6.25 / 7.5 = 0.8333333 m, V = 1.400175606 m/s, Q = 8.751097536 m3/s
+  // (evaluated separately in double precision and written to 10 digits, hence 1e-9).
+  const RectangularSection s({.bottom_width_m = 5.0, .manning_n = 0.02});
+  EXPECT_NEAR(s.area_m2(1.25), 6.25, 1e-12);
+  EXPECT_NEAR(s.hydraulic_radius_m(1.25), 0.8333333333, 1e-9);
+  const double q = s.normal_discharge_m3s(1.25, 0.001);
+  EXPECT_NEAR(q / s.area_m2(1.25), 1.400175606, 1e-9);
+  EXPECT_NEAR(q, 8.751097536, 1e-9);
 }
 
 TEST(TriangularSection, IsTheTrapezoidWithoutBottom) {

@@ -342,12 +342,12 @@ TEST(MakeSectionFlux, ChoosesTheClosedFormOrTheTable) {
 }
 
 TEST(FlowSection, ReportsDepthWidthAndVelocity) {
-  // Ponce (2008), SDSU CIVE 530 midterm 1, problem 4 (see cross_section_test.cpp): b = 6 m,
-  // n = 0.015, S0 = 0.0025, A = 9.6 m2 -> y = 1.6 m, V = 3.428 m/s.
-  const FlowSection f = make_flow_section(RectangularSpec{6.0, 0.015}, 0.0025);
-  EXPECT_NEAR(f.depth_m(9.6), 1.6, 1e-14);
-  EXPECT_NEAR(f.top_width_m(9.6), 6.0, 1e-14);
-  EXPECT_NEAR(f.velocity_m_s(9.6), 3.428, 3.1e-4 * 3.428 + 0.0005);  // rounding as noted there
+  // The invented channel of cross_section_test.cpp (Manning closed form, Chow 1959 eq. 5-6):
+  // b = 5 m, n = 0.02, S0 = 0.001, A = 6.25 m2 -> y = 1.25 m, V = 1.400175606 m/s.
+  const FlowSection f = make_flow_section(RectangularSpec{5.0, 0.02}, 0.001);
+  EXPECT_NEAR(f.depth_m(6.25), 1.25, 1e-14);
+  EXPECT_NEAR(f.top_width_m(6.25), 5.0, 1e-14);
+  EXPECT_NEAR(f.velocity_m_s(6.25), 1.400175606, 1e-9);
   EXPECT_EQ(f.velocity_m_s(0.0), 0.0);
 }
 

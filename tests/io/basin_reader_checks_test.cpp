@@ -1,7 +1,7 @@
 // Checks of the basin-file reader where a pool's storage relation meets its outflow relation,
 // and the wording of its messages: every problem names file:line (the line of the offending
 // value), the element, the key as written in the file and the value in the file's own units
-// (docs/basin-file.md, "Checks and error messages"; /work/shared/STYLE.md sec. 8.8b).
+// (docs/basin-file.md, "Checks and error messages"; DEVELOPERS.md, "Errors, three tiers").
 // The curve-number test checks the lambda = 0.05 conversion against a hand calculation with
 // the published formulas (sources beside it).
 

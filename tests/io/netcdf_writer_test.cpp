@@ -4,8 +4,8 @@
 // "<unit> since <date>"), 5 (coordinates attribute names existing variables), 2.5.1
 // (_FillValue has the variable's type), ch. 9 sec. 9.1-9.6 and Appendix H.2 (featureType,
 // exactly one cf_role timeseries_id, orthogonal layout, unlimited dimension leading).
-// Standard names allow-list: CF standard-name table v83 (2023-10-17), via ECOSYSTEM.md sec. 1.3.
-// UDUNITS strings: ECOSYSTEM.md sec. 1.6 (each checked with udunits2 2.2.28).
+// Standard names allow-list: CF standard-name table v83 (2023-10-17, cfconventions.org).
+// UDUNITS strings: each checked with the udunits2 2.2.28 tool (UDUNITS-2).
 #include "freshet/io/netcdf_writer.hpp"
 
 #include <gmock/gmock.h>

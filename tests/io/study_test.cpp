@@ -102,7 +102,7 @@ struct Fixture {
 };
 
 // ---- 1. bad input ---------------------------------------------------------------------------
-// Rule under test (docs/basin-file.md; /work/shared/STYLE.md sec. 8.8b): every problem names
+// Rule under test (docs/basin-file.md; DEVELOPERS.md, "Errors, three tiers"): every problem names
 // file:line, the element and the field, and a file with several problems reports all of them.
 
 const std::string kGoodNetwork = R"(

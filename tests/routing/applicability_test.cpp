@@ -1,4 +1,6 @@
-// Kinematic- and diffusion-wave applicability numbers against a published worked solution.
+// Kinematic- and diffusion-wave applicability numbers: the closed forms on invented data, and
+// the criteria of Ponce, Li & Simons (1978), "Applicability of kinematic and diffusion
+// models", J. Hydraulics Div. ASCE 104(HY3), 353-360.
 #include "freshet/routing/applicability.hpp"
 
 #include <gtest/gtest.h>
@@ -10,21 +12,31 @@
 namespace freshet::routing {
 namespace {
 
-// Worked values: V. M. Ponce (2014), San Diego State University, CIV E 445 Applied
-// Hydrology, Lab No. 11 solution, applying Ponce (1989), Engineering Hydrology, eq. 9-44
-// (kinematic) and eq. 9-60 (diffusion):
-//   N = (6 h x 3600 s/h x 0.015 x 1.5 m/s) / (3 m) = 162 > 85  -> kinematic wave;
-//   M = 6 h x 3600 s/h x 0.005 x (9.81 m/s2 / 3.0 m)^(1/2) = 195 > 15 -> diffusion wave.
-// (The solution uses S0 = 0.015 in the first and 0.005 in the second; both are reproduced.)
-TEST(WaveApplicability, ReproducesPublishedWorkedValues) {
-  const double six_hours_s = 6.0 * 3600.0;
-  const WaveApplicability k = wave_applicability(six_hours_s, 0.015, 1.5, 3.0);
-  EXPECT_NEAR(k.kinematic_number, 162.0, 1e-9);
-  EXPECT_TRUE(k.kinematic_ok);
+// Closed forms on an invented reach (t_r = 3 h, S0 = 0.002, u0 = 1.8 m/s, d0 = 2.4 m), in the
+// time-of-rise form of Ponce (1989), Engineering Hydrology, Prentice Hall:
+//   N = t_r S0 u0 / d0 = 10800 x 0.002 x 1.8 / 2.4 = 16.2
+//   M = t_r S0 (g / d0)^(1/2) = 21.6 x (9.80665 / 2.4)^(1/2) = 43.662487 (g standard gravity)
+// Expected values evaluated separately in double precision; a slip in either form (a wave
+// period 2 t_r in place of t_r, u0 and d0 swapped, g left out) moves them by far more than
+// the tolerance.
+TEST(WaveApplicability, ClosedFormsOnAnInventedReach) {
+  const WaveApplicability a = wave_applicability(3.0 * 3600.0, 0.002, 1.8, 2.4);
+  EXPECT_NEAR(a.kinematic_number, 16.2, 1e-9);
+  EXPECT_NEAR(a.diffusion_number, 43.662487, 1e-6);
+  EXPECT_FALSE(a.kinematic_ok);  // 16.2 < 85
+  EXPECT_TRUE(a.diffusion_ok);   // 43.7 >= 15
+}
 
-  const WaveApplicability d = wave_applicability(six_hours_s, 0.005, 1.5, 3.0);
-  EXPECT_NEAR(d.diffusion_number, 195.0, 0.5);  // g = 9.80665 here, 9.81 in the solution
-  EXPECT_TRUE(d.diffusion_ok);
+// The 1978 paper states the criteria with the wave period T: T S0 u0/d0 >= 171 (kinematic)
+// and T S0 (g/d0)^(1/2) >= 30 (diffusion). On the same invented reach, the time of rise that
+// puts the wave on each boundary with T = 2 t_r must give freshet's t_r numbers 85.5 and 15.
+TEST(WaveApplicability, MatchesThePaperCriteriaWithAWavePeriodOfTwiceTheRise) {
+  const double s0 = 0.002, u0 = 1.8, d0 = 2.4;
+  const double kinematic_boundary_s = 171.0 * d0 / (s0 * u0) / 2.0;
+  EXPECT_NEAR(wave_applicability(kinematic_boundary_s, s0, u0, d0).kinematic_number, 85.5, 1e-9);
+  EXPECT_TRUE(wave_applicability(kinematic_boundary_s, s0, u0, d0).kinematic_ok);
+  const double diffusion_boundary_s = 30.0 / (s0 * std::sqrt(9.80665 / d0)) / 2.0;
+  EXPECT_NEAR(wave_applicability(diffusion_boundary_s, s0, u0, d0).diffusion_number, 15.0, 1e-9);
 }
 
 // The thresholds are the 1978 paper's T S0 u0/d0 >= 171 and T S0 (g/d0)^(1/2) >= 30 with

@@ -2,8 +2,8 @@
 //
 // Ponce, Li & Simons (1978), "Applicability of kinematic and diffusion models", J. Hydraulics
 // Div. ASCE 104(HY3), compared kinematic and diffusion waves with dynamic waves in linear
-// theory. In the form taught with a hydrograph's time of rise t_r (Ponce 1989, Engineering
-// Hydrology: Principles and Practices, Prentice Hall, eqs. 9-44 and 9-60):
+// theory. Written with a hydrograph's time of rise t_r, as in Ponce (1989), Engineering
+// Hydrology: Principles and Practices, Prentice Hall:
 //
 //   kinematic wave applicable when  t_r S0 u0 / d0        >= 85
 //   diffusion wave applicable when  t_r S0 (g / d0)^(1/2) >= 15
@@ -12,8 +12,8 @@
 // T = 2 t_r these are the 1978 paper's T S0 u0/d0 >= 171 and T S0 (g/d0)^(1/2) >= 30.
 // Pure function, no I/O:
 //
-//   auto a = routing::wave_applicability(6 * 3600.0, 0.015, 1.5, 3.0);
-//   a.kinematic_number;   // 162 -> a.kinematic_ok
+//   auto a = routing::wave_applicability(3 * 3600.0, 0.002, 1.8, 2.4);
+//   a.kinematic_number;   // 16.2 -> !a.kinematic_ok (below 85)
 #pragma once
 
 namespace freshet::routing {
