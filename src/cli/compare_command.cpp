@@ -6,6 +6,7 @@
 
 #include "batch.hpp"
 #include "commands.hpp"
+#include "freshet/io/summary_writer.hpp"
 #include "freshet_version.hpp"
 
 namespace freshet::cli {
@@ -59,6 +60,22 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
   return out.str();
 }
 
+// Every run's warnings, by run (storm, then base and scenarios) and within a run by element,
+// as `freshet route` prints them: the tables above show none of them, and a backwater warning
+// means a stage difference upstream of a pond is not computed.
+std::string warnings_by_run(const std::vector<io::RunOutcome>& runs) {
+  std::string out = "\nWarnings of each run (the tables above do not show them):\n";
+  bool any = false;
+  for (const io::RunOutcome& r : runs) {
+    const std::string lines = io::format_warning_lines(r.summary);
+    if (lines.empty()) continue;
+    out += (r.scenario_id.empty() ? std::string("base") : r.scenario_id) + ", storm " +
+           r.storm_id + ":\n" + lines;
+    any = true;
+  }
+  return any ? out : out + "  none in any run\n";
+}
+
 int compare(const CompareArgs& a, const GlobalOptions& global) {
   const io::Study study = io::Study::load(a.basin);
   const std::vector<std::string> storms = storm_ids(study, a);
@@ -94,6 +111,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
     std::cout << "\nStorm " << storms[j] << " (t peak in h:min from the study start)\n"
               << comparison_table(group, study.stations(), a.all_points);
   }
+  std::cout << warnings_by_run(runs);
   std::cout << "\nEach run's full results: " << options.out_dir.string()
             << "/<base or scenario>/<storm>.nc and <storm>_summary.*\n\n"
             << wrapped_caution();

@@ -102,8 +102,7 @@ std::string check_lines(const RunSummary& s) {
     out += "  " + r.element + " at t = " + fixed(r.time_s / 3600.0, 3) + " h, chainage " +
            fixed(r.chainage_m, 1) + " m: " + r.message + "\n";
   }
-  if (!s.warnings.empty()) out += "\nApplicability warnings\n";
-  for (const auto& r : s.warnings) out += "  " + r.element + ": " + r.message + "\n";
+  if (!s.warnings.empty()) out += "\nApplicability warnings\n" + format_warning_lines(s);
   return out;
 }
 
@@ -238,6 +237,12 @@ nlohmann::json array_of(const std::vector<T>& records) {
 }
 
 }  // namespace
+
+std::string format_warning_lines(const RunSummary& summary) {
+  std::string out;
+  for (const auto& r : summary.warnings) out += "  " + r.element + ": " + r.message + "\n";
+  return out;
+}
 
 std::string format_summary_table(const RunSummary& summary, bool with_caution) {
   std::string out;

@@ -21,6 +21,12 @@ namespace freshet::io {
 // itself at the end of a longer report (with_caution = false).
 std::string format_summary_table(const RunSummary& summary, bool with_caution = true);
 
+// The run's warnings (applicability, backwater, pipes at capacity, coupling step, end of run),
+// one "  element: message" line each, in the summary's order (each element's together, in
+// network order); empty when there are none. The console table prints them under its
+// "Applicability warnings" heading.
+std::string format_warning_lines(const RunSummary& summary);
+
 // Writes `<prefix>_stations.csv`, `<prefix>_pairs.csv` and `<prefix>_checks.csv` (shocks,
 // mass-balance records and applicability warnings, one row each); returns the paths written.
 // SI values with full round-trip precision; NaN as an empty field; text fields quoted per
