@@ -12,9 +12,14 @@ namespace {
 
 // Ordinates at the hours commonly tabulated for the four distributions (USDA SCS 1986, TR-55
 // Appendix B; NEH Part 630 ch. 4). FROM MEMORY: these tables were typed without the source at
-// hand. Values we are sure of, and test: 0 at 0 h and 1 at 24 h for every type; Type II 0.663
-// at 12 h and 0.357 at 11.75 h (its steepest quarter hour is 11.75-12.0 h); Type III 0.500 at
-// 12 h. Check the other ordinates against TR-55 before relying on them.
+// hand. What each is checked against (tests/hydrology/nrcs_distribution_test.cpp):
+// - every type: 0 at 0 h, 1 at 24 h, never decreasing;
+// - Type I: a third-party transcription of the TR-55 table at 0.5-h steps, every shared hour
+//   equal to 3 decimals (9.75 and 11.75 h are not in it);
+// - Type IA: nothing independent found; from memory only;
+// - Type II: the fitted equation of Haan, Barfield & Hayes (1994) within 0.003 at the hours
+//   up to 11.5 h and from 14 h, and the same transcription within 0.0025 (it differs by up to 0.002);
+// - Type III: a published 5-min table (City of Austin; see below).
 constexpr std::array<NrcsOrdinate, 23> kTypeI{{
     {0.0, 0.000},  {2.0, 0.035},   {4.0, 0.076},  {6.0, 0.125},   {7.0, 0.156},  {8.0, 0.194},
     {8.5, 0.219},  {9.0, 0.254},   {9.5, 0.303},  {9.75, 0.362},  {10.0, 0.515}, {10.5, 0.583},
