@@ -14,11 +14,9 @@ namespace {
 // Appendix B; NEH Part 630 ch. 4). FROM MEMORY: these tables were typed without the source at
 // hand. What each is checked against (tests/hydrology/nrcs_distribution_test.cpp):
 // - every type: 0 at 0 h, 1 at 24 h, never decreasing;
-// - Type I: a third-party transcription of the TR-55 table at 0.5-h steps, every shared hour
-//   equal to 3 decimals (9.75 and 11.75 h are not in it);
-// - Type IA: nothing independent found; from memory only;
+// - Types I and IA: nothing independent with a citable source found; from memory only;
 // - Type II: the fitted equation of Haan, Barfield & Hayes (1994) within 0.003 at the hours
-//   up to 11.5 h and from 14 h, and the same transcription within 0.0025 (it differs by up to 0.002);
+//   up to 11.5 h and from 14 h;
 // - Type III: a published 5-min table (City of Austin; see below).
 constexpr std::array<NrcsOrdinate, 23> kTypeI{{
     {0.0, 0.000},  {2.0, 0.035},   {4.0, 0.076},  {6.0, 0.125},   {7.0, 0.156},  {8.0, 0.194},
