@@ -3,6 +3,7 @@
 #include <cmath>
 
 #include "freshet/core/root_finding.hpp"
+#include "freshet/routing/kinematic_reach.hpp"
 
 namespace freshet::hydrology {
 namespace {

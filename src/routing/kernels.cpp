@@ -4,6 +4,7 @@
 
 #include <algorithm>
 
+#include <Eigen/Core>
 #include <boost/numeric/odeint.hpp>
 // Boost.Odeint's adaptor for Eigen state types: it supplies their resizing and the
 // vector-space algebra the steppers need.
@@ -48,14 +49,18 @@ std::vector<double> segment_times(double t0_s, double t1_s,
 
 // Controlled Dormand-Prince 5(4) (Dormand & Prince 1980, J. Comput. Appl. Math. 6) stepped by
 // hand with try_step so that rejected steps are counted and the last step lands on t1.
-OdeSegmentResult integrate_ode_segment(const OdeRhs& rhs, Eigen::VectorXd& y, double t0_s,
+OdeSegmentResult integrate_ode_segment(const OdeRhs& rhs, std::span<double> y_inout, double t0_s,
                                        double t1_s, double dt_initial_s,
                                        const RoutingOptions& options) {
   namespace odeint = boost::numeric::odeint;
   using State = Eigen::VectorXd;
   auto stepper = odeint::make_controlled(options.ode_abs_tolerance_m2, options.ode_rel_tolerance,
                                          odeint::runge_kutta_dopri5<State>());
-  auto system = [&rhs](const State& x, State& dxdt, double t) { rhs(x, dxdt, t); };
+  auto system = [&rhs](const State& x, State& dxdt, double t) {
+    rhs(std::span<const double>(x.data(), static_cast<std::size_t>(x.size())),
+        std::span<double>(dxdt.data(), static_cast<std::size_t>(dxdt.size())), t);
+  };
+  State y = Eigen::Map<const State>(y_inout.data(), static_cast<Eigen::Index>(y_inout.size()));
   OdeSegmentResult r;
   double t = t0_s;
   double dt = std::min(dt_initial_s, t1_s - t0_s);
@@ -81,6 +86,7 @@ OdeSegmentResult integrate_ode_segment(const OdeRhs& rhs, Eigen::VectorXd& y, do
     }
   }
   r.last_dt_s = dt;
+  std::copy(y.data(), y.data() + y.size(), y_inout.begin());
   return r;
 }
 

@@ -1,5 +1,7 @@
 #include "freshet/routing/make_reach.hpp"
 
+#include "freshet/routing/kinematic_reach.hpp"
+
 namespace freshet::routing {
 
 std::unique_ptr<ReachModel> make_reach(ReachSpec spec, const geometry::SectionFlux& flux,

@@ -6,15 +6,23 @@
 #include <string>
 #include <utility>
 
+#include "freshet/routing/schemes/registry.hpp"
+
 namespace freshet::routing {
 
 namespace {
-constexpr std::array<std::pair<SchemeKind, std::string_view>, 4> kSchemeNames{{
-    {SchemeKind::kExplicitUpwind, "explicit-upwind"},
-    {SchemeKind::kImplicitUpwind, "implicit-upwind"},
-    {SchemeKind::kMethodOfLines, "method-of-lines"},
-    {SchemeKind::kMusclHeun, "muscl-heun"},
-}};
+// The registered schemes' names, in the order of SchemeKind.
+constexpr std::array<std::pair<SchemeKind, std::string_view>, schemes::kSchemeCount> kSchemeNames =
+    [] {
+      std::array<std::pair<SchemeKind, std::string_view>, schemes::kSchemeCount> names{};
+      std::size_t k = 0;
+      schemes::for_each_scheme([&](auto type) {
+        using S = typename decltype(type)::type;
+        names[k++] = {S::kKind, S::kName};
+        return false;
+      });
+      return names;
+    }();
 constexpr std::array<std::pair<Limiter, std::string_view>, 2> kLimiterNames{{
     {Limiter::kMinmod, "minmod"},
     {Limiter::kVanLeer, "van-leer"},
@@ -68,13 +76,12 @@ std::vector<Problem> ShockDetectionOptions::validate() const {
 ShockDetectionOptions resolved_shock_options(const RoutingOptions& routing) {
   ShockDetectionOptions s = routing.shock;
   if (s.front_cells == 0) {
-    switch (routing.scheme) {
-      case SchemeKind::kMethodOfLines: s.front_cells = 8; break;
-      case SchemeKind::kImplicitUpwind:
-        s.front_cells = static_cast<int>(std::lround(8.0 * (1.0 + std::min(routing.implicit_courant, 50.0))));
-        break;
-      default: s.front_cells = 4; break;
-    }
+    schemes::for_each_scheme([&](auto type) {
+      using S = typename decltype(type)::type;
+      if (S::kKind != routing.scheme) return false;
+      s.front_cells = S::front_cells(routing);
+      return true;
+    });
   }
   if (s.plateau_cells == 0) s.plateau_cells = 3 * s.front_cells;
   return s;

@@ -20,13 +20,14 @@ void ShockDetector::reset() {
 // only once it has broken).
 bool ShockDetector::find_steep_front(std::span<const double> a, std::span<const double> q,
                                      ShockSample& sample) const {
-  return find_front(a, q, {0, static_cast<int>(a.size()) - 2}, {}, sample) == FrontTest::kSteep;
+  const DischargeAt q_at = [q](std::size_t i) { return q[i]; };
+  return find_front(a, q_at, {0, static_cast<int>(a.size()) - 2}, {}, sample) == FrontTest::kSteep;
 }
 
 // The test above with the steepest drop searched only over faces in `search` outside every
 // `excluded` range (the plateau states may lie anywhere).
 ShockDetector::FrontTest ShockDetector::find_front(std::span<const double> a,
-                                                  std::span<const double> q, FaceRange search,
+                                                  const DischargeAt& q, FaceRange search,
                                                   const std::vector<FaceRange>& excluded,
                                                   ShockSample& sample) const {
   const int n = static_cast<int>(a.size());
@@ -66,16 +67,21 @@ ShockDetector::FrontTest ShockDetector::find_front(std::span<const double> a,
   sample.position_m = (j + 0.5 + frac) * dx_;
   sample.area_left_m2 = a[left];
   sample.area_right_m2 = a[right];
-  sample.rankine_hugoniot_m_s = (q[left] - q[right]) / (a[left] - a[right]);
+  sample.rankine_hugoniot_m_s = (q(static_cast<std::size_t>(left)) - q(static_cast<std::size_t>(right))) /
+                                (a[left] - a[right]);
   return steepest < options_.steep_fraction * jump ? FrontTest::kNotSteep : FrontTest::kSteep;
 }
 
 void ShockDetector::observe(double t_s, std::span<const double> cell_area_m2,
-                            std::span<const double> cell_discharge_m3s,
-                            std::span<const double> cell_celerity_m_s) {
-  follow_tracks(t_s, cell_area_m2, cell_discharge_m3s);
-  update_breaking_estimate(t_s, cell_area_m2, cell_celerity_m_s);
-  look_for_new_front(t_s, cell_area_m2, cell_discharge_m3s);
+                            const CellFlux& cell_flux) {
+  const DischargeAt q = [&cell_flux](std::size_t i) {
+    double discharge_m3s = 0.0, celerity_m_s = 0.0;
+    cell_flux(i, discharge_m3s, celerity_m_s);
+    return discharge_m3s;
+  };
+  follow_tracks(t_s, cell_area_m2, q);
+  update_breaking_estimate(t_s, cell_area_m2, cell_flux);
+  look_for_new_front(t_s, cell_area_m2, q);
 }
 
 double ShockDetector::predicted_position_m(const ShockReport& r, double t_s) const {
@@ -101,8 +107,7 @@ std::vector<ShockDetector::FaceRange> ShockDetector::tracked_faces(double t_s) c
   return out;
 }
 
-void ShockDetector::follow_tracks(double t_s, std::span<const double> a,
-                                  std::span<const double> q) {
+void ShockDetector::follow_tracks(double t_s, std::span<const double> a, const DischargeAt& q) {
   std::vector<Track> still;
   for (Track& tr : tracks_) {
     if (follow(tr, t_s, a, q)) still.push_back(tr);
@@ -115,7 +120,7 @@ void ShockDetector::follow_tracks(double t_s, std::span<const double> a,
 // leaving (the front's downstream plateau passes the outlet: extrapolated until it reaches
 // the reach end), or missed. Returns false once it has left the view.
 bool ShockDetector::follow(Track& tr, double t_s, std::span<const double> a,
-                           std::span<const double> q) {
+                           const DischargeAt& q) {
   ShockReport& r = reports_[tr.report];
   const double predicted_m = predicted_position_m(r, t_s);
   ShockSample s;
@@ -173,7 +178,7 @@ void ShockDetector::merge_tracks(double t_s) {
 // the candidate's last sample, moved at its Rankine-Hugoniot speed, would be (within
 // plateau_cells cells); otherwise it starts a new candidate.
 void ShockDetector::look_for_new_front(double t_s, std::span<const double> a,
-                                       std::span<const double> q) {
+                                       const DischargeAt& q) {
   ShockSample s;
   s.time_s = t_s;
   if (find_front(a, q, {0, n_ - 2}, tracked_faces(t_s), s) != FrontTest::kSteep) {
@@ -211,18 +216,24 @@ void ShockDetector::form_shock() {
 // estimate is taken only while 1/G still falls at least `steepening_rate_min` times as fast
 // as the characteristics say (the computed gradient still follows the exact one).
 void ShockDetector::update_breaking_estimate(double t_s, std::span<const double> a,
-                                             std::span<const double> c) {
+                                             const CellFlux& cell_flux) {
   const int n = static_cast<int>(a.size());
   const std::vector<FaceRange> excluded = tracked_faces(t_s);
+  auto celerity = [&cell_flux](int i) {
+    double discharge_m3s = 0.0, celerity_m_s = 0.0;
+    cell_flux(static_cast<std::size_t>(i), discharge_m3s, celerity_m_s);
+    return celerity_m_s;
+  };
   int k = -1;
-  double g = 0.0;
+  double g = 0.0, c_k = 0.0, c_k1 = 0.0;  // c either side of the steepest face k
+  double c_here = celerity(0);
   for (int i = 0; i + 1 < n; ++i) {
-    if (std::any_of(excluded.begin(), excluded.end(),
-                    [i](const FaceRange& r) { return i >= r.first && i <= r.last; })) {
-      continue;
-    }
-    const double gi = (c[i] - c[i + 1]) / dx_;
-    if (gi > g) g = gi, k = i;
+    const double c_next = celerity(i + 1);
+    const bool skip = std::any_of(excluded.begin(), excluded.end(),
+                                  [i](const FaceRange& r) { return i >= r.first && i <= r.last; });
+    const double gi = skip ? 0.0 : (c_here - c_next) / dx_;
+    if (gi > g) g = gi, k = i, c_k = c_here, c_k1 = c_next;
+    c_here = c_next;
   }
   const double previous_t = last_gradient_time_s_, previous_inverse = last_inverse_gradient_s_;
   last_gradient_time_s_ = t_s;
@@ -234,7 +245,7 @@ void ShockDetector::update_breaking_estimate(double t_s, std::span<const double>
                       a[static_cast<std::size_t>(std::min(n - 1, k + 1 + options_.plateau_cells))];
   if (!(drop > options_.min_relative_jump * *std::max_element(a.begin(), a.end()))) return;
   estimated_break_time_s_ = t_s + last_inverse_gradient_s_;
-  estimated_break_position_m_ = (k + 1) * dx_ + 0.5 * (c[k] + c[k + 1]) * last_inverse_gradient_s_;
+  estimated_break_position_m_ = (k + 1) * dx_ + 0.5 * (c_k + c_k1) * last_inverse_gradient_s_;
 }
 
 void ShockDetector::update_speeds(ShockReport& report) {

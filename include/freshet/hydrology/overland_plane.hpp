@@ -28,7 +28,7 @@
 
 #include "freshet/core/error.hpp"
 #include "freshet/geometry/flux_law.hpp"
-#include "freshet/routing/kinematic_reach.hpp"
+#include "freshet/routing/reach_model.hpp"
 
 namespace freshet::hydrology {
 
@@ -74,7 +74,7 @@ class OverlandPlane {
 
  private:
   OverlandPlaneSpec spec_;
-  std::unique_ptr<routing::KinematicReach<geometry::PowerLawFlux>> reach_;
+  std::unique_ptr<routing::ReachModel> reach_;  // a KinematicReach<PowerLawFlux>
 };
 
 // Planes in series, all receiving the same excess; outflow is the last plane's. A plane

@@ -11,7 +11,7 @@
 #include "freshet/hydrology/subcatchment.hpp"
 #include "freshet/network/element.hpp"
 #include "freshet/network/structures/level_pool.hpp"
-#include "freshet/routing/kinematic_reach.hpp"
+#include "freshet/routing/reach_model.hpp"
 
 namespace freshet::network {
 

@@ -11,7 +11,7 @@
 #include <memory>
 
 #include "freshet/geometry/section_flux.hpp"
-#include "freshet/routing/kinematic_reach.hpp"
+#include "freshet/routing/reach_model.hpp"
 
 namespace freshet::routing {
 

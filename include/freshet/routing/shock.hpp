@@ -21,6 +21,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstddef>
+#include <functional>
 #include <limits>
 #include <span>
 #include <vector>
@@ -153,9 +155,11 @@ class ShockDetector {
   ShockDetector() = default;
   ShockDetector(const ShockDetectionOptions& options, double cell_width_m, int cell_count);
 
-  void observe(double t_s, std::span<const double> cell_area_m2,
-               std::span<const double> cell_discharge_m3s,
-               std::span<const double> cell_celerity_m_s);
+  // Q_i(A_i) and c_i(A_i) of one cell of the observed profile, evaluated on demand: the
+  // detector reads c in every cell once per observation and Q at a few plateau cells, and
+  // keeps no per-cell array.
+  using CellFlux = std::function<void(std::size_t cell, double& discharge_m3s, double& celerity_m_s)>;
+  void observe(double t_s, std::span<const double> cell_area_m2, const CellFlux& cell_flux);
   // Every shock formed so far, in order of formation.
   [[nodiscard]] const std::vector<ShockReport>& reports() const noexcept { return reports_; }
   // The first shock formed (formed == false when there is none).
@@ -185,19 +189,19 @@ class ShockDetector {
   // kNotSteep: a jump above min_relative_jump (sample filled), but not resolved within
   // front_cells cells.
   enum class FrontTest { kNone, kNotSteep, kSteep };
-  [[nodiscard]] FrontTest find_front(std::span<const double> a, std::span<const double> q,
+  using DischargeAt = std::function<double(std::size_t cell)>;
+  [[nodiscard]] FrontTest find_front(std::span<const double> a, const DischargeAt& q,
                                      FaceRange search, const std::vector<FaceRange>& excluded,
                                      ShockSample& sample) const;
   [[nodiscard]] double predicted_position_m(const ShockReport& r, double t_s) const;
   [[nodiscard]] FaceRange faces_near(double position_m, int radius_cells) const;
   [[nodiscard]] std::vector<FaceRange> tracked_faces(double t_s) const;
-  void follow_tracks(double t_s, std::span<const double> a, std::span<const double> q);
-  bool follow(Track& track, double t_s, std::span<const double> a, std::span<const double> q);
+  void follow_tracks(double t_s, std::span<const double> a, const DischargeAt& q);
+  bool follow(Track& track, double t_s, std::span<const double> a, const DischargeAt& q);
   void merge_tracks(double t_s);
-  void look_for_new_front(double t_s, std::span<const double> a, std::span<const double> q);
+  void look_for_new_front(double t_s, std::span<const double> a, const DischargeAt& q);
   void form_shock();
-  void update_breaking_estimate(double t_s, std::span<const double> a,
-                                std::span<const double> c);
+  void update_breaking_estimate(double t_s, std::span<const double> a, const CellFlux& cell_flux);
   static void update_speeds(ShockReport& report);
 
   ShockDetectionOptions options_;

@@ -4,14 +4,23 @@
 #include <algorithm>
 #include <cmath>
 #include <functional>
+#include <span>
 #include <string>
-
-#include <Eigen/Core>
+#include <type_traits>
+#include <vector>
 
 #include "freshet/core/time_series.hpp"
 #include "freshet/routing/routing_options.hpp"
 
 namespace freshet::routing::detail {
+
+// Calls fn(std::bool_constant<b>{}) so that a run-time flag selects a compiled variant (once
+// per step, outside the cell loops).
+template <class Fn>
+decltype(auto) with_flag(bool b, Fn&& fn) {
+  if (b) return fn(std::true_type{});
+  return fn(std::false_type{});
+}
 
 // Godunov flux for a kinematic wave: with c = dQ/dA >= 0 every wave moves downstream, the
 // Riemann solution at a face is the upstream state, so F = Q(A_left) (LeVeque 2002, Finite
@@ -51,9 +60,10 @@ template <Limiter kLimiter>
                                                 const std::vector<double>& breakpoints_s);
 
 // Adaptive controlled Runge-Kutta integration (Dormand-Prince 5(4), Boost.Odeint) of
-// dy/dt = rhs(y, t) from t0 to exactly t1. The stepper is restarted at t0, so the caller
-// integrates segment by segment between forcing breakpoints.
-using OdeRhs = std::function<void(const Eigen::VectorXd&, Eigen::VectorXd&, double)>;
+// dy/dt = rhs(y, t) from t0 to exactly t1, y updated in place when ok. The stepper is restarted at
+// t0, so the caller integrates segment by segment between forcing breakpoints. (The state
+// type of the integrator, an Eigen vector, stays inside kernels.cpp.)
+using OdeRhs = std::function<void(std::span<const double> y, std::span<double> dydt, double t)>;
 struct OdeSegmentResult {
   bool ok = true;
   long steps = 0;
@@ -62,7 +72,7 @@ struct OdeSegmentResult {
   double last_dt_s = 0.0;
   std::string message;
 };
-[[nodiscard]] OdeSegmentResult integrate_ode_segment(const OdeRhs& rhs, Eigen::VectorXd& y,
+[[nodiscard]] OdeSegmentResult integrate_ode_segment(const OdeRhs& rhs, std::span<double> y,
                                                      double t0_s, double t1_s, double dt_initial_s,
                                                      const RoutingOptions& options);
 
