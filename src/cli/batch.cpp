@@ -6,6 +6,7 @@
 #include <cstdio>
 #include <exception>
 #include <filesystem>
+#include <iostream>
 #include <mutex>
 #include <set>
 #include <sstream>
@@ -13,14 +14,17 @@
 
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
+#include "commands.hpp"
 #include "progress.hpp"
+#include "stop_signals.hpp"
 
 namespace freshet::cli {
 
 void add_run_options(CLI::App* cmd, RunArgs& args) {
   cmd->add_option("basin", args.basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
   cmd->add_option("-s,--storm", args.storms, "Storm id to run (repeatable; default: all)");
-  cmd->add_option("-o,--out", args.out_dir, "Output folder (default: out/<basin name>)");
+  cmd->add_option("-o,--out", args.out_dir, "Output folder (default: out/<basin name>)")
+      ->check(kNonEmptyPath);
   cmd->add_flag("--overwrite", args.overwrite, "Replace existing result files");
   cmd->add_option("-j,--jobs", args.jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
 }
@@ -56,6 +60,16 @@ std::vector<std::string> unique_in_order(const std::vector<std::string>& items) 
 std::vector<io::RunOutcome> run_batch(const io::Study& study,
                                       const std::vector<io::RunRequest>& requests,
                                       const BatchOptions& options) {
+  // Lock every output folder first (another freshet process writing there stops this command
+  // before anything is routed), and report what killed runs had left there.
+  std::vector<io::OutputFolderLock::Handle> locks;
+  for (const auto& request : requests) {
+    locks.push_back(io::OutputFolderLock::acquire(io::run_folder(request)));
+    for (const auto& left : locks.back()->removed_leftovers()) {
+      std::cerr << "freshet: removed '" << left.string()
+                << "', left by an earlier run that was killed before it finished\n";
+    }
+  }
   // Refuse before any routing when a run would meet an existing result (without --overwrite)
   // or route a storm that outlasts the run.
   std::set<std::filesystem::path> planned;
@@ -78,6 +92,7 @@ std::vector<io::RunOutcome> run_batch(const io::Study& study,
   auto worker = [&] {
     for (std::size_t k = next++; k < n; k = next++) {
       try {
+        if (stop_requested()) throw io::RunInterrupted("the run was stopped before it started");
         results[k] = io::run_study(study, requests[k], [&, k](double f) {
           double total = 0.0;
           {
@@ -86,7 +101,7 @@ std::vector<io::RunOutcome> run_batch(const io::Study& study,
             for (double x : fraction) total += x;
           }
           progress.update(total / static_cast<double>(n));
-        });
+        }, [] { return stop_requested(); });
       } catch (...) {
         errors[k] = std::current_exception();
       }

@@ -38,8 +38,10 @@ std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args);
 // command line is run or exported once).
 std::vector<std::string> unique_in_order(const std::vector<std::string>& items);
 
-// Runs every request; results come back in request order. The first failure (by request
-// order) is rethrown after all threads have stopped; outputs of completed runs stay.
+// Runs every request; results come back in request order. Every output folder is locked for
+// the whole batch (io::OutputFolderLock). The first failure (by request order) is rethrown
+// after all threads have stopped; outputs of completed runs stay. SIGINT/SIGTERM
+// (stop_signals.hpp) stop the runs under way and those not yet started (io::RunInterrupted).
 std::vector<io::RunOutcome> run_batch(const io::Study& study,
                                       const std::vector<io::RunRequest>& requests,
                                       const BatchOptions& options);

@@ -17,6 +17,7 @@ enum ExitCode : int {
   kExitNumerical = 3,       // a numerical method failed
   kExitIo = 4,              // a file could not be read or written
   kExitVerifyFailed = 5,    // `freshet verify`: a case missed its published value
+  // 128 + the signal number: stopped by SIGINT (130) or SIGTERM (143); stop_signals.hpp.
 };
 
 struct GlobalOptions {
@@ -27,6 +28,13 @@ struct GlobalOptions {
 };
 
 using Action = std::function<int()>;
+
+// Rejects an empty path argument (`--out ''`), which would otherwise mean "the default".
+inline const CLI::Validator kNonEmptyPath(
+    [](std::string& value) {
+      return value.empty() ? std::string("is empty: name a file or folder") : std::string();
+    },
+    "PATH", "non-empty path");
 
 void add_route_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_check_command(CLI::App& app, const GlobalOptions& global, Action& action);

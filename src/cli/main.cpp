@@ -5,13 +5,60 @@
 
 #include "commands.hpp"
 #include "freshet/core/error.hpp"
+#include "freshet/io/study_run.hpp"
+#include "stop_signals.hpp"
+
+namespace {
+
+using namespace freshet::cli;
+
+// CLI11 answers a word that names no subcommand with "A subcommand is required"; this names
+// the word and lists the subcommands instead. Returns false when the failure is another one.
+bool report_unknown_subcommand(const CLI::App& app, int argc, char** argv) {
+  if (!app.get_subcommands().empty()) return false;  // a subcommand was recognised
+  for (int k = 1; k < argc; ++k) {
+    const std::string word = argv[k];
+    if (word.empty() || word.front() == '-') continue;
+    std::string names;
+    for (const CLI::App* sub : app.get_subcommands([](const CLI::App*) { return true; })) {
+      names += (names.empty() ? "" : ", ") + sub->get_name();
+    }
+    std::cerr << "freshet: unknown subcommand '" << word << "'; the subcommands are " << names
+              << " (freshet --help describes them)\n";
+    return true;
+  }
+  return false;
+}
+
+// Runs the selected action; maps its exception to an exit code and prints the message.
+int run_action(const Action& action, bool& library_state_unknown) {
+  try {
+    return action ? action() : kExitOk;
+  } catch (const freshet::InputError& e) {
+    std::cerr << "freshet: the input has " << e.problems().size() << " problem(s):\n"
+              << e.what() << "\n";
+    return kExitBadInput;
+  } catch (const freshet::NumericalError& e) {
+    std::cerr << "freshet: numerical failure: " << e.what() << "\n";
+    return kExitNumerical;
+  } catch (const freshet::IoError& e) {
+    std::cerr << "freshet: " << e.what() << "\n";
+    library_state_unknown = true;
+    return kExitIo;
+  } catch (const freshet::io::RunInterrupted&) {
+    return kExitOk;  // reported by main() from the signal received
+  }
+}
+
+}  // namespace
 
 int main(int argc, char** argv) {
-  using namespace freshet::cli;
+  install_stop_handlers();
   CLI::App app{
       "freshet: kinematic-wave flood routing for drainage and stormwater studies.\n"
       "Exit codes: 0 success, 1 bad command line, 2 bad input file, 3 numerical failure,\n"
-      "4 file could not be read or written, 5 verification case failed."};
+      "4 file could not be read or written, 5 verification case failed,\n"
+      "130 stopped by SIGINT (Ctrl-C), 143 stopped by SIGTERM."};
   app.require_subcommand(1);
   app.fallthrough();  // global flags (--quiet) may also follow the subcommand
   GlobalOptions global;
@@ -37,25 +84,26 @@ int main(int argc, char** argv) {
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
+    if (e.get_exit_code() != 0 && report_unknown_subcommand(app, argc, argv)) return kExitUsage;
     const int code = app.exit(e);
     return code == 0 ? kExitOk : kExitUsage;
   }
-  try {
-    return action ? action() : kExitOk;
-  } catch (const freshet::InputError& e) {
-    std::cerr << "freshet: the input has " << e.problems().size() << " problem(s):\n"
-              << e.what() << "\n";
-    return kExitBadInput;
-  } catch (const freshet::NumericalError& e) {
-    std::cerr << "freshet: numerical failure: " << e.what() << "\n";
-    return kExitNumerical;
-  } catch (const freshet::IoError& e) {
-    std::cerr << "freshet: " << e.what() << "\n";
+  bool library_state_unknown = false;
+  int code = run_action(action, library_state_unknown);
+  const int signal = stop_signal();
+  if (signal != 0) {
+    std::cerr << "freshet: stopped by " << signal_name(signal)
+              << "; runs that had not finished left no file (their temporary files were "
+                 "removed); runs that had finished kept their complete results\n";
+    code = 128 + signal;
+  }
+  if (library_state_unknown || signal != 0) {
     // After a failed write HDF5 may still hold the file it could not close, and its exit
-    // handler then crashes (seen with a file-size limit). The partial files were already
+    // handler then crashes (seen with a file-size limit). The temporary files were already
     // removed during unwinding, so leave without running the library's exit handlers.
     std::cout.flush();
     std::cerr.flush();
-    std::_Exit(kExitIo);
+    std::_Exit(code);
   }
+  return code;
 }

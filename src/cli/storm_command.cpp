@@ -281,7 +281,8 @@ void add_storm_command(CLI::App& app, const GlobalOptions& /*global*/, Action& a
   cmd->add_option("--depth-mm", a->depth_mm, "NRCS: 24-hour rain depth (mm)");
   cmd->add_option("--depth-in", a->depth_in, "NRCS: 24-hour rain depth (in)");
   cmd->add_option("--units", a->units, "Printed and exported units: si (mm, mm/h) | us (in, in/h)");
-  cmd->add_option("--out", a->out, "Write the storm to this CSV file (rain depth per interval)");
+  cmd->add_option("--out", a->out, "Write the storm to this CSV file (rain depth per interval)")
+      ->check(kNonEmptyPath);
   cmd->add_flag("--overwrite", a->overwrite, "Replace an existing --out file");
   cmd->footer(
       "Examples:\n"

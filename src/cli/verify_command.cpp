@@ -239,7 +239,8 @@ void add_verify_command(CLI::App& app, const GlobalOptions& /*global*/, Action& 
   auto args = std::make_shared<VerifyArgs>();
   cmd->add_option("--out", args->out,
                   "Also write the report to this file (Markdown when it ends in .md, text "
-                  "otherwise; written atomically)");
+                  "otherwise; written atomically)")
+      ->check(kNonEmptyPath);
   cmd->add_flag("--overwrite", args->overwrite, "Replace an existing --out file");
   cmd->add_flag("--list", args->list, "List the cases and their sources without running them");
   cmd->footer(

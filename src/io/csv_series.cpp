@@ -369,7 +369,7 @@ std::string format_series_csv(const SeriesTable& table, const CsvWriteOptions& o
 
 void write_series_csv(const std::filesystem::path& path, const SeriesTable& table,
                       const CsvWriteOptions& options) {
-  write_file_atomically(path, format_series_csv(table, options), options.overwrite);
+  write_file_atomically(path, format_series_csv(table, options), options.overwrite, options.set);
 }
 
 }  // namespace freshet::io

@@ -3,6 +3,8 @@
 #include <netcdf.h>
 
 #include <algorithm>
+#include <cerrno>
+#include <cstring>
 #include <chrono>
 #include <cmath>
 #include <netcdf>
@@ -51,10 +53,22 @@ constexpr VariableSpec kSpecs[] = {
 
 const VariableSpec& spec(OutputVariable v) { return kSpecs[static_cast<std::size_t>(v)]; }
 
+// netcdf-cxx4's NcFile destructor retries close() and prints a failure to std::cerr ("NetCDF:
+// HDF error" and "file: ncFile.cpp line:33"). After a failed close the handle is unusable and
+// the failure has already been reported as an IoError naming the path, so forget() marks it
+// closed and the destructor stays silent.
+class OwnedNcFile final : public nc::NcFile {
+ public:
+  using nc::NcFile::NcFile;
+  void forget() noexcept { nullObject = true; }
+};
+
 [[noreturn]] void rethrow_as_io_error(const std::filesystem::path& path,
                                       const nc::exceptions::NcException& e) {
+  const int err = errno;  // left by the failed write under HDF5's generic "HDF error"
   std::string what = e.what();
   what = what.substr(0, what.find('\n'));  // drop netcdf-cxx4's "file: ... line:" suffix
+  if (err == ENOSPC || err == EFBIG || err == EDQUOT) what += std::string(": ") + std::strerror(err);
   throw IoError("NetCDF output file '" + path.string() + "': " + what);
 }
 
@@ -114,11 +128,11 @@ std::mutex& netcdf_global_mutex() {
 
 struct NetcdfTimeSeriesWriter::Impl {
   Impl(std::filesystem::path path, NetcdfWriterOptions opt)
-      : output(std::move(path), opt.overwrite), options(opt) {}
+      : output(std::move(path), opt.overwrite, opt.set), options(opt) {}
 
   AtomicOutputPath output;
   NetcdfWriterOptions options;
-  std::unique_ptr<nc::NcFile> file;
+  std::unique_ptr<OwnedNcFile> file;
   nc::NcVar time_var;
   std::vector<nc::NcVar> data_vars;
   std::vector<double> from_si;
@@ -244,7 +258,9 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
 void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const InstanceSet& set,
                                           const std::vector<OutputVariable>& variables) {
   n_instances = set.instances.size();
-  file = std::make_unique<nc::NcFile>(output.partial_path().string(), nc::NcFile::replace);
+  // newFile (NC_NOCLOBBER): the temporary name is unique, and never taken over from another.
+  file = std::make_unique<OwnedNcFile>(output.partial_path().string(), nc::NcFile::newFile,
+                                       nc::NcFile::nc4);
   const nc::NcDim time_dim = file->addDim("time");  // no size: UNLIMITED
   const nc::NcDim dim = file->addDim(set.kind, n_instances);
   time_var = file->addVar("time", nc::ncDouble, time_dim);
@@ -312,6 +328,7 @@ NetcdfTimeSeriesWriter::~NetcdfTimeSeriesWriter() {
   try {
     impl_->file->close();
   } catch (...) {  // nothing to report from a destructor; the partial file is removed anyway
+    impl_->file->forget();
   }
   impl_->file.reset();
 }
@@ -369,6 +386,7 @@ void NetcdfTimeSeriesWriter::commit() {
     try {
       impl_->file->close();
     } catch (const nc::exceptions::NcException& e) {
+      impl_->file->forget();
       impl_->file.reset();
       rethrow_as_io_error(impl_->output.final_path(), e);
     }

@@ -29,8 +29,10 @@ using network::StationSample;
 // Streams station samples to the two NetCDF files and keeps per-station accumulators.
 class StudySink final : public network::RecordSink {
  public:
-  StudySink(const std::vector<StationDescription>& stations, const network::Model& model)
-      : stations_(stations),
+  StudySink(const std::vector<StationDescription>& stations, const network::Model& model,
+            const CancelFn& cancel)
+      : cancel_(cancel),
+        stations_(stations),
         acc_(stations.size()),
         at_peak_(stations.size()),
         watch_(model, stations) {
@@ -55,6 +57,7 @@ class StudySink final : public network::RecordSink {
   // Every coupling step feeds the peak and volume accumulators (finer than the output).
   [[nodiscard]] bool observes_every_step() const override { return true; }
   void observe(double time_s, std::span<const StationSample> samples) override {
+    if (cancel_ && cancel_()) throw RunInterrupted("the run was stopped before it finished");
     watch_.observe(time_s, samples);
     for (auto& [i, kept] : exports_) {
       kept.times_s.push_back(time_s);
@@ -114,6 +117,7 @@ class StudySink final : public network::RecordSink {
     sub_->record(time_s, row_);
   }
 
+  const CancelFn& cancel_;  // polled at every coupling step
   const std::vector<StationDescription>& stations_;
   NetcdfTimeSeriesWriter* channel_ = nullptr;
   NetcdfTimeSeriesWriter* sub_ = nullptr;
@@ -570,7 +574,7 @@ std::filesystem::path write_export(const Study& study,
                                    const StudySink& sink,
                                    std::size_t i,
                                    const StationDescription& station,
-                                   const std::filesystem::path& folder,
+                                   OutputSet& results,
                                    RunSummary& summary) {
   const StudySettings& set = study.settings();
   const auto [dt_s, n] = export_grid(study, req);
@@ -635,7 +639,8 @@ std::filesystem::path write_export(const Study& study,
   options.title = "freshet hydrograph";
   options.time_base = set.start_iso + " (study start)";
   options.overwrite = req.overwrite;
-  const auto path = RunPaths{folder, req.storm_id}.export_csv(station.id);
+  options.set = &results;
+  const auto path = RunPaths{results.folder(), req.storm_id}.export_csv(station.id);
   write_series_csv(path, table, options);
   return path;
 }
@@ -681,11 +686,13 @@ void open_run_files(const Study& study,
                     const RunRequest& req,
                     const network::Model& model,
                     const std::vector<StationDescription>& stations,
-                    const std::filesystem::path& folder,
+                    OutputSet& results,
                     StudySink& sink,
                     RunFiles& files) {
+  const std::filesystem::path& folder = results.folder();
   NetcdfWriterOptions nc;
   nc.overwrite = req.overwrite;
+  nc.set = &results;
   if (!sink.channel_index().empty()) {
     files.stations.emplace(RunPaths{folder, req.storm_id}.stations_nc(), nc);
     files.stations->begin(metadata(study, req, "stations"),
@@ -715,30 +722,52 @@ void open_run_files(const Study& study,
   sink.after_record = [&files](double t) { files.profile_cells->write(*files.profiles, t); };
 }
 
-// Exports, summaries (CSV, JSON), then the NetCDF files renamed into place last, so that
-// nothing looks finished unless everything was written.
+// Completes every file of the run in its result set: exports, NetCDF files, summary CSVs and
+// the summary JSON. Nothing is under a final name until the set is committed.
 void write_run_files(const Study& study,
                      const RunRequest& req,
                      const StudySink& sink,
                      const std::vector<StationDescription>& stations,
                      const std::vector<std::size_t>& exported,
-                     const std::filesystem::path& folder,
+                     OutputSet& results,
                      RunFiles& files,
                      RunOutcome& out) {
   // Exports first: what they note about their peaks goes into the summaries.
   for (std::size_t i : exported) {
-    out.files.push_back(write_export(study, req, sink, i, stations[i], folder, out.summary));
+    (void)write_export(study, req, sink, i, stations[i], results, out.summary);
   }
-  const RunPaths at{folder, req.storm_id};
-  const std::filesystem::path prefix = at.summary_prefix();
-  for (auto& p : write_summary_csv(prefix, out.summary, req.overwrite)) out.files.push_back(p);
-  const std::filesystem::path json = at.summary_json();
-  write_summary_json(json, out.summary, req.overwrite);
-  out.files.push_back(json);
   for (auto* file : {&files.stations, &files.subcatchments, &files.profiles}) {
-    if (!*file) continue;
-    (*file)->commit();
-    out.files.push_back((*file)->final_path());
+    if (*file) (*file)->commit();
+  }
+  const RunPaths at{results.folder(), req.storm_id};
+  (void)write_summary_csv(at.summary_prefix(), out.summary, req.overwrite, &results);
+  write_summary_json(at.summary_json(), out.summary, req.overwrite, &results);
+}
+
+// Drives the model. An input problem or numerical failure found while routing (it carries no
+// file: the kernels know none) is located in the study file, storm and scenario.
+network::RunSummary simulate_located(const Study& study,
+                                     const RunRequest& req,
+                                     network::Model& model,
+                                     const network::ClockOptions& clock,
+                                     StudySink& sink,
+                                     const network::ProgressFn& progress) {
+  const std::string where = "storm '" + req.storm_id + "'" +
+                            (req.scenario_id.empty() ? "" : ", scenario '" + req.scenario_id + "'");
+  try {
+    return network::simulate(model, clock, sink, progress);
+  } catch (const InputError& e) {
+    std::vector<Problem> located = e.problems();
+    for (Problem& p : located) {
+      if (!p.file.empty()) continue;
+      p.file = study.file().string();
+      p.element = where + (p.element.empty() ? "" : ", " + p.element);
+      p.message += " (found while routing: the value comes from this storm's rain and the "
+                   "inputs of this element)";
+    }
+    throw InputError(std::move(located));
+  } catch (const NumericalError& e) {
+    throw NumericalError(study.file().string() + ", " + where + ": " + e.what());
   }
 }
 
@@ -757,20 +786,21 @@ std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
 
 RunOutcome run_study(const Study& study,
                      const RunRequest& req,
-                     const network::ProgressFn& progress) {
+                     const network::ProgressFn& progress,
+                     const CancelFn& cancel) {
+  // One process at a time in the folder; released (and a folder it created removed again if
+  // empty) when the run fails.
+  const OutputFolderLock::Handle lock = OutputFolderLock::acquire(run_folder(req));
   check_run_request(study, req);
   network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
   const std::vector<StationDescription> stations = study.stations(req.scenario_id);
   const std::vector<std::size_t> exported = export_indices(req, stations);
   if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
-  const std::filesystem::path folder = run_folder(req);
-  std::error_code ec;
-  std::filesystem::create_directories(folder, ec);
-  if (ec) throw IoError("cannot create output folder '" + folder.string() + "': " + ec.message());
 
-  StudySink sink(stations, model);
+  OutputSet results(lock->folder(), req.storm_id, req.overwrite);
+  StudySink sink(stations, model, cancel);
   RunFiles files;
-  open_run_files(study, req, model, stations, folder, sink, files);
+  open_run_files(study, req, model, stations, results, sink, files);
   for (std::size_t i : exported) sink.keep_series(i);
 
   const StudySettings& set = study.settings();
@@ -778,11 +808,14 @@ RunOutcome run_study(const Study& study,
   RunOutcome out;
   out.scenario_id = req.scenario_id;
   out.storm_id = req.storm_id;
-  out.numerics = network::simulate(model, clock, sink, progress);
+  out.numerics = simulate_located(study, req, model, clock, sink, progress);
   out.summary = summarise(study, req, model, out.numerics, sink, stations);
   out.peaks = station_peaks(model, out.summary, stations);
   out.reach_numerics = reach_numerics(model);
-  write_run_files(study, req, sink, stations, exported, folder, files, out);
+  write_run_files(study, req, sink, stations, exported, results, files, out);
+  // The commit point: every file is complete in the staging folder.
+  if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");
+  out.files = results.commit(RunPaths{results.folder(), req.storm_id}.summary_json());
   return out;
 }
 

@@ -260,12 +260,13 @@ std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path
 
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
                                                      const RunSummary& summary,
-                                                     Overwrite overwrite) {
+                                                     Overwrite overwrite,
+                                                     OutputSet* set) {
   const std::string texts[] = {stations_csv(summary), pairs_csv(summary), checks_csv(summary)};
   const std::vector<std::filesystem::path> paths = summary_csv_paths(prefix);
   // Open all first, so an existing file stops the whole set before anything is written.
   std::vector<std::unique_ptr<AtomicFile>> files;
-  for (const auto& path : paths) files.push_back(std::make_unique<AtomicFile>(path, overwrite));
+  for (const auto& path : paths) files.push_back(std::make_unique<AtomicFile>(path, overwrite, set));
   for (std::size_t i = 0; i < paths.size(); ++i) files[i]->write(texts[i]);
   for (auto& f : files) f->commit();
   return paths;
@@ -289,8 +290,8 @@ std::string format_summary_json(const RunSummary& summary) {
 }
 
 void write_summary_json(const std::filesystem::path& path, const RunSummary& summary,
-                        Overwrite overwrite) {
-  write_file_atomically(path, format_summary_json(summary), overwrite);
+                        Overwrite overwrite, OutputSet* set) {
+  write_file_atomically(path, format_summary_json(summary), overwrite, set);
 }
 
 }  // namespace freshet::io

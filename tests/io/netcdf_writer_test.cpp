@@ -23,6 +23,8 @@ namespace freshet::io {
 namespace {
 
 using ::testing::HasSubstr;
+using ::testing::ElementsAre;
+using ::testing::IsEmpty;
 using testing::TempDir;
 namespace nc = netCDF;
 
@@ -140,7 +142,7 @@ TEST(NetcdfWriter, WritesRecordsThatReadBackWithCfStructure) {
     EXPECT_EQ(w.records_written(), records);
   }
   ASSERT_TRUE(std::filesystem::exists(path));
-  EXPECT_FALSE(std::filesystem::exists(dir / "run.nc.partial"));
+  EXPECT_THAT(testing::entries(dir.path()), ElementsAre("run.nc"));  // no temporary file left
   std::lock_guard lock(netcdf_global_mutex());
   nc::NcFile f(path.string(), nc::NcFile::read);
   expect_cf_timeseries(f);
@@ -282,10 +284,9 @@ TEST(NetcdfWriter, UncommittedWriterLeavesNoFile) {
     NetcdfTimeSeriesWriter w(dir / "lost.nc");
     w.begin(metadata(), three_stations(), {OutputVariable::discharge});
     w.record(0.0, std::vector<double>{1.0, 2.0, 3.0});
-    EXPECT_TRUE(std::filesystem::exists(dir / "lost.nc.partial"));
+    EXPECT_TRUE(std::filesystem::exists(w.partial_path()));
   }
-  EXPECT_FALSE(std::filesystem::exists(dir / "lost.nc"));
-  EXPECT_FALSE(std::filesystem::exists(dir / "lost.nc.partial"));
+  EXPECT_THAT(testing::entries(dir.path()), IsEmpty());
 }
 
 TEST(NetcdfWriter, ExistingFileIsNotOverwrittenWithoutTheFlag) {
@@ -318,7 +319,7 @@ TEST(NetcdfWriter, BadMetadataListsEveryProblem) {
     EXPECT_THAT(e.what(), HasSubstr("field 'time_origin' = '1st of May'"));
     EXPECT_THAT(e.what(), HasSubstr("field 'station[3].id' = 'alder-1': duplicate id"));
   }
-  EXPECT_FALSE(std::filesystem::exists(dir / "bad.nc.partial"));
+  EXPECT_THAT(testing::entries(dir.path()), IsEmpty());
 }
 
 TEST(NetcdfWriterDeathTest, NonIncreasingTimeIsAProgrammerError) {

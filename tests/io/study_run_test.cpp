@@ -294,5 +294,41 @@ TEST(RunOutputs, PlannedFilesAreWrittenAndAnExistingResultStopsTheRunFirst) {
   EXPECT_NO_THROW(check_run_request(study, req));
 }
 
+// A run stopped through its CancelFn (the command line's SIGINT/SIGTERM) leaves nothing: no
+// file under a final or temporary name, and not the output folder it created.
+TEST(RunStudy, AStoppedRunLeavesNothing) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1.0\n60,3.0\n120,1.0\n");
+  write_text(dir / "b.toml", head(2.0) + spring_reach_outlet());
+  const Study study = Study::load(dir / "b.toml");
+  int polls = 0;
+  EXPECT_THROW((void)run_study(study, request_in(dir), {}, [&polls] { return ++polls > 3; }),
+               RunInterrupted);
+  EXPECT_GT(polls, 3);
+  EXPECT_FALSE(std::filesystem::exists(dir / "out"));
+}
+
+// An input problem found only while routing (rain that overflows to infinity) names the study
+// file and the storm, and the failed run leaves no output folder behind.
+TEST(RunStudy, AProblemFoundWhileRoutingNamesTheFileAndTheStorm) {
+  TempDir dir;
+  std::string text = head(2.0) +
+                     "[[subcatchment]]\nid = \"field\"\nto = \"out\"\narea = 10.0\n"
+                     "loss = { method = \"curve-number\", curve_number = 80 }\n"
+                     "  [[subcatchment.plane]]\n  length = 80.0\n  slope = 0.03\n"
+                     "  manning_n = 0.24\n[[outlet]]\nid = \"out\"\n";
+  text.replace(text.find("a = 1300.0"), 10, "a = 1e308");
+  write_text(dir / "b.toml", text);
+  try {
+    (void)run_study(Study::load(dir / "b.toml"), request_in(dir));
+    FAIL() << "expected InputError";
+  } catch (const InputError& e) {
+    ASSERT_FALSE(e.problems().empty());
+    EXPECT_EQ(e.problems()[0].file, (dir / "b.toml").string());
+    EXPECT_NE(std::string(e.what()).find("storm 's1'"), std::string::npos) << e.what();
+  }
+  EXPECT_FALSE(std::filesystem::exists(dir / "out"));
+}
+
 }  // namespace
 }  // namespace freshet::io

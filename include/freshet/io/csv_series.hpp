@@ -85,6 +85,7 @@ struct CsvWriteOptions {
   std::string title;      // first comment line; empty: "freshet hydrograph" / "freshet hyetograph"
   std::string time_base;  // what time 0 is, e.g. "2000-01-01T00:00:00Z (storm start)"
   Overwrite overwrite = Overwrite::no;
+  OutputSet* set = nullptr;  // the run's result set (atomic_file.hpp); nullptr: on its own
 };
 
 // Formats the table as CSV text: comments (title, time base, metadata, caution), header,

@@ -9,10 +9,11 @@
 // file: reach stations, subcatchments and along-reach profiles (one instance per cell) are
 // three writers and three files.
 //
-// Life cycle: the constructor only reserves the path; begin() creates `<path>.partial` and
-// defines everything; record() appends one time step (memory does not grow with run length:
-// nothing is buffered beyond the HDF5 chunk being filled); commit() closes and renames into
-// place. A writer destroyed without commit() removes its partial file. nc_sync is called on a
+// Life cycle: the constructor only reserves the path; begin() creates the temporary file (a
+// unique hidden name, atomic_file.hpp) and defines everything; record() appends one time step
+// (memory does not grow with run length: nothing is buffered beyond the HDF5 chunk being
+// filled); commit() closes and renames into place (or completes the file in its OutputSet).
+// A writer destroyed without commit() removes its temporary file. nc_sync is called on a
 // wall-clock interval so a crash leaves a readable partial file.
 //
 // netCDF-C is not thread-safe (Unidata/netcdf-c #1373): every netCDF call made by this class
@@ -87,6 +88,9 @@ struct NetcdfWriterOptions {
   Overwrite overwrite = Overwrite::no;
   double sync_interval_s = 60.0;  // wall-clock seconds between syncs to disk
   int deflate_level = 4;          // 0..9
+  // The run's result set: the file is staged there and appears with the set's other files
+  // (atomic_file.hpp). nullptr: the file is renamed into place on its own by commit().
+  OutputSet* set = nullptr;
 };
 
 class NetcdfTimeSeriesWriter {

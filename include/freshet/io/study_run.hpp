@@ -1,7 +1,9 @@
 // Runs one (scenario, storm) of a study end to end: builds the model, drives it, streams the
 // station series to CF NetCDF, accumulates the summaries, checks kinematic-wave
-// applicability, and writes the summary CSV and JSON files. Every output file is written
-// under a temporary name and renamed only when the run has completed.
+// applicability, and writes the summary CSV and JSON files. The run's files are one result
+// set (atomic_file.hpp): written into a private staging folder and renamed into place
+// together, the summary JSON last, only when the run has completed; the output folder is
+// locked against other freshet processes for the run (OutputFolderLock).
 //
 //   Study study = Study::load("basins/tansy-brook.toml");
 //   RunRequest req{"", "aep1-60min", "out/tansy-brook", Overwrite::no, "freshet route ..."};
@@ -10,6 +12,8 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
+#include <stdexcept>
 #include <string>
 #include <vector>
 
@@ -66,10 +70,25 @@ struct RunOutcome {
   std::vector<std::filesystem::path> files;  // written and renamed into place
 };
 
-// Runs and writes; throws InputError, NumericalError or IoError (no final file is left
-// under its final name after a failure). `progress` receives the fraction of simulated time.
+// Asked at every coupling step and before the results are renamed into place: true stops the
+// run (RunInterrupted). The command line sets it from SIGINT/SIGTERM; the library knows
+// nothing of signals.
+using CancelFn = std::function<bool()>;
+
+// A run stopped because CancelFn returned true; none of its files is left, under a final or a
+// temporary name.
+class RunInterrupted : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+// Runs and writes; throws InputError, NumericalError, IoError or RunInterrupted (no file of
+// the run is left under its final name after a failure, and no temporary file either).
+// An input problem found only while routing (say a storm whose rain overflows to infinity on
+// a subcatchment) names the study file, the storm and the element. `progress` receives the
+// fraction of simulated time.
 RunOutcome run_study(const Study& study, const RunRequest& request,
-                     const network::ProgressFn& progress = {});
+                     const network::ProgressFn& progress = {}, const CancelFn& cancel = {});
 
 // The output folder of one run: out_dir/<scenario id, or "base">.
 std::filesystem::path run_folder(const RunRequest& request);

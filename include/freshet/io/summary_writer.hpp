@@ -35,11 +35,12 @@ std::string format_warning_lines(const RunSummary& summary);
 std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix);
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
                                                      const RunSummary& summary,
-                                                     Overwrite overwrite = Overwrite::no);
+                                                     Overwrite overwrite = Overwrite::no,
+                                                     OutputSet* set = nullptr);
 
 // The whole summary as one JSON document (NaN as null), with "caution" and "units" members.
 std::string format_summary_json(const RunSummary& summary);
 void write_summary_json(const std::filesystem::path& path, const RunSummary& summary,
-                        Overwrite overwrite = Overwrite::no);
+                        Overwrite overwrite = Overwrite::no, OutputSet* set = nullptr);
 
 }  // namespace freshet::io
