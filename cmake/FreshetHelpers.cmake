@@ -4,7 +4,10 @@ function(freshet_warnings target)
   # -Wno-restrict: g++ 12 reports false -Wrestrict errors inside std::string operator+ at -O2
   # (GCC bug 105651, fixed in g++ 13).
   target_compile_options(${target} PRIVATE -Wall -Wextra -Wpedantic -Wshadow -Wconversion
-                                           -Wno-sign-conversion -Wno-restrict)
+                                           -Wno-sign-conversion)
+  if(CMAKE_CXX_COMPILER_ID STREQUAL "GNU")
+    target_compile_options(${target} PRIVATE -Wno-restrict)
+  endif()
   if(FRESHET_WERROR)
     target_compile_options(${target} PRIVATE -Werror)
   endif()

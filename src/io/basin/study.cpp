@@ -340,9 +340,10 @@ const toml::table* Study::Impl::checked_changes(std::string_view scenario_id,
   const std::string label = "scenario '" + std::string(scenario_id) + "'";
   for (const auto& [element_id, value] : *it->second) {
     const auto& where = value.source().begin;
-    auto report = [&](std::string message) {
+    const std::string field = "change." + std::string(element_id.str());  // clang < 16 cannot
+    auto report = [&](std::string message) {                               // capture a binding
       problems.push_back({file, static_cast<int>(where.line), static_cast<int>(where.column),
-                          label, "change." + std::string(element_id.str()), std::move(message)});
+                          label, field, std::move(message)});
     };
     if (!element_exists(root, element_id.str())) {
       report("names no element of the basin");
