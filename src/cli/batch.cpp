@@ -166,6 +166,14 @@ std::string format_notes(const io::RunOutcome& run) {
   return out.str();
 }
 
+std::string format_input_warnings(const io::Study& study, std::string_view indent) {
+  std::string out;
+  for (const Problem& w : study.warnings()) {
+    out += std::string(indent) + "warning: " + w.to_string() + "\n";
+  }
+  return out;
+}
+
 std::string wrapped_caution() {
   std::string out;
   std::size_t line = 0;

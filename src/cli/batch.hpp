@@ -61,6 +61,10 @@ std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
 // Element reports (culvert crossings, detention basins, shocks, capacity) of one run.
 std::string format_notes(const io::RunOutcome& run);
 
+// The basin file's plausibility warnings (io::Study::warnings), one "warning: ..." line each
+// after `indent`; empty when there are none.
+std::string format_input_warnings(const io::Study& study, std::string_view indent = "");
+
 // The caution, wrapped for a terminal.
 std::string wrapped_caution();
 

@@ -29,6 +29,8 @@ int check(const std::string& basin) {
                 << " (routing this storm is refused)";
     }
   }
+  const std::string warnings = format_input_warnings(study, "  ");
+  if (!warnings.empty()) std::cout << "\n" << warnings.substr(0, warnings.size() - 1);
   std::cout << "\n  scenarios:";
   if (study.scenarios().empty()) std::cout << " none";
   for (const auto& s : study.scenarios()) std::cout << " " << s.id;

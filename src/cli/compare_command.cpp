@@ -98,6 +98,8 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   if (scenarios.size() == 1) {
     std::cerr << "freshet compare: note: the basin file defines no [[scenario]]; showing the base\n";
   }
+  const std::string warnings = format_input_warnings(study);
+  if (!warnings.empty()) std::cout << warnings << "\n";
   const std::vector<io::RunOutcome> runs = run_batch(study, requests, options);
   std::cout << study.settings().title << "\nComparison of the base network";
   for (std::size_t k = 1; k < scenarios.size(); ++k) std::cout << (k == 1 ? " with " : ", ") << scenarios[k];

@@ -32,7 +32,8 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   }
   std::cout << study.settings().title << "\n"
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)
-            << ", " << storms.size() << " storm(s)\n\n";
+            << ", " << storms.size() << " storm(s)\n"
+            << format_input_warnings(study) << "\n";
   const std::vector<io::RunOutcome> runs = run_batch(study, requests, options);
   for (const auto& r : runs) {
     std::cout << io::format_summary_table(r.summary, false);

@@ -205,7 +205,7 @@ TEST(BasinMessages, LossParametersUseTheFileKeysAndUnits) {
   Basin cn(head("si") + subcatchment("[subcatchment.loss]\nmethod = \"curve-number\"\n"
                                      "curve_number = 103\n"));
   expect_problem(cn, "curve_number", "curve_number = 103", "subcatchment 'sub' loss",
-                 {"= 103", "must be in (30, 100]"});
+                 {"= 103", "must be <= 100 (curve number"});
 }
 
 TEST(BasinMessages, OutletAndBarrelDimensionsUseTheFileKeys) {
@@ -218,7 +218,7 @@ TEST(BasinMessages, OutletAndBarrelDimensionsUseTheFileKeys) {
           "[culvert.ponding]\nstages = [9.0, 10.0, 11.0]\nstorages = [0.0, 300.0, 1000.0]\n"
           "\n[[outlet]]\nid = \"out\"\n");
   expect_problem(b, "coefficient", "coefficient = 1.2", "detention 'pond' outlet 1",
-                 {"= 1.2", "must be in (0, 1]"});
+                 {"= 1.2", "must be <= 1 (orifice discharge coefficient"});
   expect_problem(b, "inlet", "inlet = \"box", "culvert 'cul' barrel",
                  {"'box-wingwall-0-deg'", "other barrel shape"});
 }

@@ -367,9 +367,9 @@ id = "out"
 )");
   ASSERT_FALSE(f.problems().empty());
   EXPECT_TRUE(has_line(f.what, f.basin.string() + ":",
-                       {"subcatchment 'hill' plane 1, field 'length' = -90: must be > 0"}));
+                       {"subcatchment 'hill' plane 1, field 'length' = -90 m: must be > 0"}));
   EXPECT_TRUE(has_line(f.what, f.basin.string() + ":",
-                       {"detention 'd1' outlet 1, field 'length' = -2: must be > 0"}));
+                       {"detention 'd1' outlet 1, field 'length' = -2 m: must be > 0"}));
   // Not asserted (reported as defects): these lines carry no line number, and each value is
   // reported a second time by the library as "field 'length_m' = nan".
 }

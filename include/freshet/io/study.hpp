@@ -5,6 +5,8 @@
 // Loading checks everything at once: syntax, unknown keys, values out of range, unknown or
 // duplicate ids, cycles, CSV files named by the study, and every scenario applied to the base.
 // Problems are reported together in one InputError, each with file, line, element and field.
+// Every number is checked against a hard range (an error) and a plausible range (a warning,
+// kept in warnings()); the ranges are one table, src/io/basin/input_ranges.cpp.
 // US customary input (units = "us") is converted to SI here, once.
 //
 //   Study study = Study::load("basins/tansy-brook.toml");
@@ -72,6 +74,10 @@ class Study {
 
   [[nodiscard]] const std::filesystem::path& file() const noexcept;
   [[nodiscard]] const StudySettings& settings() const noexcept;
+  // Values outside their plausible ranges (docs/basin-file.md, "Ranges"), each naming file,
+  // line, element, field, value and the published source of the range; in file order per
+  // element kind. `freshet check` prints them, and `route` and `compare` before routing.
+  [[nodiscard]] const std::vector<Problem>& warnings() const noexcept;
   [[nodiscard]] const std::vector<StormDefinition>& storms() const noexcept;
   [[nodiscard]] const std::vector<ScenarioDefinition>& scenarios() const noexcept;
   [[nodiscard]] const StormDefinition& storm(std::string_view id) const;  // InputError if unknown

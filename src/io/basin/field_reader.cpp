@@ -70,6 +70,24 @@ void FieldReader::report_here(std::string message) {
   problems_.push_back(make(nullptr, "", std::move(message)));
 }
 
+void FieldReader::warn(std::string_view key, std::string message) {
+  if (!warnings_) return;
+  const std::string_view base = key.substr(0, key.find('['));
+  const toml::node* node = find(base);
+  if (node && base.size() != key.size()) {
+    // "key[k]": the item's own position when there is one.
+    const std::size_t k = std::stoul(std::string(key.substr(base.size() + 1))) - 1;
+    if (const toml::array* arr = node->as_array(); arr && k < arr->size()) node = arr->get(k);
+  }
+  warnings_->push_back(make(node, key, std::move(message)));
+}
+
+FieldReader FieldReader::nested(const toml::table& table, std::string_view what) const {
+  FieldReader child(table, file_, element_ + " " + std::string(what), problems_);
+  child.warnings_ = warnings_;
+  return child;
+}
+
 const toml::node* FieldReader::take(std::string_view key) {
   read_.emplace(key);
   return find(key);

@@ -3,7 +3,8 @@
 // Every value read is checked (type, finiteness, range where asked) and every problem is
 // appended to a shared list with file, line, column, element and field, so a whole file is
 // checked in one pass. Keys never read are reported by finish() as unknown: a misspelt key is
-// an error, not a silently ignored value.
+// an error, not a silently ignored value. Values that are valid but implausible are warnings,
+// kept in a second list (set_warnings; nested tables share it).
 //
 //   FieldReader r(table, "basins/demo.toml", "reach 'upper-mill'", problems);
 //   double n = r.positive("manning_n");
@@ -53,6 +54,13 @@ class FieldReader {
   // Problem located at item `index` (0-based) of the array `key`, named "key[index + 1]".
   void report_item(std::string_view key, std::size_t index, std::string message);
   void report_here(std::string message);                   // problem located at the table
+  // A warning located at `key` (which may name an item, "stages[2]"); dropped when the reader
+  // keeps no warnings.
+  void warn(std::string_view key, std::string message);
+  void set_warnings(std::vector<Problem>* warnings) { warnings_ = warnings; }
+  // A reader of a table nested in this one, labelled "<element> <what>", sharing this reader's
+  // file, problems and warnings.
+  [[nodiscard]] FieldReader nested(const toml::table& table, std::string_view what) const;
   void finish();  // reports every key that was never read
   // Marks every key as read: for a table whose reading stopped early (an unknown method, an
   // error thrown while building), whose remaining keys cannot be judged.
@@ -76,6 +84,7 @@ class FieldReader {
   std::string file_;
   std::string element_;
   std::vector<Problem>& problems_;
+  std::vector<Problem>* warnings_ = nullptr;
   std::set<std::string, std::less<>> read_;
 };
 

@@ -13,11 +13,13 @@
 #include "freshet/network/elements.hpp"
 #include "freshet/network/simple_elements.hpp"
 #include "freshet/routing/make_reach.hpp"
+#include "input_ranges.hpp"
 
 namespace freshet::io::detail {
 
 namespace structures = network::structures;
 using network::ElementKind;
+using Q = Quantity;
 
 void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& problems) {
   for (Problem p : e.problems()) {
@@ -46,7 +48,7 @@ NetworkReader::NetworkReader(const toml::table& root, const toml::table* changes
                              std::string file, std::filesystem::path base_dir,
                              const StudySettings& settings, const hydrology::Hyetograph& storm,
                              std::vector<Problem>& problems, CrossingCache* cache,
-                             std::string cache_scope)
+                             std::string cache_scope, std::vector<Problem>* warnings)
     : root_(root),
       changes_(changes),
       cache_(cache),
@@ -56,7 +58,8 @@ NetworkReader::NetworkReader(const toml::table& root, const toml::table* changes
       settings_(settings),
       units_{settings.units},
       storm_(storm),
-      problems_(problems) {}
+      problems_(problems),
+      warnings_(warnings) {}
 
 network::Model NetworkReader::build() {
   read_array("inflow", ElementKind::inflow);
@@ -123,6 +126,7 @@ void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&&
   const std::string label = (changed ? "scenario '" + cache_scope_ + "', " : std::string{}) +
                             std::string(network::to_string(kind)) + " '" + id + "'";
   Reader r(table, file_, label, problems_, changed);
+  r.set_warnings(warnings_);
   network::Link link;
   link.id = r.text("id");
   if (!is_safe_id(link.id) && !link.id.empty()) {
@@ -177,26 +181,16 @@ std::string quoted(double value, const char* unit) {
   return "= " + format_value(value) + (unit && *unit ? std::string(" ") + unit : "");
 }
 
-// A fraction in (0, 1) (porosities).
-double open_fraction(FieldReader& l, std::string_view key) {
-  const double v = l.positive(key);
-  if (std::isfinite(v) && v >= 1.0) l.report(key, quoted(v, "") + ": must be < 1");
-  return v;
-}
 
 // NRCS curve number. `curve_number_for_ratio` says for which lambda the CN was derived: 0.2
 // (the default: a tabulated TR-55 value), converted to the 0.05 basis by Hawkins et al.
 // (2002) when initial_abstraction_ratio = 0.05; or 0.05 (a CN already on that basis).
 hydrology::CurveNumberParameters read_curve_number(FieldReader& l) {
   hydrology::CurveNumberParameters p;
-  p.curve_number = l.positive("curve_number");
-  if (p.curve_number <= 30.0 || p.curve_number > 100.0) {  // false when NaN (reported)
-    l.report("curve_number", quoted(p.curve_number, "") + ": must be in (30, 100]");
-  }
-  const auto ratio = l.optional_non_negative("initial_abstraction_ratio");
-  if (ratio && *ratio >= 1.0) {
-    l.report("initial_abstraction_ratio", quoted(*ratio, "") + ": must be in [0, 1)");
-  }
+  const InputUnits ratios;  // the keys here are dimensionless
+  p.curve_number = ranged(l, ratios, "curve_number", Q::curve_number);
+  const auto ratio =
+      optional_ranged(l, ratios, "initial_abstraction_ratio", Q::initial_abstraction_ratio);
   p.initial_abstraction_ratio = ratio.value_or(0.2);
   const double basis = l.optional_number("curve_number_for_ratio").value_or(0.2);
   if (std::isfinite(basis) && basis != 0.2 && basis != 0.05) {
@@ -215,26 +209,22 @@ hydrology::CurveNumberParameters read_curve_number(FieldReader& l) {
 
 hydrology::GreenAmptParameters read_green_ampt(FieldReader& l, const InputUnits& u) {
   hydrology::GreenAmptParameters p;
-  p.hydraulic_conductivity_m_s = u.rate_m_s(l.positive("conductivity"));
-  p.suction_head_m = u.rain_depth_m(l.positive("suction_head"));
-  p.porosity = open_fraction(l, "porosity");
-  p.effective_porosity = open_fraction(l, "effective_porosity");
+  p.hydraulic_conductivity_m_s = u.rate_m_s(ranged(l, u, "conductivity", Q::conductivity));
+  p.suction_head_m = u.rain_depth_m(ranged(l, u, "suction_head", Q::suction_head));
+  p.porosity = ranged(l, u, "porosity", Q::porosity);
+  p.effective_porosity = ranged(l, u, "effective_porosity", Q::porosity);
   if (p.effective_porosity > p.porosity) {  // false when either is NaN
     l.report("effective_porosity", quoted(p.effective_porosity, "") +
                                        ": must not exceed porosity = " +
                                        format_value(p.porosity));
   }
-  p.initial_effective_saturation = l.non_negative("initial_saturation");
-  if (p.initial_effective_saturation >= 1.0) {
-    l.report("initial_saturation", quoted(p.initial_effective_saturation, "") +
-                                       ": must be < 1 (initial moisture below saturation)");
-  }
+  p.initial_effective_saturation = ranged(l, u, "initial_saturation", Q::initial_saturation);
   return p;
 }
 
 hydrology::HortonParameters read_horton(FieldReader& l, const InputUnits& u) {
-  const double f0 = l.non_negative("initial_rate");
-  const double fc = l.non_negative("final_rate");
+  const double f0 = ranged(l, u, "initial_rate", Q::horton_initial_rate);
+  const double fc = ranged(l, u, "final_rate", Q::horton_final_rate);
   if (f0 < fc) {  // false when either is NaN
     l.report("initial_rate", quoted(f0, u.rate_unit()) + ": must be >= final_rate = " +
                                  format_value(fc) + " " + u.rate_unit());
@@ -242,7 +232,7 @@ hydrology::HortonParameters read_horton(FieldReader& l, const InputUnits& u) {
   hydrology::HortonParameters p;
   p.initial_capacity_m_s = u.rate_m_s(f0);
   p.final_capacity_m_s = u.rate_m_s(fc);
-  p.decay_rate_per_s = l.positive("decay_per_h") / units::kSecondsPerHour;
+  p.decay_rate_per_s = ranged(l, u, "decay_per_h", Q::horton_decay) / units::kSecondsPerHour;
   return p;
 }
 
@@ -274,8 +264,8 @@ std::unique_ptr<hydrology::LossModel> read_pervious_loss(FieldReader& l, const I
   }
   hydrology::InitialContinuingParameters p;
   if (method == "initial-continuing") {
-    p.initial_loss_m = u.rain_depth_m(l.non_negative("initial_loss"));
-    p.continuing_loss_m_s = u.rate_m_s(l.non_negative("continuing_rate"));
+    p.initial_loss_m = u.rain_depth_m(ranged(l, u, "initial_loss", Q::initial_loss));
+    p.continuing_loss_m_s = u.rate_m_s(ranged(l, u, "continuing_rate", Q::continuing_rate));
   }
   if (l.problems().size() != before) return nullptr;
   return std::make_unique<hydrology::InitialContinuingLoss>(p, element);
@@ -286,11 +276,8 @@ std::unique_ptr<hydrology::LossModel> read_pervious_loss(FieldReader& l, const I
 std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits& u,
                                                 const std::string& element) {
   auto pervious = read_pervious_loss(l, u, element);
-  const auto fraction = l.optional_non_negative("impervious_fraction");
-  const auto storage = l.optional_non_negative("impervious_storage");
-  if (fraction && *fraction > 1.0) {
-    l.report("impervious_fraction", quoted(*fraction, "") + ": must be in [0, 1]");
-  }
+  const auto fraction = optional_ranged(l, u, "impervious_fraction", Q::impervious_fraction);
+  const auto storage = optional_ranged(l, u, "impervious_storage", Q::impervious_storage);
   if (storage && !fraction) {
     l.report("impervious_storage",
              quoted(*storage, u.depth_unit()) + ": has no effect without impervious_fraction "
@@ -304,11 +291,39 @@ std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits
   return std::make_unique<hydrology::CompositeLoss>(cover, std::move(pervious), element);
 }
 
+namespace {
+
+// The planes' width is the area over their length (hydrology/subcatchment.hpp). Overland
+// flow reaches a channel within a plane length, so the width is about twice the channel
+// length in the subcatchment (Horton 1945: overland flow length = 1 / (2 x drainage
+// density), from memory); a width 10000 times the plane length means far more channel than
+// any subcatchment holds. The usual cause is an area in m2 (or ft2) typed where ha (acre) are
+// expected. Our criterion: the demo's planes are 38 to 122 times wider than long.
+constexpr double kMaxPlaneAspect = 1e4;
+
+void check_plane_shape(FieldReader& r, const hydrology::SubcatchmentSpec& spec,
+                       const InputUnits& u) {
+  double length_m = 0.0;
+  for (const auto& p : spec.planes) length_m += p.length_m;
+  if (!(length_m > 0.0) || !(spec.area_m2 / (length_m * length_m) > kMaxPlaneAspect)) return;
+  const double width_m = spec.area_m2 / length_m;
+  r.warn("area", "= " + readable_number(spec.area_m2 / u.plan_area_m2(1.0)) + " " +
+                     (u.us() ? "acre" : "ha") + ": its planes (" +
+                     format_value(u.length_in_file(length_m)) + " " + u.length_unit() +
+                     " long) would be " + format_fixed(width_m / 1000.0, 0) + " km wide, over " +
+                     format_value(kMaxPlaneAspect) + " times their length (a width is about "
+                     "twice the channel length it drains to; Horton 1945, from memory): is the "
+                     "area in " + (u.us() ? "ft2" : "m2") + " instead of " +
+                     (u.us() ? "acres" : "ha") + "?");
+}
+
+}  // namespace
+
 std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
                                                                   const std::string& id) {
   hydrology::SubcatchmentSpec spec;
   spec.name = id;
-  spec.area_m2 = units_.plan_area_m2(r.positive("area"));
+  spec.area_m2 = units_.plan_area_m2(ranged(r, units_, "area", Q::subcatchment_area));
   spec.drain.kind = hydrology::DrainKind::node;
   spec.drain.target = id;
   const toml::array* planes = r.optional_array("plane");
@@ -318,25 +333,27 @@ std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
     ++k;
     const toml::table* t = node.as_table();
     if (!t) continue;
-    Reader p(*t, file_, r.element() + " plane " + std::to_string(k), problems_);
+    Reader p = r.nested(*t, "plane " + std::to_string(k));
     hydrology::OverlandPlaneSpec plane;
     plane.name = id + "/" + std::to_string(k);
-    plane.length_m = units_.length_m(p.positive("length"));
-    plane.slope = p.positive("slope");
-    plane.manning_n = p.positive("manning_n");
-    plane.cell_count = static_cast<int>(p.optional_integer("cells", 1).value_or(100));
+    plane.length_m = units_.length_m(ranged(p, units_, "length", Q::plane_length));
+    plane.slope = ranged(p, units_, "slope", Q::plane_slope);
+    plane.manning_n = ranged(p, units_, "manning_n", Q::plane_manning_n);
+    plane.cell_count =
+        static_cast<int>(optional_ranged_integer(p, "cells", Q::plane_cells).value_or(100));
     p.finish();
     spec.planes.push_back(plane);
   }
   std::unique_ptr<hydrology::LossModel> losses;
   if (const toml::table* loss = r.optional_table("loss")) {
-    Reader l(*loss, file_, r.element() + " loss", problems_);
+    Reader l = r.nested(*loss, "loss");
     losses = read_loss(l, units_, r.element());
     l.finish();
   } else {
     r.report_here("is missing required table 'loss' (use method = \"none\" for no losses)");
   }
   if (!losses || !clean()) return nullptr;
+  check_plane_shape(r, spec, units_);
   auto model = std::make_unique<hydrology::Subcatchment>(spec, storm_, std::move(losses),
                                                          settings_.plane_routing);
   return std::make_unique<network::SubcatchmentElement>(id, std::move(model));
@@ -345,6 +362,14 @@ std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
 // ---- reach -------------------------------------------------------------------------------
 
 namespace {
+
+// A value whose range starts at 0 but must not be 0 here (a rectangle's width, a triangle's
+// sides).
+double positive_ranged(FieldReader& s, const InputUnits& u, std::string_view key, Quantity q) {
+  const double v = ranged(s, u, key, q);
+  if (v == 0.0) s.report(key, "= 0: must be > 0");
+  return v == 0.0 ? std::numeric_limits<double>::quiet_NaN() : v;
+}
 
 // `manning_n` is the reach's n (read by the caller so it is checked whatever the shape).
 std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& reach,
@@ -361,22 +386,26 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
     return manning_n.value_or(std::numeric_limits<double>::quiet_NaN());
   };
   if (shape == "rectangular") {
-    return geometry::RectangularSpec{u.length_m(s.positive("bottom_width")), n()};
+    return geometry::RectangularSpec{u.length_m(positive_ranged(s, u, "bottom_width",
+                                                                Q::channel_width)), n()};
   }
   if (shape == "trapezoidal") {
-    return geometry::TrapezoidalSpec{u.length_m(s.non_negative("bottom_width")),
-                                     s.non_negative("left_side_slope"),
-                                     s.non_negative("right_side_slope"), n()};
+    return geometry::TrapezoidalSpec{u.length_m(ranged(s, u, "bottom_width", Q::channel_width)),
+                                     ranged(s, u, "left_side_slope", Q::side_slope),
+                                     ranged(s, u, "right_side_slope", Q::side_slope), n()};
   }
   if (shape == "triangular") {
-    return geometry::TriangularSpec{s.positive("left_side_slope"), s.positive("right_side_slope"),
+    return geometry::TriangularSpec{positive_ranged(s, u, "left_side_slope", Q::side_slope),
+                                    positive_ranged(s, u, "right_side_slope", Q::side_slope),
                                     n()};
   }
-  if (shape == "circular") return geometry::CircularSpec{u.length_m(s.positive("diameter")), n()};
+  if (shape == "circular") {
+    return geometry::CircularSpec{u.length_m(ranged(s, u, "diameter", Q::conduit_size)), n()};
+  }
   if (shape == "irregular") {
     geometry::IrregularSpec spec;
-    const auto stations = s.numbers("stations");
-    const auto elevations = s.numbers("elevations");
+    const auto stations = ranged_numbers(s, u, "stations", Q::section_offset);
+    const auto elevations = ranged_numbers(s, u, "elevations", Q::elevation);
     if (stations.size() != elevations.size()) {
       s.report("elevations", "has " + std::to_string(elevations.size()) + " values but stations has " +
                                  std::to_string(stations.size()));
@@ -384,11 +413,11 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
     for (std::size_t i = 0; i < std::min(stations.size(), elevations.size()); ++i) {
       spec.points.push_back({u.length_m(stations[i]), u.length_m(elevations[i])});
     }
-    spec.left_bank_station_m = u.length_m(s.number("left_bank"));
-    spec.right_bank_station_m = u.length_m(s.number("right_bank"));
-    spec.left_overbank_n = s.positive("left_overbank_n");
-    spec.main_channel_n = s.positive("main_channel_n");
-    spec.right_overbank_n = s.positive("right_overbank_n");
+    spec.left_bank_station_m = u.length_m(ranged(s, u, "left_bank", Q::section_offset));
+    spec.right_bank_station_m = u.length_m(ranged(s, u, "right_bank", Q::section_offset));
+    spec.left_overbank_n = ranged(s, u, "left_overbank_n", Q::reach_manning_n);
+    spec.main_channel_n = ranged(s, u, "main_channel_n", Q::reach_manning_n);
+    spec.right_overbank_n = ranged(s, u, "right_overbank_n", Q::reach_manning_n);
     return spec;
   }
   return std::nullopt;
@@ -397,20 +426,21 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
 }  // namespace
 
 std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std::string& id) {
-  const double length_m = units_.length_m(r.positive("length"));
-  const double slope = r.positive("slope");
-  const std::optional<double> manning_n = r.optional_positive("manning_n");
+  const double length_m = units_.length_m(ranged(r, units_, "length", Q::reach_length));
+  const double slope = ranged(r, units_, "slope", Q::reach_slope);
+  const std::optional<double> manning_n =
+      optional_ranged(r, units_, "manning_n", Q::reach_manning_n);
   std::optional<geometry::SectionSpec> spec;
   if (const toml::table* section = r.optional_table("section")) {
-    Reader s(*section, file_, r.element() + " section", problems_);
+    Reader s = r.nested(*section, "section");
     spec = read_section(s, r, manning_n, units_);
     if (spec) s.finish();  // with an unknown shape, its other keys cannot be judged
   } else {
     r.report_here("is missing required table 'section'");
   }
-  const auto cells = r.optional_integer("cells", 1);
-  const auto cell_length = r.optional_positive("cell_length");
-  const auto invert = r.optional_number("outlet_invert");
+  const auto cells = optional_ranged_integer(r, "cells", Q::reach_cells);
+  const auto cell_length = optional_ranged(r, units_, "cell_length", Q::cell_length);
+  const auto invert = optional_ranged(r, units_, "outlet_invert", Q::elevation);
   routing::RoutingOptions options = settings_.channel_routing;
   if (r.optional_node("scheme")) {
     const std::string scheme = r.choice(
@@ -424,7 +454,22 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
     cell_count = static_cast<int>(*cells);
   } else {
     const double dx = cell_length ? units_.length_m(*cell_length) : settings_.default_cell_length_m;
-    cell_count = std::max(4, static_cast<int>(std::ceil(length_m / dx - 1e-9)));
+    const double count = std::ceil(length_m / dx - 1e-9);
+    if (count > static_cast<double>(kMaxCells)) {
+      const std::string why = "gives " + format_fixed(count, 0) + " cells over the reach's " +
+                              format_value(units_.length_in_file(length_m)) + " " +
+                              units_.length_unit() + ": at most " + std::to_string(kMaxCells) +
+                              " (the memory of one run); give a longer cell_length or cells";
+      if (cell_length) {
+        r.report("cell_length", quoted(*cell_length, units_.length_unit()) + ": " + why);
+      } else {
+        r.report("length", "with the default cell_length (" +
+                               format_value(units_.length_in_file(dx)) + " " +
+                               units_.length_unit() + ") " + why);
+      }
+      return nullptr;
+    }
+    cell_count = std::max(4, static_cast<int>(count));
   }
   geometry::FlowSection section = geometry::make_flow_section(*spec, slope, {}, r.element());
   auto reach = routing::make_reach({id, length_m, cell_count}, section.flux, options);
@@ -493,8 +538,8 @@ std::optional<PoolStorage> read_storage(FieldReader& s, const InputUnits& u,
                                         const std::string& element) {
   const std::size_t before = s.problems().size();
   if (s.optional_node("stages")) {
-    std::vector<double> stage = s.numbers("stages");
-    std::vector<double> volume = s.numbers("storages");
+    std::vector<double> stage = ranged_numbers(s, u, "stages", Q::elevation);
+    std::vector<double> volume = ranged_numbers(s, u, "storages", Q::storage_volume);
     if (s.problems().size() == before) check_storage_table(s, stage, volume, u);
     if (s.problems().size() != before) return std::nullopt;
     const double bottom = stage.front(), top = stage.back();
@@ -510,9 +555,10 @@ std::optional<PoolStorage> read_storage(FieldReader& s, const InputUnits& u,
       return std::nullopt;
     }
   }
-  const double bottom = s.number("bottom");
-  const double area = s.positive("area");
-  const double growth = s.optional_non_negative("area_growth").value_or(0.0);
+  const double bottom = ranged(s, u, "bottom", Q::elevation);
+  const double area = ranged(s, u, "area", Q::pond_area);
+  const double growth =
+      optional_ranged(s, u, "area_growth", Q::pond_area_growth).value_or(0.0);
   if (s.problems().size() != before) return std::nullopt;
   return PoolStorage{structures::StageStorage::prismatic(u.length_m(bottom),
                                                          u.length_m(u.length_m(area)),
@@ -532,17 +578,18 @@ void read_barrel(FieldReader& b, const InputUnits& u, CrossingInput& in) {
   const std::string shape = b.choice("shape", {"circular", "box"});
   spec.shape = shape == "box" ? structures::BarrelShape::box : structures::BarrelShape::circular;
   if (shape == "box") {
-    spec.rise_m = u.length_m(b.positive("rise"));
-    spec.span_m = u.length_m(b.positive("span"));
+    spec.rise_m = u.length_m(ranged(b, u, "rise", Q::conduit_size));
+    spec.span_m = u.length_m(ranged(b, u, "span", Q::conduit_size));
   } else {
-    spec.rise_m = u.length_m(b.positive("diameter"));
+    spec.rise_m = u.length_m(ranged(b, u, "diameter", Q::conduit_size));
   }
-  spec.barrel_count = static_cast<int>(b.optional_integer("count", 1).value_or(1));
-  spec.length_m = u.length_m(b.positive("length"));
-  in.inlet_invert = b.number("inlet_invert");
+  spec.barrel_count =
+      static_cast<int>(optional_ranged_integer(b, "count", Q::barrel_count).value_or(1));
+  spec.length_m = u.length_m(ranged(b, u, "length", Q::barrel_length));
+  in.inlet_invert = ranged(b, u, "inlet_invert", Q::elevation);
   spec.inlet_invert_stage_m = u.length_m(in.inlet_invert);
-  spec.outlet_invert_stage_m = u.length_m(b.number("outlet_invert"));
-  spec.manning_n = b.positive("manning_n");
+  spec.outlet_invert_stage_m = u.length_m(ranged(b, u, "outlet_invert", Q::elevation));
+  spec.manning_n = ranged(b, u, "manning_n", Q::barrel_manning_n);
   const std::string inlet = b.text("inlet");
   if (auto type = structures::parse_inlet_type(inlet)) {
     spec.inlet = *type;
@@ -553,7 +600,7 @@ void read_barrel(FieldReader& b, const InputUnits& u, CrossingInput& in) {
   } else if (!inlet.empty()) {
     b.report("inlet", "= '" + inlet + "': unknown inlet type (see docs/basin-file.md)");
   }
-  spec.entrance_loss = b.optional_non_negative("entrance_loss");
+  spec.entrance_loss = optional_ranged(b, u, "entrance_loss", Q::entrance_loss);
 }
 
 // The barrels must start from the pond: its relation reaches down to the inlet invert.
@@ -586,9 +633,9 @@ std::optional<structures::RoadOvertopping> read_road(FieldReader& rd, const Inpu
                                                      const CrossingInput& in,
                                                      const std::optional<PoolStorage>& ponding) {
   const std::size_t before = rd.problems().size();
-  const std::vector<double> station = rd.numbers("stations");
-  const std::vector<double> crest = rd.numbers("elevations");
-  const auto c = rd.optional_positive("coefficient");
+  const std::vector<double> station = ranged_numbers(rd, u, "stations", Q::road_offset);
+  const std::vector<double> crest = ranged_numbers(rd, u, "elevations", Q::elevation);
+  const auto c = optional_ranged(rd, u, "coefficient", Q::weir_coefficient);
   if (rd.problems().size() != before) return std::nullopt;
   if (station.size() != crest.size()) {
     rd.report("elevations", "has " + std::to_string(crest.size()) + " values but stations has " +
@@ -652,16 +699,16 @@ std::unique_ptr<network::Element> NetworkReader::read_culvert(Reader& r, const s
   const toml::table* barrel = r.optional_table("barrel");
   if (!barrel) r.report_here("is missing required table 'barrel'");
   if (barrel) {
-    Reader b(*barrel, file_, r.element() + " barrel", problems_);
+    Reader b = r.nested(*barrel, "barrel");
     read_barrel(b, units_, in);
     b.finish();
   }
   // The tailwater (a fixed downstream water level) acts on the barrels' outlet control and
   // submerges the road weir when it stands above the crest.
-  in.tailwater = r.optional_number("tailwater");
+  in.tailwater = optional_ranged(r, units_, "tailwater", Q::elevation);
   std::optional<PoolStorage> ponding;
   if (const toml::table* t = r.optional_table("ponding")) {
-    Reader p(*t, file_, r.element() + " ponding", problems_);
+    Reader p = r.nested(*t, "ponding");
     ponding = read_storage(p, units_, r.element());
     if (ponding) check_ponding_floor(p, *ponding, in, units_);
     p.finish();
@@ -671,7 +718,7 @@ std::unique_ptr<network::Element> NetworkReader::read_culvert(Reader& r, const s
   if (ponding) check_tailwater(r, *ponding, in, units_);
   std::optional<structures::RoadOvertopping> road;
   if (const toml::table* t = r.optional_table("road")) {
-    Reader rd(*t, file_, r.element() + " road", problems_);
+    Reader rd = r.nested(*t, "road");
     road = read_road(rd, units_, in, ponding);
     rd.finish();
   }
@@ -713,39 +760,39 @@ std::optional<OutletInput> read_outlet(FieldReader& o, const InputUnits& u) {
   const std::string type = o.choice("type", {"orifice", "weir", "v-notch"});
   if (type == "orifice") {
     structures::Orifice orifice;
-    const double invert = o.number("invert");
+    const double invert = ranged(o, u, "invert", Q::elevation);
     orifice.invert_stage_m = u.length_m(invert);
-    if (o.optional_node("diameter")) {
+    if (o.has("diameter")) {
       orifice.shape = structures::OrificeShape::circular;
-      orifice.diameter_m = u.length_m(o.positive("diameter"));
+      orifice.diameter_m = u.length_m(ranged(o, u, "diameter", Q::orifice_size));
     } else {
       orifice.shape = structures::OrificeShape::rectangular;
-      orifice.width_m = u.length_m(o.positive("width"));
-      orifice.height_m = u.length_m(o.positive("height"));
+      orifice.width_m = u.length_m(ranged(o, u, "width", Q::orifice_size));
+      orifice.height_m = u.length_m(ranged(o, u, "height", Q::orifice_size));
     }
-    if (auto cd = o.optional_positive("coefficient")) {
-      if (*cd > 1.0) o.report("coefficient", quoted(*cd, "") + ": must be in (0, 1]");
+    if (auto cd = optional_ranged(o, u, "coefficient", Q::orifice_coefficient)) {
       orifice.discharge_coefficient = *cd;
     }
     return OutletInput{orifice, "invert", invert};
   }
   if (type == "weir") {
     structures::RectangularWeir weir;
-    const double crest = o.number("crest");
+    const double crest = ranged(o, u, "crest", Q::elevation);
     weir.crest_stage_m = u.length_m(crest);
-    weir.length_m = u.length_m(o.positive("length"));
-    if (auto c = o.optional_positive("coefficient")) weir.coefficient_si = u.weir_coefficient_si(*c);
+    weir.length_m = u.length_m(ranged(o, u, "length", Q::weir_length));
+    if (auto c = optional_ranged(o, u, "coefficient", Q::weir_coefficient)) {
+      weir.coefficient_si = u.weir_coefficient_si(*c);
+    }
     return OutletInput{weir, "crest", crest};
   }
   if (type == "v-notch") {
     structures::VNotchWeir weir;
-    const double vertex = o.number("vertex");
+    const double vertex = ranged(o, u, "vertex", Q::elevation);
     weir.vertex_stage_m = u.length_m(vertex);
-    weir.notch_angle_deg = o.positive("angle_deg");
-    if (weir.notch_angle_deg >= 180.0) {
-      o.report("angle_deg", quoted(weir.notch_angle_deg, "degrees") + ": must be in (0, 180)");
+    weir.notch_angle_deg = ranged(o, u, "angle_deg", Q::notch_angle);
+    if (auto c = optional_ranged(o, u, "coefficient", Q::notch_coefficient)) {
+      weir.discharge_coefficient = *c;
     }
-    if (auto c = o.optional_positive("coefficient")) weir.discharge_coefficient = *c;
     return OutletInput{weir, "vertex", vertex};
   }
   o.consume_all();  // without a type, the outlet's keys cannot be judged
@@ -790,7 +837,7 @@ void check_initial_stage(FieldReader& r, double initial, const PoolStorage& stor
 std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const std::string& id) {
   std::optional<PoolStorage> storage;
   if (const toml::table* t = r.optional_table("storage")) {
-    Reader s(*t, file_, r.element() + " storage", problems_);
+    Reader s = r.nested(*t, "storage");
     storage = read_storage(s, units_, r.element());
     s.finish();
   } else {
@@ -803,7 +850,7 @@ std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const
   for (const toml::node& node : items_of(list)) {
     ++k;
     if (const toml::table* t = node.as_table()) {
-      Reader o(*t, file_, r.element() + " outlet " + std::to_string(k), problems_);
+      Reader o = r.nested(*t, "outlet " + std::to_string(k));
       if (auto outlet = read_outlet(o, units_)) {
         if (storage) check_outlet_floor(o, *outlet, *storage, units_);
         outlets.push_back(outlet->outlet);
@@ -811,7 +858,7 @@ std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const
       o.finish();
     }
   }
-  const auto initial = r.optional_number("initial_stage");
+  const auto initial = optional_ranged(r, units_, "initial_stage", Q::elevation);
   if (initial && storage) check_initial_stage(r, *initial, *storage, units_);
   if (!storage || outlets.empty() || !clean()) return nullptr;
   auto riser = std::make_unique<structures::Riser>(std::move(outlets), r.element());

@@ -45,11 +45,13 @@ class NetworkReader {
   // `changes`, when given, is a scenario's [scenario.change] table: element id -> values
   // that replace that element's keys.
   // `cache` (optional) shares culvert crossings between runs; `cache_scope` names the
-  // scenario whose tables are being read.
+  // scenario whose tables are being read. `warnings` (optional) receives the values outside
+  // their plausible ranges (input_ranges.hpp).
   NetworkReader(const toml::table& root, const toml::table* changes, std::string file,
                std::filesystem::path base_dir, const StudySettings& settings,
                const hydrology::Hyetograph& storm, std::vector<Problem>& problems,
-               CrossingCache* cache = nullptr, std::string cache_scope = {});
+               CrossingCache* cache = nullptr, std::string cache_scope = {},
+               std::vector<Problem>* warnings = nullptr);
 
   // Reads every element; returns the model (finalized) when no problem was found, and an
   // empty model otherwise (the problems are in the list).
@@ -85,6 +87,7 @@ class NetworkReader {
   InputUnits units_;
   const hydrology::Hyetograph& storm_;
   std::vector<Problem>& problems_;
+  std::vector<Problem>* warnings_;
   network::Model model_;
   std::vector<StationDescription> stations_;
   bool complete_ = true;

@@ -1,5 +1,6 @@
 #include "freshet/io/study.hpp"
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -11,6 +12,7 @@
 #include "freshet/hydrology/idf_curve.hpp"
 #include "freshet/hydrology/nrcs_distribution.hpp"
 #include "freshet/io/csv_series.hpp"
+#include "input_ranges.hpp"
 #include "input_units.hpp"
 #include "network_reader.hpp"
 
@@ -18,6 +20,9 @@ namespace freshet::io {
 
 using detail::FieldReader;
 using detail::InputUnits;
+using Q = detail::Quantity;
+using detail::optional_ranged;
+using detail::ranged;
 
 struct Study::Impl {
   std::filesystem::path path;
@@ -30,6 +35,7 @@ struct Study::Impl {
   std::map<std::string, const toml::table*, std::less<>> changes;
   std::vector<StationDescription> stations;  // the base network's
   std::map<std::string, std::vector<StationDescription>, std::less<>> scenario_stations;
+  std::vector<Problem> warnings;  // values outside their plausible ranges
   std::unique_ptr<detail::CrossingCache> crossings = std::make_unique<detail::CrossingCache>();
 
   void read_settings(FieldReader& r, std::vector<Problem>& problems);
@@ -39,7 +45,8 @@ struct Study::Impl {
                                                    std::vector<Problem>& problems) const;
   network::Model build(std::string_view scenario_id, const hydrology::Hyetograph& rain,
                        std::vector<Problem>& problems,
-                       std::vector<StationDescription>* stations_out = nullptr) const;
+                       std::vector<StationDescription>* stations_out = nullptr,
+                       std::vector<Problem>* warnings_out = nullptr) const;
 };
 
 // ---- settings ------------------------------------------------------------------------------
@@ -81,9 +88,12 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
     return;
   }
   FieldReader r(*t, file, "study", problems);
+  r.set_warnings(&warnings);
+  const std::size_t before = problems.size();
   settings.title = r.text("title");
   const std::string system = r.choice("units", {"si", "us"});
   settings.units = units::parse_system(system).value_or(units::System::si);
+  const InputUnits u{settings.units};
   if (const toml::node* start = r.optional_node("start")) {
     if (auto dt = start->value<toml::date_time>()) {
       settings.start_iso = utc_iso_of(*dt);
@@ -92,11 +102,22 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
                         "+02:00 is converted to UTC; no offset means UTC)");
     }
   }
-  settings.duration_s = r.positive("duration_h") * units::kSecondsPerHour;
-  settings.output_interval_s = r.positive("output_interval_min") * units::kSecondsPerMinute;
-  settings.coupling_step_s = r.optional_positive("coupling_step_s").value_or(60.0);
-  const InputUnits u{settings.units};
-  if (auto dx = r.optional_positive("cell_length")) settings.default_cell_length_m = u.length_m(*dx);
+  settings.duration_s = ranged(r, u, "duration_h", Q::duration_h) * units::kSecondsPerHour;
+  settings.output_interval_s =
+      ranged(r, u, "output_interval_min", Q::output_interval_min) * units::kSecondsPerMinute;
+  settings.coupling_step_s =
+      optional_ranged(r, u, "coupling_step_s", Q::coupling_step_s).value_or(60.0);
+  if (settings.coupling_step_s > settings.output_interval_s) {  // false when either is NaN
+    r.report("coupling_step_s",
+             "= " + format_value(settings.coupling_step_s) + " s: must be <= the output "
+             "interval (output_interval_min = " +
+                 format_value(settings.output_interval_s / units::kSecondsPerMinute) +
+                 ", i.e. " + format_value(settings.output_interval_s) +
+                 " s): elements exchange water at least once per output interval");
+  }
+  if (auto dx = optional_ranged(r, u, "cell_length", Q::cell_length)) {
+    settings.default_cell_length_m = u.length_m(*dx);
+  }
   settings.channel_routing.scheme =
       read_scheme(r, "channel_scheme", routing::SchemeKind::kMusclHeun);
   // Overland planes: MUSCL-Heun by default, the scheme that meets the analytical plane
@@ -106,10 +127,12 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   // c dx (1 + C) / 2 (its modified equation; LeVeque 2002, Finite Volume Methods for
   // Hyperbolic Problems, sec. 8.6, from memory), so basin files default to C = 2, not the
   // library's 10; larger values suit only short, stiff reaches.
-  const double implicit_courant = r.optional_positive("implicit_courant").value_or(2.0);
+  const double implicit_courant =
+      optional_ranged(r, u, "implicit_courant", Q::implicit_courant).value_or(2.0);
   settings.channel_routing.implicit_courant = implicit_courant;
   settings.plane_routing.implicit_courant = implicit_courant;
   r.finish();
+  if (problems.size() != before) return;  // the clock's own checks would repeat them
   try {
     network::ClockOptions clock{0.0, settings.duration_s, settings.output_interval_s,
                                 settings.coupling_step_s};
@@ -202,18 +225,20 @@ void check_idf_table_as_written(FieldReader& f, const std::vector<double>& durat
 std::optional<hydrology::IdfCurve> read_idf(FieldReader& r, const InputUnits& u,
                                             const std::string& label) {
   if (const toml::table* t = r.optional_table("idf")) {
-    FieldReader f(*t, r.file(), label + " idf", r.problems());
+    FieldReader f = r.nested(*t, "idf");
     hydrology::IdfFormula formula;
-    formula.a = u.rain_depth_m(f.positive("a")) * 1000.0;  // to mm/h: a scales the intensity
-    formula.b_min = f.non_negative("b");
-    formula.c = f.positive("c");
+    // to mm/h: a scales the intensity
+    formula.a = u.rain_depth_m(ranged(f, u, "a", Q::idf_a)) * 1000.0;
+    formula.b_min = ranged(f, u, "b", Q::idf_b);
+    formula.c = ranged(f, u, "c", Q::idf_c);
     f.finish();
     return hydrology::IdfCurve::from_formula(formula, label);
   }
   if (const toml::table* t = r.optional_table("idf_table")) {
-    FieldReader f(*t, r.file(), label + " idf_table", r.problems());
-    std::vector<double> duration_s = f.numbers("durations_min");
-    std::vector<double> intensity = f.numbers("intensities");
+    FieldReader f = r.nested(*t, "idf_table");
+    std::vector<double> duration_s =
+        detail::ranged_numbers(f, u, "durations_min", Q::idf_duration_min);
+    std::vector<double> intensity = detail::ranged_numbers(f, u, "intensities", Q::idf_intensity);
     const std::size_t reported = f.problems().size();
     check_idf_table_as_written(f, duration_s, intensity, u);
     for (double& d : duration_s) d *= units::kSecondsPerMinute;
@@ -237,6 +262,7 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
     const std::string id = t->get("id") ? t->get("id")->value_or(std::string{}) : "";
     const std::string label = "storm '" + id + "'";
     FieldReader r(*t, file, label, problems);
+    r.set_warnings(&warnings);
     r.text("id");
     if (!id.empty() && !detail::is_safe_id(id)) {
       r.report("id", "= '" + id + "': use letters, digits, '.', '_' and '-' only (storm ids "
@@ -257,13 +283,14 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
         const auto parsed = hydrology::parse_nrcs_rain_type(type);
         if (!parsed) r.report("distribution", "= '" + type + "': must be one of I, IA, II, III");
         const double depth = u.rain_depth_m(r.positive("depth"));
-        const double step = r.positive("step_min") * units::kSecondsPerMinute;
+        const double step = ranged(r, u, "step_min", Q::storm_step_min) * units::kSecondsPerMinute;
         if (parsed) rain = hydrology::nrcs_24h_storm(*parsed, depth, step, label);
       } else if (!method.empty()) {
         hydrology::DesignStormOptions o;
-        o.duration_s = r.positive("duration_min") * units::kSecondsPerMinute;
-        o.step_s = r.positive("step_min") * units::kSecondsPerMinute;
-        o.peak_ratio = r.optional_number("peak_ratio").value_or(0.5);
+        o.duration_s = ranged(r, u, "duration_min", Q::storm_duration_min) *
+                       units::kSecondsPerMinute;
+        o.step_s = ranged(r, u, "step_min", Q::storm_step_min) * units::kSecondsPerMinute;
+        o.peak_ratio = optional_ranged(r, u, "peak_ratio", Q::peak_ratio).value_or(0.5);
         const std::optional<hydrology::IdfCurve> idf = read_idf(r, u, label);
         if (idf) {
           rain = method == "chicago" ? hydrology::chicago_storm(*idf, o, label)
@@ -271,6 +298,11 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
         }
       }
       if (rain) {
+        const char* key = method == "series"    ? "file"
+                          : method == "nrcs-24h" ? "depth"
+                          : r.has("idf")         ? "idf"
+                                                 : "idf_table";
+        detail::check_storm_depth(r, u, key, *rain, method != "series");
         auto late = check_storm_within_run(*rain, settings, u, r, *t);
         storms.push_back({id, description, std::move(*rain), std::move(late)});
       }
@@ -359,12 +391,14 @@ const toml::table* Study::Impl::checked_changes(std::string_view scenario_id,
 network::Model Study::Impl::build(std::string_view scenario_id,
                                   const hydrology::Hyetograph& rain,
                                   std::vector<Problem>& problems,
-                                  std::vector<StationDescription>* stations_out) const {
+                                  std::vector<StationDescription>* stations_out,
+                                  std::vector<Problem>* warnings_out) const {
   const std::size_t before = problems.size();
   const toml::table* changes_table = checked_changes(scenario_id, problems);
   if (problems.size() != before) return {};
   detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, rain,
-                                problems, crossings.get(), std::string(scenario_id));
+                                problems, crossings.get(), std::string(scenario_id),
+                                warnings_out);
   network::Model model = builder.build();
   if (stations_out) *stations_out = builder.stations();
   return model;
@@ -408,18 +442,28 @@ Study Study::load(const std::filesystem::path& basin_file) {
   const hydrology::Hyetograph& rain =
       impl->storms.empty() ? no_rain : impl->storms.front().rain;
   const std::size_t before = problems.size();
-  impl->build("", rain, problems, &impl->stations);
+  std::vector<Problem> warnings;
+  impl->build("", rain, problems, &impl->stations, &warnings);
   if (problems.size() == before) {  // scenarios only add news when the base is sound
     for (const auto& s : impl->scenarios) {
-      impl->build(s.id, rain, problems, &impl->scenario_stations[s.id]);
+      impl->build(s.id, rain, problems, &impl->scenario_stations[s.id], &warnings);
     }
   }
   if (!problems.empty()) throw InputError(std::move(problems));
+  // Each scenario reads the whole network again: an element it leaves alone repeats the
+  // base's warnings word for word, and is listed once.
+  for (Problem& w : warnings) {
+    const std::string text = w.to_string();
+    const bool seen = std::any_of(impl->warnings.begin(), impl->warnings.end(),
+                                  [&text](const Problem& p) { return p.to_string() == text; });
+    if (!seen) impl->warnings.push_back(std::move(w));
+  }
   return Study(std::move(impl));
 }
 
 const std::filesystem::path& Study::file() const noexcept { return impl_->path; }
 const StudySettings& Study::settings() const noexcept { return impl_->settings; }
+const std::vector<Problem>& Study::warnings() const noexcept { return impl_->warnings; }
 const std::vector<StormDefinition>& Study::storms() const noexcept { return impl_->storms; }
 const std::vector<ScenarioDefinition>& Study::scenarios() const noexcept {
   return impl_->scenarios;
