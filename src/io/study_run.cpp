@@ -17,6 +17,7 @@
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/network/elements.hpp"
 #include "freshet/routing/applicability.hpp"
+#include "result_scale.hpp"
 #include "run_watch.hpp"
 
 namespace freshet::io {
@@ -452,6 +453,7 @@ RunSummary summarise(const Study& study,
   add_warnings(model, sink, stations, s);
   add_end_of_run_warnings(sink, stations, s);
   add_coupling_step_warnings(sink, stations, run_clock(study.settings()).coupling_step_s(), s);
+  detail::add_result_scale_warnings(model, s);
   // Each element's warnings together, in network order.
   std::map<std::string, std::size_t, std::less<>> order;
   for (std::size_t i = 0; i < stations.size(); ++i) order.emplace(stations[i].id, i);
