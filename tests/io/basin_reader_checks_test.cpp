@@ -135,8 +135,8 @@ TEST(BasinPoolChecks, PondingTableStartingAboveTheBarrelInvertIsRejected) {
 
 TEST(BasinPoolChecks, RoadCrestBelowTheBarrelInvertIsRejected) {
   Basin b(head("si") + detention(kGoodOutlet) +
-          culvert("[9.0, 10.0, 11.0]", "road = { stations = [0, 50], elevations = [12, 5] }\n"));
-  expect_problem(b, "elevations[2]", "road = {", "culvert 'cul' road",
+          culvert("[9.0, 10.0, 11.0]", "road = { offsets = [0, 50], levels = [12, 5] }\n"));
+  expect_problem(b, "levels[2]", "road = {", "culvert 'cul' road",
                  {"= 5 m", "lowest road crest is below the barrel inlet invert 9 m"});
 }
 

@@ -145,13 +145,13 @@ slope = 0.004
 cell_length = 20.0                    #@reach.cell_length
 [reach.section]
 shape = "irregular"
-stations = [0.0, 10.0, 14.0, 18.0, 30.0]       #@stations
-elevations = [52.0, 50.5, 49.0, 50.5, 52.0]    #@elevations
-left_bank = 10.0                      #@left_bank
-right_bank = 18.0
-left_overbank_n = 0.05                #@left_overbank_n
-main_channel_n = 0.035
-right_overbank_n = 0.05
+offsets = [0.0, 10.0, 14.0, 18.0, 30.0]       #@offsets
+levels = [52.0, 50.5, 49.0, 50.5, 52.0]    #@levels
+channel_left = 10.0                      #@channel_left
+channel_right = 18.0
+left_floodplain_n = 0.05                #@left_floodplain_n
+channel_n = 0.035
+right_floodplain_n = 0.05
 
 [[reach]]
 id = "r3"
@@ -182,8 +182,8 @@ inlet = "box-wingwall-30-to-75-deg"
 stages = [41.0, 42.0, 43.0, 45.0]     #@ponding.stages
 storages = [0.0, 500.0, 2000.0, 9000.0]  #@ponding.storages
 [culvert.road]
-stations = [0.0, 50.0, 100.0]         #@road.stations
-elevations = [44.5, 44.0, 44.6]       #@road.elevations
+offsets = [0.0, 50.0, 100.0]         #@road.offsets
+levels = [44.5, 44.0, 44.6]       #@road.levels
 coefficient = 1.6                     #@road.coefficient
 
 [[detention]]
@@ -322,12 +322,12 @@ const HardCase kHardCases[] = {
     {"outlet_invert", "-1.75e308", "reach 'r1'", "outlet_invert", "must be >= -11000 m"},
     {"bottom_width", "1e7", "reach 'r1' section", "bottom_width", "must be <= 100000 m"},
     {"left_side_slope", "-2", "reach 'r1' section", "left_side_slope", "must be >= 0"},
-    {"stations", "[0.0, 10.0, 14.0, 18.0, 1e9]", "reach 'r2' section", "stations[5]",
+    {"offsets", "[0.0, 10.0, 14.0, 18.0, 1e9]", "reach 'r2' section", "offsets[5]",
      "must be <= 100000 m"},
-    {"elevations", "[52.0, 50.5, -1.75e308, 50.5, 52.0]", "reach 'r2' section", "elevations[3]",
+    {"levels", "[52.0, 50.5, -1.75e308, 50.5, 52.0]", "reach 'r2' section", "levels[3]",
      "must be >= -11000 m"},
-    {"left_bank", "-1e6", "reach 'r2' section", "left_bank", "must be >= -100000 m"},
-    {"left_overbank_n", "1e6", "reach 'r2' section", "left_overbank_n", "must be <= 1"},
+    {"channel_left", "-1e6", "reach 'r2' section", "channel_left", "must be >= -100000 m"},
+    {"left_floodplain_n", "1e6", "reach 'r2' section", "left_floodplain_n", "must be <= 1"},
     {"diameter", "1000", "reach 'r3' section", "diameter", "must be <= 50 m"},
     {"tailwater", "1e5", "culvert 'cul'", "tailwater", "must be <= 9000 m"},
     {"rise", "0", "culvert 'cul' barrel", "rise", "must be > 0"},
@@ -340,9 +340,9 @@ const HardCase kHardCases[] = {
      "must be <= 9000 m"},
     {"ponding.storages", "[0.0, 500.0, 2000.0, 1e15]", "culvert 'cul' ponding", "storages[4]",
      "must be <= 1e+12 m3"},
-    {"road.stations", "[0.0, 50.0, 1e7]", "culvert 'cul' road", "stations[3]",
+    {"road.offsets", "[0.0, 50.0, 1e7]", "culvert 'cul' road", "offsets[3]",
      "must be <= 100000 m"},
-    {"road.elevations", "[44.5, 44.0, 1e5]", "culvert 'cul' road", "elevations[3]",
+    {"road.levels", "[44.5, 44.0, 1e5]", "culvert 'cul' road", "levels[3]",
      "must be <= 9000 m"},
     {"road.coefficient", "30", "culvert 'cul' road", "coefficient", "must be <= 5 m^0.5/s"},
     {"initial_stage", "-20000", "detention 'pond'", "initial_stage", "must be >= -11000 m"},
@@ -410,7 +410,7 @@ const PlausibleCase kPlausibleCases[] = {
     // Chow (1959) Table 5-6 spans 0.008 (lucite) to 0.200 (dense willows).
     {"reach.manning_n", "0.5", "manning_n", "Chow (1959), Open-Channel Hydraulics, Table 5-6"},
     {"reach.manning_n", "0.005", "manning_n", "Chow (1959)"},
-    {"left_overbank_n", "0.3", "left_overbank_n", "Chow (1959)"},
+    {"left_floodplain_n", "0.3", "left_floodplain_n", "Chow (1959)"},
     {"barrel.manning_n", "0.06", "manning_n", "Table 5-6, closed conduits"},
     // TR-55 Table 3-1 spans 0.011 (smooth surfaces) to 0.80 (woods, dense underbrush).
     {"plane.manning_n", "0.9", "manning_n", "NRCS (1986), TR-55, Table 3-1"},
@@ -501,6 +501,43 @@ TEST(InputRanges, ATinyDesignStormIsPointedOut) {
                                [](const Problem& p) { return p.field == "depth"; });
   ASSERT_NE(it, l.warnings.end());
   EXPECT_NE(it->message.find("too small for a design storm"), std::string::npos) << it->message;
+}
+
+// ---- surveyed sections: keys of our own, rules in the file's keys --------------------------
+
+// The survey keys are offsets, levels, channel_left/right and left_floodplain_n, channel_n,
+// right_floodplain_n; no other names are accepted (a misspelt or foreign key is unknown).
+TEST(SurveyedSection, OnlyOurOwnKeysAreAccepted) {
+  std::string text = kBasin;
+  text.replace(text.find("offsets = [0.0, 10.0"), 7, "stations");
+  const Loaded l = load(text);
+  const auto unknown = std::find_if(l.problems.begin(), l.problems.end(), [](const Problem& p) {
+    return p.field == "stations" && p.message.find("is not a known field") != std::string::npos;
+  });
+  EXPECT_NE(unknown, l.problems.end()) << l.what;
+  EXPECT_NE(l.what.find("reach 'r2' section, is missing required field 'offsets'"),
+            std::string::npos)
+      << l.what;
+}
+
+TEST(SurveyedSection, SurveyRulesNameTheFileKeys) {
+  {
+    const Loaded l = load(with("offsets", "[0.0, 10.0, 9.0, 18.0, 30.0]"));
+    EXPECT_NE(l.what.find("reach 'r2' section, field 'offsets[3]' = 9 m: offsets must not "
+                          "decrease from left to right (the one before is 10 m)"),
+              std::string::npos)
+        << l.what;
+  }
+  {
+    const Loaded l = load(with("channel_left", "40.0"));
+    EXPECT_NE(l.what.find("field 'channel_left' = 40 m: must not exceed channel_right = 18 m"),
+              std::string::npos)
+        << l.what;
+    EXPECT_NE(l.what.find("field 'channel_left' = 40 m: must lie within the survey's offsets "
+                          "(0 to 30 m)"),
+              std::string::npos)
+        << l.what;
+  }
 }
 
 }  // namespace

@@ -793,7 +793,7 @@ barrel = { shape = "circular", diameter = )" + L(3.0) + R"(, count = 1, length =
          R"(, manning_n = 0.012, inlet = "concrete-square-edge-headwall" }
 ponding = { stages = )" + nums({172, 174, 176, 178, 180, 184}, u.length) +
          R"(, storages = )" + nums({0, 0.2, 0.8, 2.0, 4.0, 10.0}, u.volume) + R"( }
-road = { stations = )" + nums({0, 100, 200, 300}, u.length) + R"(, elevations = )" +
+road = { offsets = )" + nums({0, 100, 200, 300}, u.length) + R"(, levels = )" +
          nums({180.5, 179.0, 179.2, 181.0}, u.length) + R"(, coefficient = )" +
          num(2.9 * u.weir) + R"( }
 

@@ -98,7 +98,7 @@ std::string random_basin(std::mt19937& rng) {
               "inlet = \"concrete-square-edge-headwall\" }\n"
            << "ponding = { bottom = 10.0, area = " << 500.0 + 3000.0 * u(rng)
            << ", area_growth = 400.0 }\n"
-           << "road = { stations = [0.0, 30.0, 60.0], elevations = [13.5, 12.8, 13.6] }\n";
+           << "road = { offsets = [0.0, 30.0, 60.0], levels = [13.5, 12.8, 13.6] }\n";
     } else {
       toml << "[[detention]]\nid = \"" << id << "\"\nto = \"" << to << "\"\n"
            << "storage = { bottom = 20.0, area = " << 800.0 + 2000.0 * u(rng) << " }\n"

@@ -371,6 +371,36 @@ double positive_ranged(FieldReader& s, const InputUnits& u, std::string_view key
   return v == 0.0 ? std::numeric_limits<double>::quiet_NaN() : v;
 }
 
+// A surveyed section's rules in the file's keys and units (geometry checks them again in SI):
+// at least 3 points, offsets not decreasing (an equal offset is a vertical wall), the channel
+// limits in order and inside the survey.
+void check_survey(FieldReader& s, const std::vector<double>& offsets, double left, double right,
+                  const InputUnits& u) {
+  const char* unit = u.length_unit();
+  if (offsets.size() < 3) {
+    s.report("offsets", "has " + std::to_string(offsets.size()) + " values: needs >= 3");
+  }
+  for (std::size_t k = 1; k < offsets.size(); ++k) {
+    if (offsets[k] < offsets[k - 1]) {
+      s.report_item("offsets", k, quoted(offsets[k], unit) + ": offsets must not decrease "
+                                      "from left to right (the one before is " +
+                                      format_value(offsets[k - 1]) + " " + unit + ")");
+    }
+  }
+  if (left > right) {
+    s.report("channel_left", quoted(left, unit) + ": must not exceed channel_right = " +
+                                 format_value(right) + " " + unit);
+  }
+  if (offsets.empty()) return;
+  const double first = offsets.front(), last = offsets.back();
+  for (const auto& [key, v] : {std::pair{"channel_left", left}, std::pair{"channel_right", right}}) {
+    if (v < first || v > last) {
+      s.report(key, quoted(v, unit) + ": must lie within the survey's offsets (" +
+                        format_value(first) + " to " + format_value(last) + " " + unit + ")");
+    }
+  }
+}
+
 // `manning_n` is the reach's n (read by the caller so it is checked whatever the shape).
 std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& reach,
                                                   std::optional<double> manning_n,
@@ -378,8 +408,8 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
   const std::string shape = s.choice(
       "shape", {"rectangular", "trapezoidal", "triangular", "circular", "irregular"});
   if (shape == "irregular" && manning_n) {
-    reach.report("manning_n", "is not used by an irregular section: give left_overbank_n, "
-                              "main_channel_n and right_overbank_n in the section");
+    reach.report("manning_n", "is not used by an irregular section: give left_floodplain_n, "
+                              "channel_n and right_floodplain_n in the section");
   }
   auto n = [&] {
     if (!manning_n) reach.report_here("is missing required field 'manning_n'");
@@ -404,20 +434,25 @@ std::optional<geometry::SectionSpec> read_section(FieldReader& s, FieldReader& r
   }
   if (shape == "irregular") {
     geometry::IrregularSpec spec;
-    const auto stations = ranged_numbers(s, u, "stations", Q::section_offset);
-    const auto elevations = ranged_numbers(s, u, "elevations", Q::elevation);
-    if (stations.size() != elevations.size()) {
-      s.report("elevations", "has " + std::to_string(elevations.size()) + " values but stations has " +
-                                 std::to_string(stations.size()));
+    // A survey: offsets across the section (left to right) and the bed level at each; the
+    // main channel lies between two offsets, with its own n and one for each floodplain.
+    const auto offsets = ranged_numbers(s, u, "offsets", Q::section_offset);
+    const auto levels = ranged_numbers(s, u, "levels", Q::elevation);
+    if (offsets.size() != levels.size()) {
+      s.report("levels", "has " + std::to_string(levels.size()) + " values but offsets has " +
+                             std::to_string(offsets.size()) + ": give one level per offset");
     }
-    for (std::size_t i = 0; i < std::min(stations.size(), elevations.size()); ++i) {
-      spec.points.push_back({u.length_m(stations[i]), u.length_m(elevations[i])});
+    for (std::size_t i = 0; i < std::min(offsets.size(), levels.size()); ++i) {
+      spec.points.push_back({u.length_m(offsets[i]), u.length_m(levels[i])});
     }
-    spec.left_bank_station_m = u.length_m(ranged(s, u, "left_bank", Q::section_offset));
-    spec.right_bank_station_m = u.length_m(ranged(s, u, "right_bank", Q::section_offset));
-    spec.left_overbank_n = ranged(s, u, "left_overbank_n", Q::reach_manning_n);
-    spec.main_channel_n = ranged(s, u, "main_channel_n", Q::reach_manning_n);
-    spec.right_overbank_n = ranged(s, u, "right_overbank_n", Q::reach_manning_n);
+    const double left = ranged(s, u, "channel_left", Q::section_offset);
+    const double right = ranged(s, u, "channel_right", Q::section_offset);
+    check_survey(s, offsets, left, right, u);
+    spec.left_bank_station_m = u.length_m(left);
+    spec.right_bank_station_m = u.length_m(right);
+    spec.left_overbank_n = ranged(s, u, "left_floodplain_n", Q::reach_manning_n);
+    spec.main_channel_n = ranged(s, u, "channel_n", Q::reach_manning_n);
+    spec.right_overbank_n = ranged(s, u, "right_floodplain_n", Q::reach_manning_n);
     return spec;
   }
   return std::nullopt;
@@ -633,21 +668,22 @@ std::optional<structures::RoadOvertopping> read_road(FieldReader& rd, const Inpu
                                                      const CrossingInput& in,
                                                      const std::optional<PoolStorage>& ponding) {
   const std::size_t before = rd.problems().size();
-  const std::vector<double> station = ranged_numbers(rd, u, "stations", Q::road_offset);
-  const std::vector<double> crest = ranged_numbers(rd, u, "elevations", Q::elevation);
+  // The crest profile: offsets along the road and the crest level at each.
+  const std::vector<double> station = ranged_numbers(rd, u, "offsets", Q::road_offset);
+  const std::vector<double> crest = ranged_numbers(rd, u, "levels", Q::elevation);
   const auto c = optional_ranged(rd, u, "coefficient", Q::weir_coefficient);
   if (rd.problems().size() != before) return std::nullopt;
   if (station.size() != crest.size()) {
-    rd.report("elevations", "has " + std::to_string(crest.size()) + " values but stations has " +
-                                std::to_string(station.size()) + ": give one per station");
+    rd.report("levels", "has " + std::to_string(crest.size()) + " values but offsets has " +
+                            std::to_string(station.size()) + ": give one level per offset");
   }
   if (station.size() < 2) {
-    rd.report("stations", "has " + std::to_string(station.size()) + " values: needs >= 2");
+    rd.report("offsets", "has " + std::to_string(station.size()) + " values: needs >= 2");
   }
   for (std::size_t k = 1; k < station.size(); ++k) {
     if (station[k] <= station[k - 1]) {
-      rd.report_item("stations", k, quoted(station[k], u.length_unit()) +
-                                        ": stations must strictly increase");
+      rd.report_item("offsets", k, quoted(station[k], u.length_unit()) +
+                                       ": offsets must strictly increase");
     }
   }
   if (rd.problems().size() != before) return std::nullopt;
@@ -658,11 +694,11 @@ std::optional<structures::RoadOvertopping> read_road(FieldReader& rd, const Inpu
       ": water would cross the road before it fills the pond; check that the road survey, the "
       "barrel and the ponding table use the same datum";
   if (crest[low] < in.inlet_invert) {
-    rd.report_item("elevations", low, at + "the barrel inlet invert " +
+    rd.report_item("levels", low, at + "the barrel inlet invert " +
                                           format_value(in.inlet_invert) + " " + u.length_unit() +
                                           advice);
   } else if (ponding && crest[low] < ponding->bottom) {
-    rd.report_item("elevations", low, at + "the ponding relation's first stage " +
+    rd.report_item("levels", low, at + "the ponding relation's first stage " +
                                           format_value(ponding->bottom) + " " + u.length_unit() +
                                           advice);
   }
