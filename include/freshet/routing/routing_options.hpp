@@ -18,6 +18,8 @@
 
 namespace freshet::routing {
 
+// Each kind is one type in schemes/ (registered in schemes/registry.hpp, in this order), which
+// also supplies its name for to_string/parse_scheme_kind.
 enum class SchemeKind {
   kExplicitUpwind,  // first-order Godunov (upwind) flux, forward Euler, Courant-limited dt
   kImplicitUpwind,  // first-order upwind, backward Euler, cell-by-cell downstream Newton solve

@@ -137,8 +137,8 @@ struct ShockReport {
   double end_time_s = std::numeric_limits<double>::quiet_NaN();
 };
 
-// Watches one reach. observe() is called at increasing times with the cell areas, discharges
-// Q_i(A_i) and celerities c_i(A_i); it tracks every shock of the run, each in its own
+// Watches one reach. observe() is called at increasing times with the cell areas and a way to
+// evaluate the discharges Q_i(A_i) and celerities c_i(A_i); it tracks every shock of the run, each in its own
 // ShockReport (in order of formation):
 //   * each tracked shock is looked for within plateau_cells cells of its position
 //     extrapolated along its fitted speed; it leaves the view through the outlet (arrival
