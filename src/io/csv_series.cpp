@@ -1,8 +1,10 @@
 #include "freshet/io/csv_series.hpp"
 
+#include <algorithm>
 #include <array>
 #include <charconv>
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <sstream>
 
@@ -120,9 +122,23 @@ std::optional<double> parse_number(const Field& f, int line, Located& problems) 
   return v;
 }
 
+// Whether a value column suits what the reader wants; otherwise what it wants instead.
+std::optional<std::string> mismatch(SeriesKind kind, ColumnUnit value) {
+  const bool discharge = quantity_of(value) == SeriesQuantity::discharge;
+  if (kind == SeriesKind::hydrograph && !discharge) {
+    return "is rain, not discharge: a hydrograph needs a discharge column (discharge_m3s or "
+           "discharge_cfs)";
+  }
+  if (kind == SeriesKind::hyetograph && discharge) {
+    return "is a discharge, not rain: a hyetograph needs an intensity or depth column "
+           "(intensity_mm_per_h, intensity_in_per_h, depth_mm or depth_in)";
+  }
+  return std::nullopt;
+}
+
 // Parses the header row; returns the two units, or nullopt after recording problems.
 std::optional<std::pair<ColumnUnit, ColumnUnit>> parse_header(std::string_view line, int line_no,
-                                                             Located& problems) {
+                                                             SeriesKind kind, Located& problems) {
   const auto fields = split_fields(line);
   if (fields.size() != 2) {
     problems.add(line_no, 1, "header must name exactly 2 columns (time, value), found " +
@@ -141,6 +157,10 @@ std::optional<std::pair<ColumnUnit, ColumnUnit>> parse_header(std::string_view l
     problems.add(line_no, fields[1].column,
                  "unknown value column '" + std::string(fields[1].text) + "'; expected one of " +
                      known_names(false));
+    ok = false;
+  } else if (const auto wanted = mismatch(kind, *value)) {
+    problems.add(line_no, fields[1].column,
+                 "value column '" + std::string(fields[1].text) + "' " + *wanted);
     ok = false;
   }
   if (!ok) return std::nullopt;
@@ -239,7 +259,8 @@ SeriesQuantity quantity_of(ColumnUnit value_unit) {
   return SeriesQuantity::discharge;
 }
 
-SeriesTable parse_series_csv(std::string_view text, const std::string& file_name) {
+SeriesTable parse_series_csv(std::string_view text, const std::string& file_name,
+                             SeriesKind kind) {
   Located problems(file_name);
   SeriesTable table;
   if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);
@@ -259,7 +280,7 @@ SeriesTable parse_series_csv(std::string_view text, const std::string& file_name
     }
     if (!header_seen) {
       header_seen = true;
-      if (const auto units = parse_header(line, line_no, problems)) {
+      if (const auto units = parse_header(line, line_no, kind, problems)) {
         table.quantity = quantity_of(units->second);
         rows.emplace(RowParser{units->first, units->second, problems, table});
       }
@@ -267,7 +288,9 @@ SeriesTable parse_series_csv(std::string_view text, const std::string& file_name
     }
     if (rows) rows->parse(line, line_no);
   }
-  if (!header_seen) problems.add(line_no, 0, "no header row (e.g. 'time_s,discharge_m3s') found");
+  if (!header_seen) {  // an empty file is reported at its line 1
+    problems.add(std::max(line_no, 1), 0, "no header row (e.g. 'time_s,discharge_m3s') found");
+  }
   if (header_seen && rows && table.times_s.empty() && problems.empty()) {
     problems.add(line_no, 0, "no data rows after the header");
   }
@@ -275,33 +298,29 @@ SeriesTable parse_series_csv(std::string_view text, const std::string& file_name
   return table;
 }
 
-SeriesTable read_series_csv(const std::filesystem::path& path) {
+SeriesTable read_series_csv(const std::filesystem::path& path, SeriesKind kind) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(path, ec)) {  // an ifstream opens a folder as empty
+    throw IoError("cannot open input file '" + path.string() + "': it is a folder");
+  }
   std::ifstream in(path, std::ios::binary);
   if (!in) throw IoError("cannot open input file '" + path.string() + "'");
   std::ostringstream buffer;
   buffer << in.rdbuf();
   if (in.bad()) throw IoError("cannot read input file '" + path.string() + "'");
-  return parse_series_csv(buffer.str(), path.string());
+  return parse_series_csv(buffer.str(), path.string(), kind);
 }
 
 PiecewiseLinearSeries read_hydrograph_csv(const std::filesystem::path& path) {
-  SeriesTable table = read_series_csv(path);
-  if (table.quantity != SeriesQuantity::discharge) {
-    throw InputError(Problem{path.string(), 0, 0, "", "",
-                             "a hydrograph needs a discharge column (discharge_m3s or "
-                             "discharge_cfs)"});
-  }
+  SeriesTable table = read_series_csv(path, SeriesKind::hydrograph);
+  FRESHET_ASSERT(table.quantity == SeriesQuantity::discharge, "the header check admits discharge");
   return PiecewiseLinearSeries(std::move(table.times_s), std::move(table.values_si),
                                "hydrograph '" + path.string() + "'");
 }
 
 SeriesTable read_hyetograph_csv(const std::filesystem::path& path) {
-  SeriesTable table = read_series_csv(path);
-  if (table.quantity == SeriesQuantity::discharge) {
-    throw InputError(Problem{path.string(), 0, 0, "", "",
-                             "a hyetograph needs an intensity or depth column (" +
-                                 known_names(false) + ", except discharge)"});
-  }
+  SeriesTable table = read_series_csv(path, SeriesKind::hyetograph);
+  FRESHET_ASSERT(table.quantity != SeriesQuantity::discharge, "the header check admits rain");
   return table;
 }
 

@@ -255,6 +255,12 @@ def run_case(case, freshet, base, scratch, show=False):
                             and p not in before)
             if hidden:
                 problems.append("the run left hidden files: " + ", ".join(hidden))
+            # A result set is complete when its summary JSON, renamed last, stands beside it.
+            orphans = sorted(p for p in after if p.endswith(".nc") and p not in before
+                             and not p.endswith(("_subcatchments.nc", "_profiles.nc"))
+                             and p[:-3] + "_summary.json" not in after)
+            if orphans:
+                problems.append("results without their summary JSON: " + ", ".join(orphans))
         if problems:
             failures.append(f"$ {shown}\n    " + "\n    ".join(problems) + "\n  output:\n"
                             + "\n".join("    | " + line for line in lines[:40]))

@@ -92,6 +92,9 @@ TEST(CsvSeries, UnknownUnitNamesTheColumnAndTheChoices) {
 
 TEST(CsvSeries, EmptyOrHeaderlessFilesAreRejected) {
   EXPECT_THAT(messages_of("# only comments\n").at(0), HasSubstr("no header row"));
+  // An empty file has no line of its own: it is reported at line 1, not at line 0 (which
+  // printed no line at all).
+  EXPECT_THAT(messages_of("").at(0), HasSubstr("in.csv:1: no header row"));
   EXPECT_THAT(messages_of("time_s,discharge_m3s\n").at(0), HasSubstr("no data rows"));
 }
 
@@ -169,6 +172,42 @@ TEST(CsvSeries, HydrographReaderReturnsASeriesAndRejectsRainFiles) {
   EXPECT_THROW(read_hydrograph_csv(dir / "r.csv"), InputError);
   EXPECT_EQ(read_hyetograph_csv(dir / "r.csv").quantity, SeriesQuantity::rain_intensity);
   EXPECT_THROW(read_hyetograph_csv(dir / "q.csv"), InputError);
+}
+
+// The wrong quantity is reported at the header's value column, before any row is judged (a
+// depth column under an inflow used to be rejected for its first row's depth, and a discharge
+// column under a storm without a line).
+TEST(CsvSeries, WrongQuantityIsReportedAtTheHeader) {
+  TempDir dir;
+  write_text(dir / "d.csv", "# gauge\ntime_min,depth_mm\n0,0.2\n5,1\n");
+  try {
+    read_hydrograph_csv(dir / "d.csv");
+    FAIL();
+  } catch (const InputError& e) {
+    ASSERT_EQ(e.problems().size(), 1u);
+    EXPECT_THAT(e.problems()[0].to_string(),
+                HasSubstr("d.csv:2:10: value column 'depth_mm' is rain, not discharge"));
+  }
+  write_text(dir / "q.csv", "time_s,discharge_m3s\n0,0\n100,2\n");
+  try {
+    read_hyetograph_csv(dir / "q.csv");
+    FAIL();
+  } catch (const InputError& e) {
+    ASSERT_EQ(e.problems().size(), 1u);
+    EXPECT_THAT(e.problems()[0].to_string(),
+                HasSubstr("q.csv:1:8: value column 'discharge_m3s' is a discharge, not rain"));
+  }
+}
+
+// A folder opens as an empty stream; it used to be reported as a file without a header.
+TEST(CsvSeries, FolderIsAnIoErrorNamingIt) {
+  TempDir dir;
+  try {
+    read_series_csv(dir.path());
+    FAIL();
+  } catch (const IoError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("': it is a folder"));
+  }
 }
 
 TEST(CsvSeries, MissingInputFileIsAnIoErrorNamingIt) {

@@ -523,6 +523,39 @@ TEST(StudyLoad, ImplicitCourantMustBePositive) {
       << f.what;
 }
 
+// Rules of the run clock and the design-storm library are said with the file's keys, at their
+// lines (they were named 'output_interval' in s, 'duration_s' and 'step_s' at the table's first
+// line), and the storm's library is not asked again about a key already reported.
+TEST(StudyLoad, ClockAndBlockRulesNameTheKeysAtTheirLines) {
+  std::string head = kHead;
+  head.replace(head.find("output_interval_min = 5.0"), 25, "output_interval_min = 7.0");
+  head.replace(head.find("step_min = 5"), 12, "step_min = 7");
+  Fixture f(head + kGoodNetwork);
+  const auto problems = f.problems();
+  EXPECT_TRUE(has_line(f.what, f.at("output_interval_min"),
+                       {"study, field 'output_interval_min' = 7 min: must divide the run "
+                        "(duration_h = 1, i.e. 60 min) into whole output intervals"}));
+  EXPECT_TRUE(has_line(f.what, f.at("step_min"),
+                       {"storm 's1', field 'step_min' = 7 min: must divide duration_min = 30 "
+                        "into whole blocks"}));
+  EXPECT_EQ(problems.size(), 2u) << f.what;
+
+  std::string longer = kHead;
+  longer.replace(longer.find("step_min = 5"), 12, "step_min = 45");
+  Fixture g(longer + kGoodNetwork);
+  EXPECT_EQ(g.problems().size(), 1u) << g.what;
+  EXPECT_TRUE(has_line(g.what, g.at("step_min"),
+                       {"field 'step_min' = 45 min: must not exceed duration_min = 30"}));
+}
+
+// A CSV file that cannot be opened is reported at the key that names it.
+TEST(StudyLoad, UnreadableCsvIsReportedAtItsFileKey) {
+  Fixture f(kHead + kGoodNetwork, {});
+  ASSERT_EQ(f.problems().size(), 1u) << f.what;
+  EXPECT_TRUE(has_line(f.what, f.at("file = \"flow.csv\""),
+                       {"inflow 'spring', field 'file' = 'flow.csv': cannot open input file"}));
+}
+
 TEST(StudyLoad, UnknownStormOrScenarioIdAsked) {
   Fixture f(kHead + kGoodNetwork);
   const Study study = Study::load(f.basin);

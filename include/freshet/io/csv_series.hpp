@@ -68,10 +68,15 @@ struct SeriesTable {
   std::vector<std::string> metadata;   // comment lines, without the leading '#' and one space
 };
 
+// What a reader wants in the value column: a header naming another quantity is a problem at
+// the header's line (a hydrograph needs discharge; a hyetograph, rain intensity or depth).
+enum class SeriesKind { any, hydrograph, hyetograph };
+
 // Parses CSV text; `file_name` is used in messages only. Throws InputError with every problem.
-SeriesTable parse_series_csv(std::string_view text, const std::string& file_name);
-// Reads a file (IoError when it cannot be read; InputError for bad content).
-SeriesTable read_series_csv(const std::filesystem::path& path);
+SeriesTable parse_series_csv(std::string_view text, const std::string& file_name,
+                             SeriesKind kind = SeriesKind::any);
+// Reads a file (IoError when it cannot be read or is a folder; InputError for bad content).
+SeriesTable read_series_csv(const std::filesystem::path& path, SeriesKind kind = SeriesKind::any);
 // Reads a hydrograph (a discharge column is required) as a series in m3 s-1.
 PiecewiseLinearSeries read_hydrograph_csv(const std::filesystem::path& path);
 // Reads a hyetograph (an intensity or depth column is required).

@@ -33,6 +33,14 @@ void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& 
   }
 }
 
+void report_file_error(FieldReader& at, const IoError& e) {
+  if (at.has("file")) {
+    at.report("file", "= '" + at.optional_text("file").value_or("") + "': " + e.what());
+  } else {
+    at.report_here(e.what());
+  }
+}
+
 CrossingCache::Crossing CrossingCache::get_or_build(const std::string& key,
                                                    const std::function<Crossing()>& build) {
   {
@@ -147,8 +155,8 @@ void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&&
   } catch (const InputError& error) {
     relocate(error, r, problems_);
     r.consume_all();  // reading stopped here: the keys not yet read cannot be judged
-  } catch (const IoError& error) {
-    r.report_here(error.what());
+  } catch (const IoError& error) {  // a file named by the element (an inflow's CSV)
+    report_file_error(r, error);
     r.consume_all();
   }
   r.finish();

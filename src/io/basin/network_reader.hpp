@@ -102,5 +102,7 @@ std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits
 
 // Converts an InputError raised by a library constructor into located problems.
 void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& problems);
+// Reports a file named by the table at `at` that cannot be read (IoError), at its `file` key.
+void report_file_error(FieldReader& at, const IoError& e);
 
 }  // namespace freshet::io::detail

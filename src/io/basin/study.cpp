@@ -107,6 +107,18 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
       ranged(r, u, "output_interval_min", Q::output_interval_min) * units::kSecondsPerMinute;
   settings.coupling_step_s =
       optional_ranged(r, u, "coupling_step_s", Q::coupling_step_s).value_or(60.0);
+  const double intervals = settings.duration_s / settings.output_interval_s;  // NaN if either is
+  if (std::isfinite(intervals) && intervals > 1.0 &&
+      std::abs(intervals - std::round(intervals)) > 1e-9 * intervals) {
+    // The clock's own rule (network::ClockOptions::validate), said with the file's keys. An
+    // interval longer than the run is left to the clock.
+    r.report("output_interval_min",
+             "= " + format_value(settings.output_interval_s / units::kSecondsPerMinute) +
+                 " min: must divide the run (duration_h = " +
+                 format_value(settings.duration_s / units::kSecondsPerHour) + ", i.e. " +
+                 format_value(settings.duration_s / units::kSecondsPerMinute) +
+                 " min) into whole output intervals");
+  }
   if (settings.coupling_step_s > settings.output_interval_s) {  // false when either is NaN
     r.report("coupling_step_s",
              "= " + format_value(settings.coupling_step_s) + " s: must be <= the output "
@@ -145,6 +157,21 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
 // ---- storms --------------------------------------------------------------------------------
 
 namespace {
+
+// The block rules of the design-storm library (hydrology::DesignStormOptions, the alternating
+// block's whole blocks), said with the file's keys at step_min's line.
+void check_blocks(FieldReader& r, const hydrology::DesignStormOptions& o, bool whole_blocks) {
+  const double blocks = o.duration_s / o.step_s;  // NaN when either key is bad
+  if (!std::isfinite(blocks) || !(blocks > 0.0)) return;
+  const std::string step = format_value(o.step_s / units::kSecondsPerMinute);
+  const std::string duration = format_value(o.duration_s / units::kSecondsPerMinute);
+  if (blocks < 1.0) {
+    r.report("step_min", "= " + step + " min: must not exceed duration_min = " + duration);
+  } else if (whole_blocks && std::abs(blocks - std::round(blocks)) > 1e-9 * blocks) {
+    r.report("step_min", "= " + step + " min: must divide duration_min = " + duration +
+                             " into whole blocks (alternating block method)");
+  }
+}
 
 hydrology::Hyetograph read_series_storm(FieldReader& r, const std::filesystem::path& dir,
                                         const std::string& label) {
@@ -286,13 +313,17 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
         const double step = ranged(r, u, "step_min", Q::storm_step_min) * units::kSecondsPerMinute;
         if (parsed) rain = hydrology::nrcs_24h_storm(*parsed, depth, step, label);
       } else if (!method.empty()) {
+        const std::size_t before = problems.size();
         hydrology::DesignStormOptions o;
         o.duration_s = ranged(r, u, "duration_min", Q::storm_duration_min) *
                        units::kSecondsPerMinute;
         o.step_s = ranged(r, u, "step_min", Q::storm_step_min) * units::kSecondsPerMinute;
         o.peak_ratio = optional_ranged(r, u, "peak_ratio", Q::peak_ratio).value_or(0.5);
+        check_blocks(r, o, method == "alternating-block");
         const std::optional<hydrology::IdfCurve> idf = read_idf(r, u, label);
-        if (idf) {
+        // The storm is built only from clean keys: the library would repeat their problems
+        // under its own names (duration_s = nan) at the storm's first line.
+        if (idf && problems.size() == before) {
           rain = method == "chicago" ? hydrology::chicago_storm(*idf, o, label)
                                      : hydrology::alternating_block_storm(*idf, o, label);
         }
@@ -308,8 +339,8 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
       }
     } catch (const InputError& e) {
       detail::relocate(e, r, problems);
-    } catch (const IoError& e) {
-      r.report_here(e.what());
+    } catch (const IoError& e) {  // the series storm's CSV file
+      detail::report_file_error(r, e);
     }
     if (!method.empty()) r.finish();  // an unknown method's other keys cannot be judged
   }
