@@ -77,7 +77,9 @@ std::vector<io::RunOutcome> run_batch(const io::Study& study,
     io::check_run_request(study, request);
     for (const auto& path : io::planned_output_files(study, request)) {
       if (!planned.insert(path).second) {
-        throw IoError("two runs of this command would both write '" + path.string() + "'");
+        throw UsageError("two runs of this command would both write '" + path.string() +
+                         "'; route these runs in separate commands with their own --out, or "
+                         "rename a storm or element so that the file names differ");
       }
     }
   }

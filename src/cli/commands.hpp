@@ -7,18 +7,9 @@
 #include <functional>
 #include <string>
 
-namespace freshet::cli {
+#include "exit_codes.hpp"
 
-// Documented in docs/user-guide.md and `freshet --help`.
-enum ExitCode : int {
-  kExitOk = 0,
-  kExitUsage = 1,           // bad command line
-  kExitBadInput = 2,        // a basin, storm or hydrograph file has problems
-  kExitNumerical = 3,       // a numerical method failed
-  kExitIo = 4,              // a file could not be read or written
-  kExitVerifyFailed = 5,    // `freshet verify`: a case missed its published value
-  // 128 + the signal number: stopped by SIGINT (130) or SIGTERM (143); stop_signals.hpp.
-};
+namespace freshet::cli {
 
 struct GlobalOptions {
   bool quiet = false;  // no progress on stderr

@@ -4,8 +4,6 @@
 #include <iostream>
 
 #include "commands.hpp"
-#include "freshet/core/error.hpp"
-#include "freshet/io/study_run.hpp"
 #include "stop_signals.hpp"
 
 namespace {
@@ -30,23 +28,12 @@ bool report_unknown_subcommand(const CLI::App& app, int argc, char** argv) {
   return false;
 }
 
-// Runs the selected action; maps its exception to an exit code and prints the message.
+// Runs the selected action; maps any exception to an exit code and prints its message.
 int run_action(const Action& action, bool& library_state_unknown) {
   try {
     return action ? action() : kExitOk;
-  } catch (const freshet::InputError& e) {
-    std::cerr << "freshet: the input has " << e.problems().size() << " problem(s):\n"
-              << e.what() << "\n";
-    return kExitBadInput;
-  } catch (const freshet::NumericalError& e) {
-    std::cerr << "freshet: numerical failure: " << e.what() << "\n";
-    return kExitNumerical;
-  } catch (const freshet::IoError& e) {
-    std::cerr << "freshet: " << e.what() << "\n";
-    library_state_unknown = true;
-    return kExitIo;
-  } catch (const freshet::io::RunInterrupted&) {
-    return kExitOk;  // reported by main() from the signal received
+  } catch (...) {
+    return report_failure(std::current_exception(), std::cerr, library_state_unknown);
   }
 }
 
@@ -58,7 +45,8 @@ int main(int argc, char** argv) {
       "freshet: kinematic-wave flood routing for drainage and stormwater studies.\n"
       "Exit codes: 0 success, 1 bad command line, 2 bad input file, 3 numerical failure,\n"
       "4 file could not be read or written, 5 verification case failed,\n"
-      "130 stopped by SIGINT (Ctrl-C), 143 stopped by SIGTERM."};
+      "70 internal error (a bug: please report it), 130 stopped by SIGINT (Ctrl-C),\n"
+      "143 stopped by SIGTERM."};
   app.require_subcommand(1);
   app.fallthrough();  // global flags (--quiet) may also follow the subcommand
   GlobalOptions global;

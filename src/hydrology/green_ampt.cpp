@@ -4,7 +4,7 @@
 #include <cmath>
 #include <limits>
 
-#include "freshet/core/root_finding.hpp"
+#include "freshet/core/converged_root.hpp"
 
 namespace freshet::hydrology {
 namespace {
@@ -18,7 +18,9 @@ void require_fraction_open(ProblemList& problems, std::string_view field, double
 
 // Increment dF of ponded infiltration over `duration_s` starting from F0 (CMM eq. 4.4.6):
 //   dF - psi dtheta ln(1 + dF / (F0 + psi dtheta)) = K duration.
-double ponded_increment_m(const GreenAmptParameters& p, double f0_m, double duration_s) {
+// NumericalError naming `element` when the iteration fails (K t overflowing, for instance).
+double ponded_increment_m(const GreenAmptParameters& p, double f0_m, double duration_s,
+                          std::string_view element) {
   if (duration_s <= 0.0) return 0.0;
   const double a = p.suction_deficit_m();
   const double k_t = p.hydraulic_conductivity_m_s * duration_s;
@@ -29,9 +31,10 @@ double ponded_increment_m(const GreenAmptParameters& p, double f0_m, double dura
   };
   auto g = [&](double d) { return d - a * std::log1p(d / base); };
   const double hi = expand_upper_bracket(g, k_t, k_t + std::sqrt(2.0 * a * k_t));
-  const RootResult root = solve_bracketed_newton(fdf, 0.0, hi);
-  FRESHET_ASSERT(root.converged, "Green-Ampt Newton iteration must converge on its bracket");
-  return root.x;
+  return converged_root(solve_bracketed_newton(fdf, 0.0, hi), element,
+                        "Green-Ampt ponded infiltration increment (m)",
+                        "K t = " + format_value(k_t) + " m from F = " + format_value(f0_m) +
+                            " m over " + format_value(duration_s) + " s");
 }
 
 }  // namespace
@@ -67,8 +70,9 @@ double green_ampt_capacity_m_s(const GreenAmptParameters& p, double cumulative_m
   return p.hydraulic_conductivity_m_s * (1.0 + p.suction_deficit_m() / cumulative_m);
 }
 
-double green_ampt_ponded_infiltration_m(const GreenAmptParameters& p, double time_s) {
-  return ponded_increment_m(p, 0.0, time_s);
+double green_ampt_ponded_infiltration_m(const GreenAmptParameters& p, double time_s,
+                                        std::string_view element) {
+  return ponded_increment_m(p, 0.0, time_s, element);
 }
 
 double green_ampt_ponding_time_s(const GreenAmptParameters& p, double intensity_m_s) {
@@ -78,7 +82,7 @@ double green_ampt_ponding_time_s(const GreenAmptParameters& p, double intensity_
 }
 
 GreenAmptLoss::GreenAmptLoss(const GreenAmptParameters& parameters, const std::string& element)
-    : parameters_(parameters) {
+    : parameters_(parameters), element_(element) {
   ProblemList problems(element);
   parameters_.validate(problems);
   problems.throw_if_any();
@@ -96,13 +100,13 @@ LossStep GreenAmptLoss::split(double rain_depth_m, double step_s) {
   const double f = infiltrated_m_;
   double infiltration = rain_depth_m;  // no ponding during the step
   if (green_ampt_capacity_m_s(p, f) <= i) {
-    infiltration = ponded_increment_m(p, f, step_s);  // ponded throughout
+    infiltration = ponded_increment_m(p, f, step_s, element_);  // ponded throughout
   } else if (i > p.hydraulic_conductivity_m_s) {
     const double f_ponding = p.hydraulic_conductivity_m_s * p.suction_deficit_m() /
                              (i - p.hydraulic_conductivity_m_s);
     if (f + rain_depth_m > f_ponding) {  // ponds inside the step, at t + (F_p - F_t) / i
       const double dry_s = std::clamp((f_ponding - f) / i, 0.0, step_s);
-      infiltration = std::max(0.0, f_ponding - f) + ponded_increment_m(p, f_ponding, step_s - dry_s);
+      infiltration = std::max(0.0, f_ponding - f) + ponded_increment_m(p, f_ponding, step_s - dry_s, element_);
     }
   }
   infiltration = std::clamp(infiltration, 0.0, rain_depth_m);

@@ -4,7 +4,7 @@
 #include <cmath>
 #include <limits>
 
-#include "freshet/core/root_finding.hpp"
+#include "freshet/core/converged_root.hpp"
 
 namespace freshet::hydrology {
 namespace {
@@ -35,7 +35,7 @@ double HortonParameters::capacity_at_time_m_s(double time_s) const {
          (initial_capacity_m_s - final_capacity_m_s) * std::exp(-decay_rate_per_s * time_s);
 }
 
-double HortonParameters::equivalent_time_s(double cumulative_m) const {
+double HortonParameters::equivalent_time_s(double cumulative_m, std::string_view element) const {
   const double fc = final_capacity_m_s;
   if (cumulative_m <= 0.0) return 0.0;
   if (initial_capacity_m_s == fc) return fc > 0.0 ? cumulative_m / fc : kInfinity;
@@ -47,13 +47,13 @@ double HortonParameters::equivalent_time_s(double cumulative_m) const {
   auto g = [&](double tau) { return ponded_infiltration_m(tau); };
   const double hi = expand_upper_bracket(g, cumulative_m, cumulative_m / initial_capacity_m_s);
   if (std::isnan(hi)) return kInfinity;
-  const RootResult root = solve_bracketed_newton(fdf, 0.0, hi);
-  FRESHET_ASSERT(root.converged, "Horton equivalent-time Newton iteration must converge");
-  return root.x;
+  return converged_root(solve_bracketed_newton(fdf, 0.0, hi), element,
+                        "Horton equivalent time (s)",
+                        "cumulative infiltration F = " + format_value(cumulative_m) + " m");
 }
 
 HortonLoss::HortonLoss(const HortonParameters& parameters, const std::string& element)
-    : parameters_(parameters) {
+    : parameters_(parameters), element_(element) {
   ProblemList problems(element);
   parameters_.validate(problems);
   problems.throw_if_any();
@@ -64,7 +64,7 @@ std::unique_ptr<LossModel> HortonLoss::clone() const {
 }
 
 double HortonLoss::capacity_m_s() const {
-  return parameters_.capacity_at_time_m_s(parameters_.equivalent_time_s(infiltrated_m_));
+  return parameters_.capacity_at_time_m_s(parameters_.equivalent_time_s(infiltrated_m_, element_));
 }
 
 double HortonLoss::ponded_increment_m(double tau_s, double duration_s) const {
@@ -82,7 +82,7 @@ LossStep HortonLoss::split(double rain_depth_m, double step_s) {
   const HortonParameters& p = parameters_;
   const double i = rain_depth_m / step_s;
   const double f = infiltrated_m_;
-  const double tau = p.equivalent_time_s(f);
+  const double tau = p.equivalent_time_s(f, element_);
   double infiltration = rain_depth_m;  // capacity stays above i for the whole step
   if (p.capacity_at_time_m_s(tau) <= i) {
     infiltration = ponded_increment_m(tau, step_s);

@@ -131,11 +131,7 @@ std::vector<double> scaled_sample_values(const PiecewiseLinearSeries& s, const V
   for (std::size_t k = 0; k < n; ++k) trapezoid += 0.5 * (q[k] + q[k + 1]) * (t[k + 1] - t[k]);
   const double volume = v.between(t.front(), t.back());
   if (trapezoid == 0.0) {
-    if (volume != 0.0) {
-      throw InputError(Problem{"", 0, 0, "resampled series", "dt_s",
-                               "every sample is zero but the volume is not; choose a shorter "
-                               "interval"});
-    }
+    if (volume != 0.0) return {};  // every sample zero but not the volume
     return q;
   }
   const double scale = volume / trapezoid;
@@ -145,7 +141,7 @@ std::vector<double> scaled_sample_values(const PiecewiseLinearSeries& s, const V
 
 }  // namespace
 
-PiecewiseLinearSeries resample_preserving_volume(
+std::optional<PiecewiseLinearSeries> try_resample_preserving_volume(
     const PiecewiseLinearSeries& series, double t_start_s, double dt_s, std::size_t n_intervals,
     ResampleMethod method, const PiecewiseLinearSeries* cumulative_volume) {
   FRESHET_ASSERT(dt_s > 0.0 && n_intervals >= 1 && !series.empty(),
@@ -158,13 +154,26 @@ PiecewiseLinearSeries resample_preserving_volume(
     case ResampleMethod::local_correction: values = locally_corrected_values(series, v, t); break;
     case ResampleMethod::scaled_samples: values = scaled_sample_values(series, v, t); break;
   }
-  if (values.empty()) {
-    throw InputError(Problem{"", 0, 0, "resampled series", "dt_s",
-                             "= " + format_value(dt_s) + ": keeping the volume this way would "
-                             "need negative values (a feature shorter than the interval); choose "
-                             "a shorter interval or the scaled-samples method"});
-  }
+  if (values.empty()) return std::nullopt;
   return PiecewiseLinearSeries(t, std::move(values), "resampled series");
+}
+
+PiecewiseLinearSeries resample_preserving_volume(
+    const PiecewiseLinearSeries& series, double t_start_s, double dt_s, std::size_t n_intervals,
+    ResampleMethod method, const PiecewiseLinearSeries* cumulative_volume) {
+  auto out = try_resample_preserving_volume(series, t_start_s, dt_s, n_intervals, method,
+                                            cumulative_volume);
+  if (!out) throw InputError(resample_refusal(dt_s, method));
+  return std::move(*out);
+}
+
+Problem resample_refusal(double dt_s, ResampleMethod method) {
+  const std::string why =
+      method == ResampleMethod::scaled_samples
+          ? "every sample is zero but the volume is not; choose a shorter interval"
+          : "keeping the volume this way would need negative values (a feature shorter than "
+            "the interval); choose a shorter interval or the scaled-samples method";
+  return Problem{"", 0, 0, "resampled series", "dt_s", "= " + format_value(dt_s) + ": " + why};
 }
 
 }  // namespace freshet::io

@@ -599,21 +599,25 @@ std::filesystem::path write_export(const Study& study,
   std::optional<PiecewiseLinearSeries> r;
   std::string method;
   double best_miss = std::numeric_limits<double>::infinity();
+  bool scaled_refused = false;
   for (const Attempt& a : attempts) {
-    try {
-      PiecewiseLinearSeries candidate =
-          resample_preserving_volume(q, 0.0, dt_s, n, a.method, &volume);
-      const auto values = candidate.values();
-      const double miss =
-          std::abs(*std::max_element(values.begin(), values.end()) - routed_peak_m3s);
-      if (miss < best_miss) {
-        best_miss = miss;
-        r = std::move(candidate);
-        method = a.label;
-      }
-    } catch (const InputError&) {
-      if (a.method == ResampleMethod::scaled_samples && !r) throw;
+    std::optional<PiecewiseLinearSeries> candidate =
+        try_resample_preserving_volume(q, 0.0, dt_s, n, a.method, &volume);
+    if (!candidate) {
+      scaled_refused = a.method == ResampleMethod::scaled_samples;
+      continue;
     }
+    const auto values = candidate->values();
+    const double miss =
+        std::abs(*std::max_element(values.begin(), values.end()) - routed_peak_m3s);
+    if (miss < best_miss) {
+      best_miss = miss;
+      r = std::move(candidate);
+      method = a.label;
+    }
+  }
+  if (!r && scaled_refused) {
+    throw InputError(resample_refusal(dt_s, ResampleMethod::scaled_samples));
   }
   if (!r) {
     throw NumericalError("hydrograph export of station '" + station.id +

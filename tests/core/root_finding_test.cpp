@@ -1,4 +1,4 @@
-#include "freshet/core/root_finding.hpp"
+#include "freshet/core/converged_root.hpp"
 
 #include <cmath>
 #include <gtest/gtest.h>
@@ -37,6 +37,27 @@ TEST(SolveBracketedNewton, SurvivesFlatDerivative) {
   const RootResult r = solve_bracketed_newton(fdf, 0.0, 3.0);
   ASSERT_TRUE(r.converged);
   EXPECT_NEAR(r.x, 1.0, 1e-5);
+}
+
+// A converged root is returned as found; a failed one becomes a NumericalError that names the
+// element, the quantity and the value it was sought for (the error tiers of DEVELOPERS.md).
+// Reference: x^2 - 2 has no root on [2, 3] (f > 0 at both ends), so rtsafe reports no bracket.
+TEST(ConvergedRoot, ReturnsTheRootOrNamesElementQuantityAndValue) {
+  EXPECT_EQ(converged_root({1.5, 3, true}, "reach 'r1'", "depth (m)", "area 2 m2"), 1.5);
+  auto fdf = [](double x, double& f, double& df) {
+    f = x * x - 2.0;
+    df = 2.0 * x;
+  };
+  const RootResult none = solve_bracketed_newton(fdf, 2.0, 3.0);
+  ASSERT_FALSE(none.converged);
+  try {
+    (void)converged_root(none, "reach 'r1'", "depth (m)", "area 2 m2");
+    FAIL() << "no NumericalError";
+  } catch (const NumericalError& e) {
+    EXPECT_STREQ(e.what(),
+                 "reach 'r1': depth (m) did not converge for area 2 m2 (0 iterations, last "
+                 "estimate nan)");
+  }
 }
 
 }  // namespace

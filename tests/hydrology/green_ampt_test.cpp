@@ -1,6 +1,7 @@
 #include "freshet/hydrology/green_ampt.hpp"
 
 #include <cmath>
+#include <string>
 #include <gtest/gtest.h>
 
 namespace freshet::hydrology {
@@ -88,6 +89,25 @@ TEST(GreenAmpt, RejectsPhysicallyImpossibleSoils) {
   GreenAmptParameters p = silt_loam();
   p.effective_porosity = 0.6;
   EXPECT_THROW(GreenAmptLoss(p, "subcatchment 'alder'"), InputError);
+}
+
+// A valid but pathological soil: K = 1e300 m/s over 1e10 s makes K t overflow the double
+// range (IEEE 754 binary64: largest finite value about 1.8e308), so the ponded equation has
+// no finite root. The failure is a NumericalError naming the element, quantity and value,
+// not an abort.
+TEST(GreenAmpt, OverflowingIterationIsANumericalErrorNamingTheSoil) {
+  GreenAmptParameters p = silt_loam();
+  p.hydraulic_conductivity_m_s = 1e300;
+  try {
+    (void)green_ampt_ponded_infiltration_m(p, 1e10, "subcatchment 'alder'");
+    FAIL() << "no NumericalError";
+  } catch (const NumericalError& e) {
+    const std::string what = e.what();
+    EXPECT_NE(what.find("subcatchment 'alder': Green-Ampt ponded infiltration increment (m) "
+                        "did not converge for K t = inf m from F = 0 m over 1e+10 s"),
+              std::string::npos)
+        << what;
+  }
 }
 
 }  // namespace

@@ -1,7 +1,10 @@
 #include "freshet/hydrology/horton.hpp"
 
 #include <cmath>
+#include <string>
 #include <gtest/gtest.h>
+
+#include "freshet/core/error.hpp"
 
 namespace freshet::hydrology {
 namespace {
@@ -85,6 +88,25 @@ TEST(Horton, RejectsInconsistentRates) {
   EXPECT_THROW(HortonLoss({.initial_capacity_m_s = 1e-6, .final_capacity_m_s = -1e-7,
                            .decay_rate_per_s = 1e-3}, "subcatchment 'alder'"),
                InputError);
+}
+
+// A valid but pathological soil: f_c = 1e308 m/s, f_0 = 1.7e308 m/s, k = 1 /s. Seeking the
+// equivalent time of F = 1.7e308 m doubles the bracket until F(tau) overflows to infinity
+// (IEEE 754 binary64: largest finite value about 1.8e308), where no root can be bracketed.
+// The failure is a NumericalError naming the element, quantity and value, not an abort.
+TEST(Horton, OverflowingIterationIsANumericalErrorNamingTheSoil) {
+  const HortonParameters p{
+      .initial_capacity_m_s = 1.7e308, .final_capacity_m_s = 1e308, .decay_rate_per_s = 1.0};
+  try {
+    (void)p.equivalent_time_s(1.7e308, "subcatchment 'alder'");
+    FAIL() << "no NumericalError";
+  } catch (const NumericalError& e) {
+    const std::string what = e.what();
+    EXPECT_NE(what.find("subcatchment 'alder': Horton equivalent time (s) did not converge for "
+                        "cumulative infiltration F = 1.7e+308 m"),
+              std::string::npos)
+        << what;
+  }
 }
 
 }  // namespace

@@ -21,6 +21,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 
 #include "freshet/core/error.hpp"
 #include "freshet/hydrology/loss_model.hpp"
@@ -43,14 +44,17 @@ struct GreenAmptParameters {
 
 // Infiltration capacity f (m/s) once F (m) has infiltrated (infinite at F = 0).
 double green_ampt_capacity_m_s(const GreenAmptParameters& p, double cumulative_m);
-// F (m) after `time_s` of ponded infiltration starting from F = 0 (CMM eq. 4.3.6).
-double green_ampt_ponded_infiltration_m(const GreenAmptParameters& p, double time_s);
+// F (m) after `time_s` of ponded infiltration starting from F = 0 (CMM eq. 4.3.6). Throws
+// NumericalError naming `element` when the iteration fails (K t beyond the double range).
+double green_ampt_ponded_infiltration_m(const GreenAmptParameters& p, double time_s,
+                                        std::string_view element = "Green-Ampt soil");
 // Ponding time (s) under constant intensity from a dry start; +inf when i <= K.
 double green_ampt_ponding_time_s(const GreenAmptParameters& p, double intensity_m_s);
 
 class GreenAmptLoss final : public LossModel {
  public:
-  // Throws InputError naming `element` for invalid parameters (all problems at once).
+  // Throws InputError naming `element` for invalid parameters (all problems at once); a
+  // step whose infiltration iteration fails throws NumericalError naming it.
   GreenAmptLoss(const GreenAmptParameters& parameters, const std::string& element);
   [[nodiscard]] std::unique_ptr<LossModel> clone() const override;
   [[nodiscard]] std::string_view method() const override { return "Green-Ampt"; }
@@ -61,6 +65,7 @@ class GreenAmptLoss final : public LossModel {
   void reset_state() override { infiltrated_m_ = 0.0; }
 
   GreenAmptParameters parameters_;
+  std::string element_;         // named in a numerical failure
   double infiltrated_m_ = 0.0;  // F
 };
 

@@ -15,6 +15,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 
 #include "freshet/core/error.hpp"
 #include "freshet/hydrology/loss_model.hpp"
@@ -31,7 +32,9 @@ struct HortonParameters {
   [[nodiscard]] double ponded_infiltration_m(double time_s) const;
   [[nodiscard]] double capacity_at_time_m_s(double time_s) const;
   // tau with F(tau) = F; +inf when F reaches the limit f_0 / k of a soil with f_c = 0.
-  [[nodiscard]] double equivalent_time_s(double cumulative_m) const;
+  // Throws NumericalError naming `element` when the iteration fails (F(tau) overflowing).
+  [[nodiscard]] double equivalent_time_s(double cumulative_m,
+                                         std::string_view element = "Horton soil") const;
 };
 
 class HortonLoss final : public LossModel {
@@ -50,6 +53,7 @@ class HortonLoss final : public LossModel {
   [[nodiscard]] double ponded_increment_m(double tau_s, double duration_s) const;
 
   HortonParameters parameters_;
+  std::string element_;         // named in a numerical failure
   double infiltrated_m_ = 0.0;  // F
 };
 

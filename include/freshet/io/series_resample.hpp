@@ -33,6 +33,9 @@
 #pragma once
 
 #include <cstddef>
+#include <optional>
+
+#include "freshet/core/error.hpp"
 
 #include "freshet/core/time_series.hpp"
 
@@ -50,5 +53,14 @@ enum class ResampleMethod { interval_volumes, local_correction, scaled_samples }
 PiecewiseLinearSeries resample_preserving_volume(
     const PiecewiseLinearSeries& series, double t_start_s, double dt_s, std::size_t n_intervals,
     ResampleMethod method, const PiecewiseLinearSeries* cumulative_volume = nullptr);
+
+// The same without an exception: std::nullopt where resample_preserving_volume would throw,
+// for callers that try the methods in turn.
+std::optional<PiecewiseLinearSeries> try_resample_preserving_volume(
+    const PiecewiseLinearSeries& series, double t_start_s, double dt_s, std::size_t n_intervals,
+    ResampleMethod method, const PiecewiseLinearSeries* cumulative_volume = nullptr);
+
+// Why `method` could not resample at `dt_s`: the problem resample_preserving_volume throws.
+Problem resample_refusal(double dt_s, ResampleMethod method);
 
 }  // namespace freshet::io

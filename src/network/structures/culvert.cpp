@@ -6,6 +6,7 @@
 #include <numbers>
 
 #include "bracketed_solve.hpp"
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
 
@@ -155,8 +156,8 @@ double Culvert::critical_depth_m(double q) const {
   if (critical_q(y_top) <= q) return d;
   const RootResult r = detail::solve_monotone([&](double y) { return critical_q(y) - q; }, 0.0,
                                               y_top);
-  FRESHET_ASSERT(r.converged, "critical depth: bracketed root must converge");
-  return r.x;
+  return converged_root(r, element_, "critical depth (m)",
+                        "barrel discharge " + format_value(q) + " m3/s");
 }
 
 double Culvert::manning_discharge_m3s(double y) const {
@@ -171,8 +172,8 @@ double Culvert::normal_depth_m(double q) const {
   if (!(slope_ > 0.0) || manning_discharge_m3s(max_part_full_depth_m_) < q) return kInf;
   const RootResult r = detail::solve_monotone(
       [&](double y) { return manning_discharge_m3s(y) - q; }, 0.0, max_part_full_depth_m_);
-  FRESHET_ASSERT(r.converged, "normal depth: bracketed root must converge");
-  return r.x;
+  return converged_root(r, element_, "normal depth (m)",
+                        "barrel discharge " + format_value(q) + " m3/s");
 }
 
 }  // namespace freshet::network::structures

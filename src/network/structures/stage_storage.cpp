@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "bracketed_solve.hpp"
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/error.hpp"
 
 namespace freshet::network::structures {
@@ -59,6 +60,7 @@ StageStorage StageStorage::from_table(std::vector<double> stage_m, std::vector<d
   problems.throw_if_any();
   StageStorage out;
   out.kind_ = Kind::table;
+  out.element_ = element;
   out.interpolation_ = interpolation;
   out.bottom_stage_m_ = stage_m.front();
   out.slope_m2_ = monotone_slopes(stage_m, storage_m3);
@@ -150,8 +152,8 @@ double StageStorage::table_stage(double storage_m3) const {
   if (storage_m3_[k] == storage_m3) return stage_m_[k];
   auto g = [&](double h) { return table_storage(h) - storage_m3; };
   const RootResult r = detail::solve_monotone(g, stage_m_[k - 1], stage_m_[k], 1e-15);
-  FRESHET_ASSERT(r.converged, "stage for storage: bracketed root must converge");
-  return r.x;
+  return converged_root(r, element_, "stage for storage (m)",
+                        "storage " + format_value(storage_m3) + " m3");
 }
 
 }  // namespace freshet::network::structures

@@ -263,5 +263,31 @@ TEST(CulvertCrossing, NoFlowWhileThePondStandsAtTheTailwater) {
   EXPECT_GT(xing.barrel_discharge_m3s(tailwater + 0.2), 0.0);
 }
 
+// A valid but pathological barrel: a 1e200 m pipe has a flow area of about 1e400 m2, beyond
+// the double range (IEEE 754 binary64: largest finite value about 1.8e308), so neither the
+// critical nor the normal depth can be bracketed. Each failure is a NumericalError naming the
+// culvert, the depth sought and the discharge, not an abort.
+TEST(Culvert, OverflowingDepthSearchesAreNumericalErrorsNamingTheCulvert) {
+  const Culvert c(concrete_pipe(1e200, 30.0, 0.3), "culvert 'mill-lane'");
+  const auto message = [](auto&& call) -> std::string {
+    try {
+      (void)call();
+    } catch (const NumericalError& e) {
+      return e.what();
+    }
+    return "no NumericalError";
+  };
+  const std::string critical = message([&] { return c.critical_depth_m(2.5); });
+  EXPECT_EQ(critical.find("culvert 'mill-lane': critical depth (m) did not converge for barrel "
+                          "discharge 2.5 m3/s"),
+            0u)
+      << critical;
+  const std::string normal = message([&] { return c.normal_depth_m(2.5); });
+  EXPECT_EQ(normal.find("culvert 'mill-lane': normal depth (m) did not converge for barrel "
+                        "discharge 2.5 m3/s"),
+            0u)
+      << normal;
+}
+
 }  // namespace
 }  // namespace freshet::network::structures

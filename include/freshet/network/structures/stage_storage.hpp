@@ -65,6 +65,7 @@ class StageStorage {
   std::vector<double> stage_m_;        // table nodes
   std::vector<double> storage_m3_;
   std::vector<double> slope_m2_;       // dS/dh at the nodes (Hermite slopes)
+  std::string element_;                // named when the stage for a storage is not found
 };
 
 }  // namespace freshet::network::structures
