@@ -7,9 +7,9 @@
 // The input is a small text, one key and its numbers per line, the first word naming the table:
 //
 //   irregular
-//   stations 0 6 14 16.5 18 21 23 31 40
-//   elevations 61.8 60.6 60.1 59.1 58.5 58.6 59.4 60 61.5
-//   banks 14 23
+//   offsets 0 6 14 16.5 18 21 23 31 40
+//   levels 61.8 60.6 60.1 59.1 58.5 58.6 59.4 60 61.5
+//   channel 14 23
 //   n 0.05 0.04 0.06
 //   slope 0.012
 //   probe 0.001 0.3 0.9        (fractions of the table's range, where lookups are checked)
@@ -205,14 +205,14 @@ void check_crossing(const structures::CulvertCrossing& x, const Input& in) {
 // ---- the tables ----------------------------------------------------------------------------
 
 void irregular(const Input& in) {
-  const auto st = in.list("stations", {0.0, 6.0, 14.0, 16.5, 18.0, 21.0, 23.0, 31.0, 40.0});
-  const auto el = in.list("elevations", {61.8, 60.6, 60.1, 59.1, 58.5, 58.6, 59.4, 60.0, 61.5});
+  const auto st = in.list("offsets", {0.0, 6.0, 14.0, 16.5, 18.0, 21.0, 23.0, 31.0, 40.0});
+  const auto el = in.list("levels", {61.8, 60.6, 60.1, 59.1, 58.5, 58.6, 59.4, 60.0, 61.5});
   geometry::IrregularSpec spec;
   for (std::size_t k = 0; k < std::min(st.size(), el.size()); ++k) {
     spec.points.push_back({st[k], el[k]});
   }
-  spec.left_bank_station_m = in.one("banks", 14.0, 0);
-  spec.right_bank_station_m = in.one("banks", 23.0, 1);
+  spec.left_bank_station_m = in.one("channel", 14.0, 0);
+  spec.right_bank_station_m = in.one("channel", 23.0, 1);
   spec.left_overbank_n = in.one("n", 0.05, 0);
   spec.main_channel_n = in.one("n", 0.04, 1);
   spec.right_overbank_n = in.one("n", 0.06, 2);
@@ -262,8 +262,8 @@ void culvert(const Input& in) {
   const std::optional<double> tailwater = in.maybe("tailwater");
   std::optional<structures::RoadOvertopping> road;
   if (in.word("road", "yes") != "none") {
-    road.emplace(in.list("road_stations", {0.0, 40.0, 80.0, 120.0, 160.0, 200.0}),
-                 in.list("road_elevations", {55.8, 55.3, 55.05, 55.1, 55.4, 55.9}),
+    road.emplace(in.list("road_offsets", {0.0, 40.0, 80.0, 120.0, 160.0, 200.0}),
+                 in.list("road_levels", {55.8, 55.3, 55.05, 55.1, 55.4, 55.9}),
                  in.one("road_coefficient", structures::kRoadOvertoppingCoefficientSi), "fuzz road",
                  tailwater);
   }
