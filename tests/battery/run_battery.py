@@ -51,7 +51,10 @@ class Case:
 
 
 def unescape(text):
-    return text.replace("\\n", "\n").replace("\\t", "\t")
+    """'\\n' is a line break, '\\t' a tab and '\\xHH' the byte HH (files are edited as
+    Latin-1, so every byte stands for itself)."""
+    text = text.replace("\\n", "\n").replace("\\t", "\t")
+    return re.sub(r"\\x([0-9a-fA-F]{2})", lambda m: chr(int(m.group(1), 16)), text)
 
 
 def parse_cases(path):
@@ -110,7 +113,7 @@ def apply_edit(folder, edit, anchors):
     if edit.startswith("! "):  # a shell command in the case folder (output folder set-ups)
         subprocess.run(edit[2:], shell=True, cwd=folder, check=True)
         return None
-    text = open(path, encoding="utf-8").read() if os.path.exists(path) else ""
+    text = open(path, encoding="latin-1").read() if os.path.exists(path) else ""
     if edit == ":=" or edit.startswith(":= "):  # the whole file
         new = unescape(edit[3:])
         where = 1
@@ -141,7 +144,7 @@ def apply_edit(folder, edit, anchors):
     else:
         raise CaseError(f"edit '{edit}' is not one of 'OLD => NEW', '+ TEXT', '- TEXT', "
                         "':= TEXT', '! COMMAND'")
-    with open(path, "w", encoding="utf-8") as f:
+    with open(path, "w", encoding="latin-1") as f:
         f.write(new)
     anchors.setdefault("file", name)
     anchors.setdefault("line", where)
@@ -154,7 +157,7 @@ def expand(regex, folder, anchors):
         """(file, line) of the one line holding the text: in the first edited file, else in
         the basin file."""
         for name in dict.fromkeys([anchors.get("file", STUDY), STUDY]):
-            lines = open(os.path.join(folder, name), encoding="utf-8").read().split("\n")
+            lines = open(os.path.join(folder, name), encoding="latin-1").read().split("\n")
             hits = [i + 1 for i, line in enumerate(lines) if text_to_find in line]
             if len(hits) > 1:
                 raise CaseError(f"'{text_to_find}' is on {len(hits)} lines of {name}, not one")

@@ -308,6 +308,19 @@ TEST(StudyLoad, UnknownCulvertInletTypeIsNamed) {
                        {"culvert 'c1' barrel, field 'inlet' = 'bevelled-teak': unknown inlet type"}));
 }
 
+// An orifice with no size at all is told both ways to give one (it was told only to give a
+// width and a height).
+TEST(StudyLoad, OrificeWithoutSizeNamesBothWays) {
+  std::string net = kStructures;
+  net.replace(net.find("  type = \"weir\"\n  crest = 40.0\n  length = 2.0"), 45,
+              "  type = \"orifice\"\n  invert = 40.0");
+  Fixture f(kHead + net);
+  ASSERT_EQ(f.problems().size(), 1u) << f.what;
+  EXPECT_TRUE(has_line(f.what, f.at("[[detention.outlet]]"),
+                       {"detention 'd1' outlet 1, is missing the size of the opening: give "
+                        "'diameter' (a circular orifice) or 'width' and 'height'"}));
+}
+
 TEST(StudyLoad, DetentionBasinWithoutOutletsIsReported) {
   std::string net = kStructures;
   const std::size_t from = net.find("  [[detention.outlet]]");

@@ -809,6 +809,9 @@ std::optional<OutletInput> read_outlet(FieldReader& o, const InputUnits& u) {
     if (o.has("diameter")) {
       orifice.shape = structures::OrificeShape::circular;
       orifice.diameter_m = u.length_m(ranged(o, u, "diameter", Q::orifice_size));
+    } else if (!o.has("width") && !o.has("height")) {  // no size at all: say both ways
+      o.report_here("is missing the size of the opening: give 'diameter' (a circular orifice) "
+                    "or 'width' and 'height' (a rectangular one)");
     } else {
       orifice.shape = structures::OrificeShape::rectangular;
       orifice.width_m = u.length_m(ranged(o, u, "width", Q::orifice_size));
