@@ -9,6 +9,8 @@
 #include <random>
 #include <sstream>
 
+#include <unistd.h>
+
 #include <gtest/gtest.h>
 
 #include "freshet/io/study.hpp"
@@ -126,7 +128,9 @@ std::string random_basin(std::mt19937& rng) {
 }
 
 TEST(NetworkBalance, RandomNetworksClose) {
-  const auto dir = std::filesystem::temp_directory_path() / "freshet-random-networks";
+  // One folder per process: test runs of other build trees on the machine remove their own.
+  const auto dir = std::filesystem::temp_directory_path() /
+                   ("freshet-random-networks-" + std::to_string(::getpid()));
   std::filesystem::create_directories(dir);
   std::ofstream(dir / "inflow.csv") << "time_min,discharge_m3s\n0,0.2\n30,2.5\n90,0.5\n180,0.2\n";
   for (unsigned seed = 1; seed <= 12; ++seed) {
