@@ -39,6 +39,29 @@ const std::array<UnitInfo, 9> kUnits{{
 
 const UnitInfo& info(ColumnUnit unit) { return kUnits[static_cast<std::size_t>(unit)]; }
 
+// Hard limits on a series value (SI): above them a number cannot be a real flow or rain, and
+// in every column unit it stays a finite number when written back. Generous on purpose; the
+// basin reader's plausibility checks (storm depth against the record envelope) come on top.
+struct Limit {
+  double max_si;
+  std::string_view reason;
+};
+Limit limit_of(SeriesQuantity q) {
+  switch (q) {
+    case SeriesQuantity::discharge:
+      return {1e6, "above any flood discharge ever measured, about 3e5 m3/s on the largest "
+                   "rivers; from memory"};
+    case SeriesQuantity::rain_intensity:
+      return {1e4 * kMmPerHourToMs, "10,000 mm/h, several times the world-record 1-minute "
+                                    "rainfall rate (about 38 mm in 1 min; from memory)"};
+    case SeriesQuantity::rain_depth:
+      return {10.0, "10 m in one row, over five times the world-record 24-hour point rainfall "
+                    "(about 1.8 m; from memory)"};
+  }
+  return {0.0, ""};
+}
+constexpr double kMaxAbsTimeS = 1000.0 * 365.25 * 86400.0;
+
 std::string known_names(bool time) {
   std::string out;
   for (const auto& u : kUnits) {
@@ -192,6 +215,10 @@ struct RowParser {
   }
 
   void check_time(double t, int column, int line_no) {
+    if (std::abs(t * info(time_unit).to_si) > kMaxAbsTimeS) {
+      problems.add(line_no, column, std::string(to_string(time_unit)) + " = " + format_value(t) +
+                                        ": more than 1000 years from the time origin");
+    }
     if (has_last && !(t > last_time)) {
       problems.add(line_no, column, "time " + format_value(t) +
                                         " does not increase (previous row: " +
@@ -204,6 +231,12 @@ struct RowParser {
   void check_value(double v, int column, int line_no) {
     const std::string name(to_string(value_unit));
     if (v < 0.0) problems.add(line_no, column, name + " = " + format_value(v) + ": must be >= 0");
+    const Limit& limit = limit_of(quantity_of(value_unit));
+    if (v * info(value_unit).to_si > limit.max_si) {
+      problems.add(line_no, column, name + " = " + format_value(v) + ": above the hard limit of " +
+                                        format_value(limit.max_si / info(value_unit).to_si) +
+                                        " (" + std::string(limit.reason) + ")");
+    }
     const bool first_row = table.values_si.empty() && table.times_s.empty();
     if (quantity_of(value_unit) == SeriesQuantity::rain_depth && first_row && v != 0.0) {
       problems.add(line_no, column, name + " = " + format_value(v) +

@@ -104,9 +104,11 @@ TEST(CsvSeries, DepthColumnMustStartWithZero) {
 }
 
 // Values chosen to need all 17 significant digits, plus extremes.
+// Values the decimal text must carry exactly (the largest is just under the reader's hard
+// limit on discharge, 1e6 m3/s).
 std::vector<double> awkward_values() {
   return {0.0, 1.0 / 3.0, 2.0 / 3.0 * 1e5, std::nextafter(1.0, 2.0), 1e-300, 5e-324,
-          123456.78901234567, 0.1, 0.7, 1.7976931348623157e308};
+          123456.78901234567, 0.1, 0.7, std::nextafter(1e6, 0.0)};
 }
 
 TEST(CsvSeries, WrittenThenReadBackIsBitwiseEqualInSiUnits) {
@@ -227,6 +229,23 @@ TEST(CsvSeries, UnitNamesRoundTrip) {
     EXPECT_EQ(parse_column_unit(to_string(u)), u);
   }
   EXPECT_FALSE(parse_column_unit("cfs").has_value());
+}
+
+// Values beyond any real flow or rain are refused where they are read (a fuzzing finding:
+// 1e308 in/h was accepted, then written back as 'inf' in mm/h). The limits are generous hard
+// bounds, not design values; their reasons (record floods and rainfalls) are from memory.
+TEST(CsvSeries, ValuesAndTimesBeyondHardLimitsAreRefusedWithTheirLine) {
+  const auto rain = messages_of("time_h,intensity_in_per_h\n0,0\n1,1e308\n");
+  ASSERT_EQ(rain.size(), 1u);
+  EXPECT_THAT(rain[0], HasSubstr("in.csv:3"));
+  EXPECT_THAT(rain[0], HasSubstr("above the hard limit"));
+  EXPECT_EQ(messages_of("time_h,intensity_mm_per_h\n0,0\n1,9999\n").size(), 0u);
+  EXPECT_EQ(messages_of("time_s,discharge_cfs\n0,0\n1,4e7\n").size(), 1u);
+  EXPECT_EQ(messages_of("time_s,discharge_m3s\n0,0\n1,9e5\n").size(), 0u);
+  EXPECT_EQ(messages_of("time_min,depth_mm\n0,0\n5,10001\n").size(), 1u);
+  const auto time = messages_of("time_h,discharge_m3s\n0,0\n1e306,1\n");
+  ASSERT_EQ(time.size(), 1u);
+  EXPECT_THAT(time[0], HasSubstr("more than 1000 years"));
 }
 
 }  // namespace
