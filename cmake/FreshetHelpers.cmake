@@ -1,4 +1,5 @@
 # Shared build helpers: one line per library or test.
+include(GNUInstallDirs)
 
 function(freshet_warnings target)
   # -Wno-restrict: g++ 12 reports false -Wrestrict errors inside std::string operator+ at -O2
@@ -65,7 +66,9 @@ function(add_freshet_library module)
   freshet_module_view(${module} view)
   add_library(freshet_${module} STATIC ${ARG_SOURCES})
   add_library(freshet::${module} ALIAS freshet_${module})
-  target_include_directories(freshet_${module} PUBLIC $<BUILD_INTERFACE:${view}>)
+  set_target_properties(freshet_${module} PROPERTIES EXPORT_NAME ${module})
+  target_include_directories(freshet_${module} PUBLIC $<BUILD_INTERFACE:${view}>
+                                                      $<INSTALL_INTERFACE:${CMAKE_INSTALL_INCLUDEDIR}>)
   target_compile_features(freshet_${module} PUBLIC cxx_std_20)
   target_link_libraries(freshet_${module} PUBLIC ${ARG_DEPS} PRIVATE ${ARG_PRIVATE_DEPS})
   freshet_warnings(freshet_${module})
