@@ -172,7 +172,7 @@ std::optional<double> normal_depth_m(const CrossSection& section, double bed_slo
 namespace {
 
 SectionFlux closed_form_or_table(const CrossSection& section, double s,
-                                 const TableOptions& options) {
+                                 const TableOptions& options, const std::string& element) {
   switch (section.shape()) {
     case SectionShape::rectangular: {
       const auto& r = static_cast<const TrapezoidalSection&>(section);
@@ -193,18 +193,18 @@ SectionFlux closed_form_or_table(const CrossSection& section, double s,
     case SectionShape::irregular:
       break;
   }
-  return TabulatedFlux::from_section(section, s, options);
+  return TabulatedFlux::from_section(section, s, options, element);
 }
 
 }  // namespace
 
 SectionFlux make_section_flux(const CrossSection& section, double bed_slope,
                               const TableOptions& options, std::string element) {
-  ProblemList problems(std::move(element));
+  ProblemList problems(element);
   require_slope(problems, bed_slope);
   options.validate(problems);
   problems.throw_if_any();
-  return closed_form_or_table(section, bed_slope, options);
+  return closed_form_or_table(section, bed_slope, options, element);
 }
 
 FlowSection make_flow_section(const SectionSpec& spec, double bed_slope,
@@ -215,7 +215,7 @@ FlowSection make_flow_section(const SectionSpec& spec, double bed_slope,
   options.validate(problems);
   problems.throw_if_any();
   auto section = make_section(spec, element);
-  SectionFlux flux = closed_form_or_table(*section, bed_slope, options);
+  SectionFlux flux = closed_form_or_table(*section, bed_slope, options, element);
   return FlowSection{std::move(section), std::move(flux), bed_slope};
 }
 

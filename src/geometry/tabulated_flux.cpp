@@ -49,11 +49,21 @@ double top_depth(const CrossSection& section, const TableOptions& o) {
 
 // Geometric depths from bottom to top, plus every corner of the geometry in between; a
 // geometric node that nearly coincides with a corner is dropped so intervals stay well shaped.
-std::vector<double> initial_depths(const CrossSection& section, const TableOptions& o) {
+// The count is judged as a double before it becomes an int (a depth scale of inf or NaN
+// would otherwise convert NaN to int).
+std::vector<double> initial_depths(const CrossSection& section, const TableOptions& o,
+                                   const std::string& element) {
   const double top = top_depth(section, o);
   const double bottom = o.bottom_depth_ratio * top;
-  const int count = std::max(
-      2, static_cast<int>(std::ceil(std::log10(top / bottom) * o.nodes_per_decade)));
+  const double decades = std::ceil(std::log10(top / bottom) * o.nodes_per_decade);
+  if (!(std::isfinite(top) && bottom > 0.0 && decades >= 0.0 && decades <= o.max_nodes)) {
+    ProblemList p(element);
+    p.add("section", "has a depth range from " + format_value(bottom) + " to " +
+                         format_value(top) + " m that no discharge table can span: its "
+                         "dimensions are outside the physical range");
+    p.throw_if_any();
+  }
+  const int count = std::max(2, static_cast<int>(decades));
   const double ratio = std::pow(top / bottom, 1.0 / count);
   std::vector<double> corners;
   for (double b : section.breakpoint_depths_m()) {
@@ -88,8 +98,39 @@ void limit_slopes(double delta, double& m0, double& m1) {
   }
 }
 
+// A table is only used once its own values are usable: finite nodes with areas strictly
+// increasing (the searches in evaluate() and area_for_discharge_m2() rely on both) and finite,
+// non-negative slopes. An extreme section (an elevation of -1e308, an n of 1e300) gives areas
+// or discharges of 0 or inf, so the section is refused, naming the depth where it failed.
+void check_table(const Data& d, const std::vector<Sample>& samples, const std::string& element) {
+  ProblemList p(element);
+  const auto refuse = [&](std::size_t j, const std::string& what) {
+    p.add("section", "gives a discharge table whose " + what + " at depth " +
+                         format_value(samples[j].depth_m) + " m (area " +
+                         format_value(std::exp(d.log_area[j])) + " m2, discharge " +
+                         format_value(std::exp(d.log_q[j])) + " m3/s): the section's "
+                         "dimensions, roughness or slope are outside the physical range");
+    p.throw_if_any();
+  };
+  for (std::size_t j = 0; j < samples.size(); ++j) {
+    if (!std::isfinite(d.log_area[j]) || !std::isfinite(d.log_q[j])) {
+      refuse(j, "area or discharge is zero or not finite");
+    }
+    if (j > 0 && !(d.log_area[j] > d.log_area[j - 1])) refuse(j, "area does not increase");
+  }
+  for (std::size_t j = 0; j + 1 < samples.size(); ++j) {
+    const bool ok = d.slope_start[j] >= 0.0 && d.slope_end[j] >= 0.0 &&
+                    std::isfinite(d.slope_start[j]) && std::isfinite(d.slope_end[j]);
+    if (!ok) refuse(j, "slope d ln Q / d ln A is not finite");
+  }
+  if (!std::isfinite(d.exponent_below) || !std::isfinite(d.exponent_above)) {
+    refuse(0, "end exponents are not finite");
+  }
+}
+
 // Nodes from samples: running maximum of ln Q, limited interval slopes, end behaviour.
-std::shared_ptr<const Data> assemble(const std::vector<Sample>& samples, bool closed) {
+std::shared_ptr<const Data> assemble(const std::vector<Sample>& samples, bool closed,
+                                     const std::string& element) {
   auto d = std::make_shared<Data>();
   for (const Sample& s : samples) {
     d->log_area.push_back(s.log_area);
@@ -113,6 +154,7 @@ std::shared_ptr<const Data> assemble(const std::vector<Sample>& samples, bool cl
     d->capacity_area_m2 = std::exp(d->log_area.back());
     d->max_discharge_m3s = std::exp(d->log_q.back());
   }
+  check_table(*d, samples, element);
   return d;
 }
 
@@ -142,31 +184,40 @@ bool refine(const CrossSection& s, double sqrt_slope, const TabulatedFlux& table
 }  // namespace
 
 TabulatedFlux TabulatedFlux::from_section(const CrossSection& section, double bed_slope,
-                                          const TableOptions& options) {
+                                          const TableOptions& options,
+                                          const std::string& element) {
   const double sqrt_slope = std::sqrt(bed_slope);
   const bool closed = std::isfinite(section.capacity_depth_m());
   std::vector<Sample> samples;
-  for (double h : initial_depths(section, options)) samples.push_back(sample(section, sqrt_slope, h));
-  TabulatedFlux table(assemble(samples, closed));
+  for (double h : initial_depths(section, options, element)) {
+    samples.push_back(sample(section, sqrt_slope, h));
+  }
+  TabulatedFlux table(assemble(samples, closed, element));
   constexpr int kMaxPasses = 40;
   for (int pass = 0; pass < kMaxPasses; ++pass) {
     if (samples.size() >= static_cast<std::size_t>(options.max_nodes)) break;
     if (!refine(section, sqrt_slope, table, options, samples)) break;
-    table = TabulatedFlux(assemble(samples, closed));
+    table = TabulatedFlux(assemble(samples, closed, element));
   }
   return table;
 }
 
+// The comparisons are written so that NaN takes the first branch (NaN in, NaN out) and an
+// interval index is always inside the table, whatever x is.
 TabulatedFlux::LogEval TabulatedFlux::evaluate(double x) const noexcept {
   const Data& d = *data_;
-  if (x <= d.log_area.front()) {
+  if (!(x > d.log_area.front())) {
     return {d.log_q.front() + d.exponent_below * (x - d.log_area.front()), d.exponent_below};
   }
   if (x >= d.log_area.back()) {
-    return {d.log_q.back() + d.exponent_above * (x - d.log_area.back()), d.exponent_above};
+    // A zero exponent (a conduit's cap) holds Q at the cap even for an infinite area.
+    const double rise = d.exponent_above == 0.0 ? 0.0 : d.exponent_above * (x - d.log_area.back());
+    return {d.log_q.back() + rise, d.exponent_above};
   }
-  const auto k = static_cast<std::size_t>(
-      std::upper_bound(d.log_area.begin(), d.log_area.end(), x) - d.log_area.begin());
+  const auto k = std::clamp<std::size_t>(
+      static_cast<std::size_t>(std::upper_bound(d.log_area.begin(), d.log_area.end(), x) -
+                               d.log_area.begin()),
+      1, d.log_area.size() - 1);
   const std::size_t j = k - 1;
   const double dx = d.log_area[k] - d.log_area[j];
   const double u = (x - d.log_area[j]) / dx, v = 1.0 - u;
@@ -206,8 +257,12 @@ double TabulatedFlux::area_for_discharge_m2(double q) const noexcept {
                ? std::exp(d.log_area.back() + (y - d.log_q.back()) / d.exponent_above)
                : std::exp(d.log_area.back());  // at or above the cap: the capacity area
   }
-  const auto k = static_cast<std::size_t>(
-      std::lower_bound(d.log_q.begin(), d.log_q.end(), y) - d.log_q.begin());
+  // log_q.front() < y < log_q.back() here, so k is in [1, n - 1]; the clamp keeps it there
+  // by construction.
+  const auto k = std::clamp<std::size_t>(
+      static_cast<std::size_t>(std::lower_bound(d.log_q.begin(), d.log_q.end(), y) -
+                               d.log_q.begin()),
+      1, d.log_q.size() - 1);
   if (d.log_q[k] == y) return std::exp(d.log_area[k]);  // smallest area on a plateau
   auto fdf = [&](double x, double& f, double& df) {
     const LogEval e = evaluate(x);

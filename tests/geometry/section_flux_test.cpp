@@ -392,5 +392,51 @@ TEST(ManningFlux, RejectsABadSlope) {
   }
 }
 
+// Robustness (no source needed). A surveyed section that the spec checks accept (finite
+// stations and elevations, positive n) can still give a table of infinities or NaN: an
+// elevation of -1.75e308 makes every area infinite, a width of 2e307 m the conveyance. Such tables once led evaluate() to read outside the table; the builder now
+// refuses them, naming the element and the section.
+TEST(TabulatedFlux, RefusesSectionsWhoseTableIsNotFinite) {
+  const auto what = [](const IrregularSpec& spec) {
+    try {
+      (void)make_flow_section(spec, kSlope, {}, "reach 'fell'");
+    } catch (const InputError& e) {
+      return std::string(e.what());
+    }
+    return std::string("accepted");
+  };
+  IrregularSpec deep;
+  deep.points = {{0, 3}, {1, -1.75e308}, {2, 3}};
+  deep.left_bank_station_m = 0.0;
+  deep.right_bank_station_m = 2.0;
+  deep.left_overbank_n = deep.main_channel_n = deep.right_overbank_n = 0.03;
+  EXPECT_NE(what(deep).find("reach 'fell', field 'section' "), std::string::npos) << what(deep);
+  // 2e307 m wide: areas near the top are finite, their conveyance A R^(2/3) / n is not.
+  IrregularSpec plain = deep;
+  plain.points = {{0, 3}, {1e307, 0}, {2e307, 3}};
+  plain.right_bank_station_m = 2e307;
+  EXPECT_NE(what(plain).find("reach 'fell', field 'section' gives a discharge table whose "
+                             "area or discharge is zero or not finite"),
+            std::string::npos)
+      << what(plain);
+  EXPECT_EQ(what(testing::surveyed_trapezoid_spec()), "accepted");
+}
+
+// NaN and infinite areas never index outside a table: NaN in gives 0 (dry) or NaN, an infinite
+// area in a conduit gives its capacity.
+TEST(TabulatedFlux, NanAndInfiniteAreasStayInsideTheTable) {
+  const TabulatedFlux pipe = TabulatedFlux::from_section(CircularSection(CircularSpec{1.2, 0.013}), kSlope);
+  const double inf = std::numeric_limits<double>::infinity();
+  EXPECT_EQ(pipe.discharge_m3s(std::nan("")), 0.0);
+  EXPECT_EQ(pipe.area_for_discharge_m2(std::nan("")), 0.0);
+  EXPECT_DOUBLE_EQ(pipe.discharge_m3s(inf), pipe.max_discharge_m3s());
+  EXPECT_EQ(pipe.celerity_m_s(inf), 0.0);
+  const TabulatedFlux survey =
+      TabulatedFlux::from_section(IrregularSection(testing::surveyed_trapezoid_spec()), kSlope);
+  EXPECT_TRUE(std::isfinite(survey.discharge_m3s(1e-300)));
+  EXPECT_TRUE(std::isfinite(survey.celerity_m_s(1e-300)));
+  for (double q : {1e-300, 1e300}) EXPECT_TRUE(std::isfinite(survey.area_for_discharge_m2(q))) << q;
+}
+
 }  // namespace
 }  // namespace freshet::geometry

@@ -59,5 +59,48 @@ TEST(Hyetograph, RejectsMismatchedSizesAndEmptyStorms) {
   EXPECT_THROW((void)Hyetograph::from_uniform_intensities(0.0, 0.0, {1e-6}), InputError);
 }
 
+// Robustness (no source needed). A NaN time (a run length that was missing) once made
+// upper_bound return end() and the intensity array was read one past its end.
+TEST(Hyetograph, NanTimeIsAnErrorNotAReadPastTheEnd) {
+  const auto storm = Hyetograph::from_depths({0.0, 600.0, 1200.0}, {0.004, 0.010}, "storm 'kestrel'");
+  const double nan = std::nan("");
+  try {
+    (void)storm.cumulative_depth_m(nan);
+    FAIL() << "a NaN time was accepted";
+  } catch (const NumericalError& e) {
+    EXPECT_STREQ(e.what(), "storm 'kestrel': rain was asked for at a time that is not a number");
+  }
+  EXPECT_THROW((void)storm.intensity_at_m_s(nan), NumericalError);
+  EXPECT_THROW((void)storm.depth_between_m(0.0, nan), NumericalError);
+  // Every finite time, however far out, stays inside the table.
+  EXPECT_DOUBLE_EQ(storm.cumulative_depth_m(1e308), 0.014);
+  EXPECT_DOUBLE_EQ(storm.cumulative_depth_m(-1e308), 0.0);
+  EXPECT_DOUBLE_EQ(storm.intensity_at_m_s(std::nextafter(1200.0, 0.0)), 0.010 / 600.0);
+}
+
+// Finite inputs whose derived values are not: refused, naming the block.
+TEST(Hyetograph, RefusesBlocksWhoseDepthOrIntensityOverflows) {
+  const auto what = [](auto build) -> std::string {
+    try {
+      build();
+    } catch (const InputError& e) {
+      return e.what();
+    }
+    return "accepted";
+  };
+  EXPECT_NE(what([] { (void)Hyetograph::from_intensities({0.0, 3600.0}, {1e306}, "storm 'a'"); })
+                .find("storm 'a', field 'depth[1]' = inf m"),
+            std::string::npos);
+  EXPECT_NE(what([] { (void)Hyetograph::from_depths({0.0, 1e-320}, {1.0}, "storm 'b'"); })
+                .find("storm 'b', field 'intensity[1]' = inf m/s"),
+            std::string::npos);
+  EXPECT_NE(what([] { (void)Hyetograph::from_depths({-1e308, 1e308}, {1.0}, "storm 'c'"); })
+                .find("storm 'c', field 'time[2]' = 1e+308: the block from -1e+308 s is too long"),
+            std::string::npos);
+  EXPECT_NE(what([] { (void)Hyetograph::from_depths({0.0, 1.0, 2.0}, {1e308, 1e308}, "storm 'd'"); })
+                .find("storm 'd', field 'depth[2]' = 1e+308 m (total inf m)"),
+            std::string::npos);
+}
+
 }  // namespace
 }  // namespace freshet::hydrology

@@ -108,8 +108,12 @@ struct TableOptions {
 // maximum and counted in monotone_corrections(). Copies share the table (immutable).
 class TabulatedFlux {
  public:
+  // Throws InputError naming `element` (field "section") when the section's table cannot be
+  // built from finite values: every node's area and discharge finite and > 0, areas strictly
+  // increasing, slopes finite.
   static TabulatedFlux from_section(const CrossSection& section, double bed_slope,
-                                    const TableOptions& options = {});
+                                    const TableOptions& options = {},
+                                    const std::string& element = "cross-section");
 
   [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
   [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;

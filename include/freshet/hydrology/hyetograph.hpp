@@ -51,6 +51,7 @@ class Hyetograph {
   // Sum of the block depths (m).
   [[nodiscard]] double total_depth_m() const { return cumulative_m_.back(); }
   // Depth fallen from the start up to t_s (0 before the start, the total after the end).
+  // A NaN time raises NumericalError (this and intensity_at_m_s).
   [[nodiscard]] double cumulative_depth_m(double t_s) const;
   // Depth fallen over [t0_s, t1_s] (t0 <= t1), exact.
   [[nodiscard]] double depth_between_m(double t0_s, double t1_s) const;
@@ -62,9 +63,12 @@ class Hyetograph {
 
  private:
   Hyetograph(std::vector<double> times_s, std::vector<double> depth_m,
-             std::vector<double> intensity_m_s);
+             std::vector<double> intensity_m_s, const std::string& what);
+  void check_derived() const;         // InputError unless depths and intensities are finite
+  void require_time(double t_s) const;  // NumericalError for a NaN time
   [[nodiscard]] std::size_t block_index(double t_s) const;
 
+  std::string what_;                   // names the storm in messages
   std::vector<double> times_s_;        // n + 1 block boundaries
   std::vector<double> depth_m_;        // n block depths
   std::vector<double> intensity_m_s_;  // n block intensities

@@ -50,6 +50,25 @@ std::vector<double> monotone_slopes(const std::vector<double>& h, const std::vec
   return d;
 }
 
+// Finite samples can still give a table whose lookups are not finite: stages -1e308 and 1e308
+// (their difference overflows), storages 0 and 1e308 a micrometre apart (an infinite surface
+// area). The built table is checked at every node and interval midpoint, in both directions.
+void validate_lookups(const StageStorage& t, const std::vector<double>& h, ProblemList& p) {
+  for (std::size_t k = 0; k < h.size(); ++k) {
+    const std::string at = "[" + std::to_string(k + 1) + "]";
+    const double mid = k + 1 < h.size() ? h[k] + 0.5 * (h[k + 1] - h[k]) : h[k] + 1.0;
+    for (double x : {h[k], mid}) {
+      const double s = t.storage_m3(x), a = t.surface_area_m2(x);
+      if (std::isfinite(s) && std::isfinite(a) && a >= 0.0 && std::isfinite(t.stage_m(s))) continue;
+      p.add("stage_m" + at, "= " + format_value(h[k]) + ": the table gives storage " +
+                                format_value(s) + " m3 and surface area " + format_value(a) +
+                                " m2 near this stage; stages and storages must be within the "
+                                "physical range so that both stay finite");
+      return;
+    }
+  }
+}
+
 }  // namespace
 
 StageStorage StageStorage::from_table(std::vector<double> stage_m, std::vector<double> storage_m3,
@@ -68,8 +87,11 @@ StageStorage StageStorage::from_table(std::vector<double> stage_m, std::vector<d
     for (std::size_t k = 0; k + 1 < stage_m.size(); ++k)
       out.slope_m2_[k] = (storage_m3[k + 1] - storage_m3[k]) / (stage_m[k + 1] - stage_m[k]);
   }
+  const std::vector<double> stages = stage_m;
   out.stage_m_ = std::move(stage_m);
   out.storage_m3_ = std::move(storage_m3);
+  validate_lookups(out, stages, problems);
+  problems.throw_if_any();
   return out;
 }
 

@@ -1,6 +1,8 @@
 #include "freshet/network/structures/stage_storage.hpp"
 
 #include <cmath>
+#include <string>
+#include <vector>
 #include <gtest/gtest.h>
 
 #include "freshet/core/error.hpp"
@@ -68,6 +70,30 @@ TEST(StageStorage, ReportsEveryTableProblemAtOnce) {
   }
   EXPECT_THROW((void)StageStorage::prismatic(0.0, 0.0, 0.0, "b"), InputError);
   EXPECT_THROW((void)StageStorage::prismatic(0.0, -1.0, 0.0, "b"), InputError);
+}
+
+// Robustness (no source needed): finite samples whose table would not be. Stages -1e308 and
+// 1e308 differ by more than a double holds; storages 0 and 1e308 a micrometre apart give an
+// infinite surface area. Both were once accepted and their lookups returned inf or NaN.
+TEST(StageStorage, RefusesTablesWhoseLookupsAreNotFinite) {
+  const auto what = [](std::vector<double> h, std::vector<double> v, StorageInterpolation i) {
+    try {
+      (void)StageStorage::from_table(std::move(h), std::move(v), i, "basin 'mere'");
+    } catch (const InputError& e) {
+      return std::string(e.what());
+    }
+    return std::string("accepted");
+  };
+  for (auto interp : {StorageInterpolation::linear, StorageInterpolation::monotone_cubic}) {
+    EXPECT_NE(what({-1e308, 1e308}, {0.0, 1.0}, interp)
+                  .find("basin 'mere', field 'stage_m[1]' = -1e+308: the table gives storage"),
+              std::string::npos);
+    EXPECT_NE(what({0.0, 1e-6}, {0.0, 1e308}, interp).find("field 'stage_m[1]' = 0: the table"),
+              std::string::npos);
+    // The same shapes within range are accepted.
+    EXPECT_EQ(what({-1e3, 1e3}, {0.0, 1.0}, interp), "accepted");
+    EXPECT_EQ(what({0.0, 1e-6}, {0.0, 1e3}, interp), "accepted");
+  }
 }
 
 }  // namespace

@@ -27,7 +27,8 @@ class StageStorage {
  public:
   // Throws InputError naming `element` (all problems at once) unless: at least two samples,
   // sizes equal, every value finite, stages strictly increasing, storages non-decreasing,
-  // first storage 0 (the empty basin), storage increasing over the last interval.
+  // first storage 0 (the empty basin), storage increasing over the last interval, and
+  // storage, surface area and the inverse stage finite at every node and interval midpoint.
   static StageStorage from_table(std::vector<double> stage_m, std::vector<double> storage_m3,
                                  StorageInterpolation interpolation, const std::string& element);
 
