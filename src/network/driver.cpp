@@ -1,7 +1,9 @@
 #include "freshet/network/driver.hpp"
 
 #include <chrono>
+#include <algorithm>
 #include <cmath>
+#include <limits>
 
 namespace freshet::network {
 
@@ -19,20 +21,77 @@ void ClockOptions::validate() const {
   }
   p.require_positive("output_interval", output_interval_s);
   p.require_positive("coupling_step", max_coupling_step_s);
-  if (p.empty()) {
-    const double n = (end_s - start_s) / output_interval_s;
-    if (std::abs(n - std::round(n)) > 1e-9 * std::max(1.0, n)) {
-      p.add("output_interval", "= " + format_value(output_interval_s) +
-                                   " s: must divide the run length (" +
-                                   format_value(end_s - start_s) + " s) into whole steps");
-    }
-  }
+  if (p.empty()) check_counts(p);
   p.throw_if_any();
 }
 
-double ClockOptions::coupling_step_s() const {
-  const double parts = std::ceil(output_interval_s / max_coupling_step_s - 1e-12);
-  return output_interval_s / std::max(1.0, parts);
+// The counts are judged as doubles, before any conversion to an integer: a count that is not
+// finite or does not fit would otherwise wrap (a 1e-300 s coupling step once gave a run of
+// zero steps that wrote its initial state as the result).
+void ClockOptions::check_counts(ProblemList& p) const {
+  const double length_s = end_s - start_s;
+  const double n = length_s / output_interval_s;
+  if (!(n >= 1.0 - 1e-9)) {
+    p.add("output_interval", "= " + format_value(output_interval_s) +
+                                 " s: longer than the run (" + format_value(length_s) + " s)");
+  } else if (!(output_count() <= kMaxCouplingSteps)) {
+    p.add("output_interval", "= " + format_value(output_interval_s) + " s: gives " +
+                                 format_value(n) + " output times, more than can be counted "
+                                 "exactly (2^53)");
+  } else if (std::abs(n - std::round(n)) > 1e-9 * std::max(1.0, n)) {
+    p.add("output_interval", "= " + format_value(output_interval_s) +
+                                 " s: must divide the run length (" + format_value(length_s) +
+                                 " s) into whole steps");
+  } else if (!(coupling_step_count() <= kMaxCouplingSteps)) {
+    p.add("coupling_step", "= " + format_value(max_coupling_step_s) + " s: gives " +
+                               format_value(coupling_step_count()) +
+                               " coupling steps, more than can be counted exactly (2^53); "
+                               "use a longer step");
+  }
+}
+
+double ClockOptions::output_count() const {
+  return std::round((end_s - start_s) / output_interval_s);
+}
+
+double ClockOptions::steps_per_output() const {
+  return std::max(1.0, std::ceil(output_interval_s / max_coupling_step_s - 1e-12));
+}
+
+double ClockOptions::coupling_step_s() const { return output_interval_s / steps_per_output(); }
+
+double relative_imbalance(const VolumeLedger& l, const BalanceTolerance& tolerance) {
+  const double scale = std::max({l.supplied_m3(), l.outflow_m3 + l.loss_m3, tolerance.floor_m3});
+  const double error = std::abs(l.balance_error_m3());
+  if (!std::isfinite(error) || !std::isfinite(scale)) return std::numeric_limits<double>::quiet_NaN();
+  return error / scale;
+}
+
+void require_sound_run(const RunSummary& run, const BalanceTolerance& tolerance) {
+  if (run.coupling_steps <= 0) {
+    throw NumericalError("the run took no coupling step, so its results would be the initial "
+                         "state; check coupling_step_s and output_interval_min");
+  }
+  for (const ElementBalance& b : run.balances) {
+    const double rel = relative_imbalance(b.ledger, tolerance);
+    if (rel <= tolerance.relative) continue;
+    const VolumeLedger& l = b.ledger;
+    throw NumericalError(
+        "element '" + b.id + "': volume balance error " + format_value(l.balance_error_m3()) +
+        " m3 (" + format_value(rel) + " of the water that passed; the limit is " +
+        format_value(tolerance.relative) + "): supplied " + format_value(l.supplied_m3()) +
+        " m3, out " + format_value(l.outflow_m3) + " m3, lost " + format_value(l.loss_m3) +
+        " m3, stored " + format_value(l.initial_storage_m3) + " -> " +
+        format_value(l.storage_m3) + " m3; the results are not written (check the element's "
+        "dimensions and cells for values far outside the physical range)");
+  }
+  if (!(run.network_relative_imbalance <= tolerance.relative)) {
+    throw NumericalError("the network's volume balance error is " +
+                         format_value(run.network_relative_imbalance) +
+                         " of its water (the limit is " + format_value(tolerance.relative) +
+                         "): water sent downstream does not match what was received; the "
+                         "results are not written");
+  }
 }
 
 namespace {
@@ -73,16 +132,48 @@ void emit(const Model& model, double t_s, std::vector<StationSample>& samples, R
   sink.record(t_s, samples);
 }
 
+// The whole network's balance: every element's error plus every mismatch between what an
+// element's upstream elements sent and what it received, against the water its sources made
+// or that left it (as relative_imbalance() does for one element).
+double network_imbalance(const Model& model, const std::vector<ElementBalance>& balances,
+                         const BalanceTolerance& tolerance) {
+  double error_m3 = 0.0, mismatch_m3 = 0.0;
+  VolumeLedger whole;
+  for (std::size_t i = 0; i < balances.size(); ++i) {
+    const VolumeLedger& l = balances[i].ledger;
+    error_m3 += l.balance_error_m3();
+    whole.loss_m3 += l.loss_m3;
+    if (model.topology.upstream[i].empty()) {
+      whole.inflow_m3 += l.supplied_m3();
+    } else {
+      double sent_m3 = 0.0;
+      for (std::size_t u : model.topology.upstream[i]) sent_m3 += balances[u].ledger.outflow_m3;
+      mismatch_m3 += std::abs(sent_m3 - (l.inflow_m3 + l.lateral_m3));
+    }
+    if (model.links[i].kind == ElementKind::outlet) whole.outflow_m3 += l.outflow_m3;
+  }
+  const double scale =
+      std::max({whole.supplied_m3(), whole.outflow_m3 + whole.loss_m3, tolerance.floor_m3});
+  const double total = std::abs(error_m3) + mismatch_m3;
+  if (!std::isfinite(total) || !std::isfinite(scale)) return std::numeric_limits<double>::quiet_NaN();
+  return total / scale;
+}
+
 RunSummary summarise(const Model& model) {
   RunSummary r;
   for (const auto& e : model.elements) {
     const VolumeLedger l = e->ledger();
     r.balances.push_back({e->id(), l});
-    const double scale = std::max({l.supplied_m3(), l.outflow_m3, 1e-300});
-    r.worst_relative_imbalance = std::max(r.worst_relative_imbalance,
-                                          std::abs(l.balance_error_m3()) / scale);
+    // A NaN imbalance (volumes not finite) counts as infinite, so it cannot hide.
+    const double rel = relative_imbalance(l);
+    const double worst = std::isnan(rel) ? std::numeric_limits<double>::infinity() : rel;
+    if (worst > r.worst_relative_imbalance) {
+      r.worst_relative_imbalance = worst;
+      r.worst_element = e->id();
+    }
     for (auto& note : e->notes()) r.notes.emplace_back(e->id(), std::move(note));
   }
+  r.network_relative_imbalance = network_imbalance(model, r.balances, BalanceTolerance{});
   return r;
 }
 
@@ -95,11 +186,10 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
   for (auto& e : model.elements) e->reset(clock.start_s);
   prime(model);
 
+  // validate() has bounded both counts by kMaxCouplingSteps, so the conversions are exact.
   const double dt_s = clock.coupling_step_s();
-  const auto steps_per_output =
-      static_cast<long long>(std::llround(clock.output_interval_s / dt_s));
-  const auto outputs = static_cast<long long>(
-      std::llround((clock.end_s - clock.start_s) / clock.output_interval_s));
+  const auto steps_per_output = static_cast<long long>(clock.steps_per_output());
+  const auto outputs = static_cast<long long>(clock.output_count());
   std::vector<StepOutflow> outflow(model.elements.size());
   std::vector<StationSample> samples(model.elements.size());
 
@@ -129,6 +219,7 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
   r.coupling_steps = steps;
   r.wall_time_s =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
+  require_sound_run(r);
   return r;
 }
 

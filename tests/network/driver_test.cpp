@@ -1,6 +1,8 @@
 #include "freshet/network/driver.hpp"
 
 #include <algorithm>
+#include <cmath>
+#include <limits>
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
@@ -143,6 +145,147 @@ TEST(Simulate, OutputIntervalEqualToTheStepMeansNoObserveCalls) {
   EXPECT_EQ(r.coupling_steps, 12);
   EXPECT_EQ(sink.record_times_s.size(), 13u);
   EXPECT_TRUE(sink.observe_times_s.empty());
+}
+
+
+// ---- refusals: step counts and volume balance (robustness, no source needed) ----------------
+
+// A junction that passes on only `kept` of its inflow: it loses water without saying so, as
+// an element whose volumes overflow would.
+class LeakyJunction final : public Element {
+ public:
+  LeakyJunction(std::string id, double kept) : Element(std::move(id), ElementKind::junction), kept_(kept) {}
+  void reset(double) override { ledger_ = {}; }
+  StepOutflow advance(const StepInflow& in) override {
+    ledger_.inflow_m3 += in.inflow_mean_m3s * in.dt_s();
+    const StepOutflow out{kept_ * in.inflow_mean_m3s, kept_ * in.inflow_end_m3s};
+    ledger_.outflow_m3 += out.mean_m3s * in.dt_s();
+    return out;
+  }
+  [[nodiscard]] StationSample sample() const override { return {}; }
+  [[nodiscard]] VolumeLedger ledger() const override { return ledger_; }
+
+ private:
+  double kept_;
+  VolumeLedger ledger_;
+};
+
+Model spring_through(std::unique_ptr<Element> middle) {
+  Model m;
+  m.links = {{"spring", ElementKind::inflow, "meet", {}},
+             {"meet", ElementKind::junction, "out", {}},
+             {"out", ElementKind::outlet, "", {}}};
+  m.elements.push_back(std::make_unique<InflowHydrograph>(
+      "spring", PiecewiseLinearSeries({0.0, 1000.0, 3000.0}, {0.0, 6.0, 0.0})));
+  m.elements.push_back(std::move(middle));
+  m.elements.push_back(std::make_unique<PassThrough>("out", ElementKind::outlet));
+  m.finalize();
+  return m;
+}
+
+// A coupling step of 1e-300 s once made llround(300 / 1e-300) overflow: the run took zero
+// steps and returned the initial state as its result. It is now refused before the run.
+TEST(Simulate, RefusesACouplingStepWhoseCountOverflows) {
+  Model m = two_inflows_to_a_confluence();
+  RecordingSink sink;
+  const ClockOptions clock{0.0, 3600.0, 300.0, 1e-300};
+  try {
+    (void)simulate(m, clock, sink);
+    FAIL() << "a 1e-300 s coupling step was accepted";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), ::testing::HasSubstr("field 'coupling_step' = 1e-300 s: gives 3.6"));
+    EXPECT_THAT(e.what(), ::testing::HasSubstr("e+303 coupling steps, more than can be counted"));
+  }
+  EXPECT_TRUE(sink.times_s.empty());
+}
+
+TEST(ClockOptions, RefusesCountsThatAreZeroOrNotFinite) {
+  const auto problem = [](const ClockOptions& c) -> std::string {
+    try {
+      c.validate();
+    } catch (const InputError& e) {
+      return e.what();
+    }
+    return "accepted";
+  };
+  // 3.6e-9 s of run with 60 s outputs: 6e-11 output times, which once rounded to zero.
+  EXPECT_THAT(problem({0.0, 3.6e-9, 60.0, 60.0}),
+              ::testing::HasSubstr("field 'output_interval' = 60 s: longer than the run"));
+  // A denormal step: 300 / 1e-320 is infinite.
+  EXPECT_THAT(problem({0.0, 3600.0, 300.0, 1e-320}),
+              ::testing::HasSubstr("field 'coupling_step' = 1e-320 s: gives inf coupling steps"));
+  // An output interval of 1e-300 s: 3.6e303 output times.
+  EXPECT_THAT(problem({0.0, 3600.0, 1e-300, 1e-300}),
+              ::testing::HasSubstr("field 'output_interval' = 1e-300 s: gives 3.6"));
+  // At the limit, 2^53 steps, the counts are still accepted; just above, refused.
+  EXPECT_EQ(problem({0.0, ClockOptions::kMaxCouplingSteps, 1.0, 1.0}), "accepted");
+  EXPECT_THAT(problem({0.0, ClockOptions::kMaxCouplingSteps, 2.0, 0.5}),
+              ::testing::HasSubstr("coupling steps, more than can be counted"));
+}
+
+TEST(Simulate, RefusesARunThatLosesWaterNamingTheElement) {
+  Model m = spring_through(std::make_unique<LeakyJunction>("meet", 0.999));
+  RecordingSink sink;
+  try {
+    (void)simulate(m, ClockOptions{0.0, 3600.0, 300.0, 60.0}, sink);
+    FAIL() << "a junction losing 0.1 % of its water was accepted";
+  } catch (const NumericalError& e) {
+    // Inflow 0.5 x 3000 s x 6 m3/s = 9000 m3 (triangle); 0.1 % of it, 9 m3, is lost.
+    EXPECT_THAT(e.what(), ::testing::MatchesRegex(
+                              "element 'meet': volume balance error (9|9\\.0000[0-9]*|8\\.9999[0-9]*) m3 "
+                              "\\(0\\.00(1|10000[0-9]*|09999[0-9]*) of the water that passed; the limit "
+                              "is 1e-09\\).*"));
+  }
+}
+
+TEST(Simulate, AcceptsAnImbalanceWithinTheTolerance) {
+  // 1e-12 of 9000 m3 is lost: far below 1e-9, the round-off the schemes are allowed.
+  Model m = spring_through(std::make_unique<LeakyJunction>("meet", 1.0 - 1e-12));
+  RecordingSink sink;
+  const RunSummary r = simulate(m, ClockOptions{0.0, 3600.0, 300.0, 60.0}, sink);
+  EXPECT_GT(r.worst_relative_imbalance, 1e-13);
+  EXPECT_LT(r.worst_relative_imbalance, 1e-11);
+  EXPECT_EQ(r.worst_element, "meet");
+}
+
+TEST(RequireSoundRun, RefusesNoStepsNaNVolumesAndTransferMismatch) {
+  RunSummary r;
+  r.coupling_steps = 0;
+  EXPECT_THROW(require_sound_run(r), NumericalError);
+  r.coupling_steps = 10;
+  EXPECT_NO_THROW(require_sound_run(r));
+  VolumeLedger overflowed;
+  overflowed.inflow_m3 = std::numeric_limits<double>::infinity();
+  overflowed.outflow_m3 = std::numeric_limits<double>::infinity();
+  r.balances.push_back({"huge", overflowed});
+  EXPECT_TRUE(std::isnan(relative_imbalance(overflowed)));
+  try {
+    require_sound_run(r);
+    FAIL();
+  } catch (const NumericalError& e) {
+    EXPECT_THAT(e.what(), ::testing::HasSubstr("element 'huge': volume balance error nan"));
+  }
+  r.balances.clear();
+  r.network_relative_imbalance = 2e-9;
+  EXPECT_THROW(require_sound_run(r), NumericalError);
+}
+
+TEST(RelativeImbalance, IsJudgedAgainstTheWaterThatPassedOrTheFloor) {
+  VolumeLedger l;
+  l.inflow_m3 = 100.0;
+  l.outflow_m3 = 60.0;
+  l.storage_m3 = 40.0 - 1e-6;  // 1e-6 m3 missing
+  EXPECT_NEAR(relative_imbalance(l), 1e-8, 1e-15);
+  // A huge store does not hide an error in the water that passed (a reach of 1e308 m once
+  // lost 68 % of its water behind 1e307 m3 of storage).
+  l.initial_storage_m3 = 1e300;
+  l.storage_m3 = 1e300;
+  EXPECT_NEAR(relative_imbalance(l), 0.4, 1e-15);
+  // A tiny element: 1e-10 m3 of 1e-6 m3 is judged against the 1 m3 floor.
+  VolumeLedger tiny;
+  tiny.inflow_m3 = 1e-6;
+  tiny.outflow_m3 = 1e-6 - 1e-10;
+  EXPECT_NEAR(relative_imbalance(tiny), 1e-10, 1e-15);
 }
 
 }  // namespace

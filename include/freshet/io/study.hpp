@@ -27,6 +27,7 @@
 #include "freshet/core/units.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/network/run_budget.hpp"
 #include "freshet/routing/routing_options.hpp"
 
 namespace freshet::io {
@@ -41,6 +42,13 @@ struct StudySettings {
   double default_cell_length_m = 25.0;      // reaches without cells / cell_length
   routing::RoutingOptions channel_routing;  // reaches
   routing::RoutingOptions plane_routing;    // overland planes
+  network::RunBudget budget;                // max_cell_steps, max_memory_mb
+
+  // The clock of every run: from time 0 to duration_s, samples at the output interval,
+  // elements coupled at the step the driver takes.
+  [[nodiscard]] network::ClockOptions clock() const {
+    return {0.0, duration_s, output_interval_s, coupling_step_s};
+  }
 };
 
 struct StormDefinition {

@@ -12,6 +12,7 @@
 #include <string>
 #include <vector>
 
+#include "freshet/core/error.hpp"
 #include "freshet/network/element.hpp"
 #include "freshet/network/topology.hpp"
 
@@ -33,12 +34,25 @@ struct ClockOptions {
   double output_interval_s = 300;  // station samples are taken at this interval
   double max_coupling_step_s = 60; // elements exchange flows at least this often
 
-  // Throws InputError (element "run settings") unless start < end, both intervals > 0 and
-  // the output interval divides the run length into whole steps (to 1e-9 relative).
+  // Throws InputError (element "run settings") unless start < end, both intervals > 0, the
+  // output interval divides the run length into at least one whole step (to 1e-9 relative),
+  // and the run's coupling steps can be counted exactly (at most kMaxCouplingSteps in all).
   void validate() const;
   // The coupling step actually used: the output interval divided into equal parts no
   // longer than max_coupling_step_s.
   [[nodiscard]] double coupling_step_s() const;
+  // The counts the driver loops over, as doubles so that they can be judged before they are
+  // converted: output intervals in the run, coupling steps per output interval, and their
+  // product. Infinite or NaN for settings that validate() refuses.
+  [[nodiscard]] double output_count() const;
+  [[nodiscard]] double steps_per_output() const;
+  [[nodiscard]] double coupling_step_count() const { return output_count() * steps_per_output(); }
+
+  // 2^53: every count up to here, and every time built from it, is exact in a double.
+  static constexpr double kMaxCouplingSteps = 9007199254740992.0;
+
+ private:
+  void check_counts(ProblemList& problems) const;
 };
 
 // Receives one sample per station (in links order) at the start and at every output time
@@ -57,13 +71,43 @@ struct ElementBalance {
   VolumeLedger ledger;
 };
 
+// The volume balance every run must meet. An element's relative imbalance is
+//   |inflow + lateral + rain - loss - outflow - (storage - initial storage)| / V,
+//   V = max(supplied, outflow + loss, floor_m3):
+// the error against the water that passed through the element, and against the floor when
+// that is tiny (1 m3 allows an absolute error of 1e-9 m3). Storage is deliberately not part of
+// V: an element holding so much water that a change in it cannot be resolved to 1e-9 of what
+// passed (a reach of 1e308 m) fails rather than hiding its error behind its storage. The whole
+// network is judged the same way, with every element's error and every mismatch between what
+// an element sent downstream and what its downstream element received, against the water of
+// its sources. NaN or infinite volumes always fail. Common practice, no source: the schemes
+// close their balances to round-off (about 1e-15 relative for a storm, a few 1e-12 over a
+// 30-day run, docs/cautions.md), so 1e-9 is far above round-off and far below any error that
+// would matter in a result.
+struct BalanceTolerance {
+  double relative = 1e-9;
+  double floor_m3 = 1.0;
+};
+
+// An element's relative imbalance as defined above (NaN when any volume is not finite).
+[[nodiscard]] double relative_imbalance(const VolumeLedger& ledger,
+                                        const BalanceTolerance& tolerance = {});
+
 struct RunSummary {
   long long coupling_steps = 0;
   double wall_time_s = 0.0;
   std::vector<ElementBalance> balances;  // per element, links order
   std::vector<std::pair<std::string, ElementNote>> notes;
-  double worst_relative_imbalance = 0.0; // max over elements of |imbalance| / supplied volume
+  double worst_relative_imbalance = 0.0;    // max over elements of relative_imbalance()
+  std::string worst_element;                // the element with that imbalance
+  double network_relative_imbalance = 0.0;  // the whole network, as BalanceTolerance says
 };
+
+// Throws NumericalError unless the run took at least one coupling step and every element and
+// the whole network meet `tolerance`; the message names the worst element, its volumes and
+// the tolerance. simulate() calls it before returning, so no caller can write the results of
+// a run that lost or made water.
+void require_sound_run(const RunSummary& run, const BalanceTolerance& tolerance = {});
 
 // Progress callback: fraction of simulated time done, in [0, 1].
 using ProgressFn = std::function<void(double)>;

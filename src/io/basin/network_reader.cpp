@@ -11,6 +11,7 @@
 #include "freshet/hydrology/initial_continuing_loss.hpp"
 #include "freshet/io/csv_series.hpp"
 #include "freshet/network/elements.hpp"
+#include "freshet/network/run_budget.hpp"
 #include "freshet/network/simple_elements.hpp"
 #include "freshet/routing/make_reach.hpp"
 #include "input_ranges.hpp"
@@ -83,8 +84,59 @@ network::Model NetworkReader::build() {
     problems_.insert(problems_.end(), e.problems().begin(), e.problems().end());
     complete_ = false;
   }
+  if (complete_) check_work();
   if (!complete_) return {};
   return std::move(model_);
+}
+
+constexpr double kBytesPerMegabyte = 1024.0 * 1024.0;
+
+// Counts an element's cells towards the run's memory before anything is allocated; false,
+// with a problem on 'cells', when the network would no longer fit the budget.
+// Reported once: the elements after the first that does not fit are not built either.
+bool NetworkReader::admit_cells(Reader& r, int cells) {
+  if (over_memory_budget_) return false;
+  size_.cells += std::max(cells, 0);
+  const network::RunEstimate e = network::estimate_run(size_, settings_.clock());
+  if (network::exceeds_memory(e, settings_.budget)) {
+    over_memory_budget_ = true;
+    r.report("cells", "= " + std::to_string(cells) + ": the network would hold at least " +
+                          format_value(size_.cells) + " cells, an estimated " +
+                          format_fixed(e.memory_bytes / kBytesPerMegabyte, 0) + " MB (" +
+                          format_value(network::kBytesPerCell) + " B per cell), more than the "
+                          "memory budget of " +
+                          format_fixed(settings_.budget.max_memory_bytes / kBytesPerMegabyte, 0) +
+                          " MB; use fewer cells (or a longer cell_length), or raise "
+                          "max_memory_mb in [study] to lift the limit");
+  } else {
+    return true;
+  }
+  complete_ = false;
+  return false;
+}
+
+// The run's work, once every element is counted: refused beyond the budget, before a run is
+// started that could not finish.
+void NetworkReader::check_work() {
+  try {
+    settings_.clock().validate();
+  } catch (const InputError&) {
+    return;  // the settings' own problems are reported where they are read
+  }
+  size_.elements = static_cast<double>(model_.links.size());
+  const network::RunEstimate e = network::estimate_run(size_, settings_.clock());
+  if (!network::exceeds_work(e, settings_.budget)) return;
+  const toml::node* study = root_.get("study");
+  const auto where = study ? study->source().begin : toml::source_position{};
+  problems_.push_back(
+      {file_, static_cast<int>(where.line), static_cast<int>(where.column), "study", "",
+       "the run would take at least " + format_value(e.cell_steps) + " cell updates (" +
+           format_value(size_.cells) + " cells and " + format_value(size_.elements) +
+           " elements x " + format_value(e.coupling_steps) + " coupling steps), more than the "
+           "work budget of " + format_value(settings_.budget.max_cell_steps) +
+           "; shorten duration_h, lengthen coupling_step_s, use fewer cells, or raise "
+           "max_cell_steps in [study] to lift the limit"});
+  complete_ = false;
 }
 
 void NetworkReader::read_array(std::string_view key, ElementKind kind) {
@@ -336,6 +388,7 @@ std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
   spec.drain.target = id;
   const toml::array* planes = r.optional_array("plane");
   if (!planes || planes->empty()) r.report_here("needs at least one [[subcatchment.plane]]");
+  bool fits = true;  // within the memory budget
   int k = 0;
   for (const toml::node& node : items_of(planes)) {
     ++k;
@@ -349,6 +402,7 @@ std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
     plane.manning_n = ranged(p, units_, "manning_n", Q::plane_manning_n);
     plane.cell_count =
         static_cast<int>(optional_ranged_integer(p, "cells", Q::plane_cells).value_or(100));
+    fits = admit_cells(p, plane.cell_count) && fits;
     p.finish();
     spec.planes.push_back(plane);
   }
@@ -360,7 +414,7 @@ std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
   } else {
     r.report_here("is missing required table 'loss' (use method = \"none\" for no losses)");
   }
-  if (!losses || !clean()) return nullptr;
+  if (!losses || !clean() || !fits) return nullptr;
   check_plane_shape(r, spec, units_);
   auto model = std::make_unique<hydrology::Subcatchment>(spec, storm_, std::move(losses),
                                                          settings_.plane_routing);
@@ -514,6 +568,7 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
     }
     cell_count = std::max(4, static_cast<int>(count));
   }
+  if (!admit_cells(r, cell_count)) return nullptr;
   geometry::FlowSection section = geometry::make_flow_section(*spec, slope, {}, r.element());
   auto reach = routing::make_reach({id, length_m, cell_count}, section.flux, options);
   std::optional<double> invert_m;

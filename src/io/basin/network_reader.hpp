@@ -18,6 +18,7 @@
 #include "freshet/hydrology/loss_model.hpp"
 #include "freshet/io/study.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/network/run_budget.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
 #include "input_units.hpp"
 
@@ -73,6 +74,9 @@ class NetworkReader {
   std::unique_ptr<network::Element> read_culvert(Reader& r, const std::string& id);
   std::unique_ptr<network::Element> read_detention(Reader& r, const std::string& id);
 
+  bool admit_cells(Reader& r, int cells);
+  void check_work();
+
   // True while the element being read has no problem: library objects are built only from
   // values that passed the reader's checks, so one mistake is reported once.
   [[nodiscard]] bool clean() const { return problems_.size() == element_start_; }
@@ -91,6 +95,8 @@ class NetworkReader {
   network::Model model_;
   std::vector<StationDescription> stations_;
   bool complete_ = true;
+  network::RunSize size_;  // counted as elements are read, for the run budget
+  bool over_memory_budget_ = false;
   std::size_t element_start_ = 0;
 };
 

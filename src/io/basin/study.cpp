@@ -143,12 +143,15 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
       optional_ranged(r, u, "implicit_courant", Q::implicit_courant).value_or(2.0);
   settings.channel_routing.implicit_courant = implicit_courant;
   settings.plane_routing.implicit_courant = implicit_courant;
+  // The run budget (network/run_budget.hpp): refused runs name these keys to lift the limit.
+  if (auto w = r.optional_positive("max_cell_steps")) settings.budget.max_cell_steps = *w;
+  if (auto mb = r.optional_positive("max_memory_mb")) {
+    settings.budget.max_memory_bytes = *mb * 1024.0 * 1024.0;
+  }
   r.finish();
   if (problems.size() != before) return;  // the clock's own checks would repeat them
   try {
-    network::ClockOptions clock{0.0, settings.duration_s, settings.output_interval_s,
-                                settings.coupling_step_s};
-    clock.validate();
+    settings.clock().validate();
   } catch (const InputError& e) {
     detail::relocate(e, r, problems);
   }
@@ -203,8 +206,9 @@ std::optional<Problem> check_storm_within_run(const hydrology::Hyetograph& rain,
                   " of its " + depth(rain.total_depth_m()) + " would fall before the run "
                   "begins; storms start at time 0, so shift the series");
   }
+  if (!(settings.duration_s > 0.0)) return std::nullopt;  // missing or bad: reported already
   const double lost_m = rain.total_depth_m() - rain.cumulative_depth_m(settings.duration_s);
-  if (!(settings.duration_s > 0.0 && lost_m > 0.0)) return std::nullopt;
+  if (!(lost_m > 0.0)) return std::nullopt;
   const auto& where = storm_table.source().begin;
   return Problem{r.file(), static_cast<int>(where.line), static_cast<int>(where.column),
                  r.element(), "",
