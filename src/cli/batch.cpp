@@ -164,7 +164,7 @@ std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
 
 std::string format_notes(const io::RunOutcome& run) {
   std::ostringstream out;
-  for (const auto& [id, note] : run.numerics.notes) out << "  " << id << ": " << note.text << "\n";
+  for (const auto& [id, note] : run.notes) out << "  " << id << ": " << note << "\n";
   return out.str();
 }
 

@@ -12,7 +12,7 @@ namespace {
 int check(const std::string& basin) {
   const io::Study study = io::Study::load(basin);  // InputError lists every problem
   std::map<std::string, int> counts;
-  for (const auto& s : study.stations()) ++counts[s.kind];
+  for (const auto& s : study.stations()) ++counts[std::string(network::to_string(s.kind))];
   std::cout << basin << ": no problems found.\n"
             << "  title: " << study.settings().title << "\n"
             << "  units: " << units::to_string(study.settings().units) << "\n  elements:";

@@ -37,7 +37,7 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
       << "\n";
   const io::RunOutcome& base = *runs.front();
   for (std::size_t i = 0; i < stations.size(); ++i) {
-    if (!all_points && (stations[i].kind == "subcatchment" || stations[i].kind == "inflow")) {
+    if (!all_points && network::is_source(stations[i].kind)) {
       continue;
     }
     for (std::size_t k = 0; k < runs.size(); ++k) {

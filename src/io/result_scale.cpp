@@ -6,7 +6,8 @@
 #include <vector>
 
 #include "freshet/core/error.hpp"
-#include "freshet/network/elements.hpp"
+#include "freshet/network/element.hpp"
+#include "reported_as.hpp"
 
 namespace freshet::io::detail {
 
@@ -21,13 +22,13 @@ struct Upstream {
   std::vector<bool> other_inflow;  // an inflow hydrograph lies upstream
 };
 
-Upstream upstream_of(const network::Model& model) {
+Upstream upstream_of(const network::Model& model,
+                     const std::vector<network::ElementReport>& reports) {
   const std::size_t n = model.elements.size();
   Upstream up{std::vector<double>(n, 0.0), std::vector<bool>(n, false)};
   for (std::size_t i : model.topology.order) {  // upstream first
-    if (const auto* sub =
-            dynamic_cast<const network::SubcatchmentElement*>(model.elements[i].get())) {
-      up.area_m2[i] += sub->model().spec().area_m2;
+    if (is_subcatchment(model.links[i].kind)) {
+      up.area_m2[i] += reports[i].subcatchment().area_m2;
     }
     if (model.links[i].kind == network::ElementKind::inflow) up.other_inflow[i] = true;
     const std::ptrdiff_t d = model.topology.downstream[i];
@@ -49,8 +50,10 @@ double record_flood_envelope_m3s_per_km2(double area_km2) {
   return q_cfs * kM3sPerCfs / area_km2;
 }
 
-void add_result_scale_warnings(const network::Model& model, RunSummary& summary) {
-  const Upstream up = upstream_of(model);
+void add_result_scale_warnings(const network::Model& model,
+                               const std::vector<network::ElementReport>& reports,
+                               RunSummary& summary) {
+  const Upstream up = upstream_of(model, reports);
   for (std::size_t i = 0; i < model.elements.size() && i < summary.stations.size(); ++i) {
     const double area_m2 = up.area_m2[i];
     const double peak_m3s = summary.stations[i].peak_discharge_m3s;

@@ -18,6 +18,9 @@ double record_flood_envelope_m3s_per_km2(double area_km2);
 // Every station fed only by subcatchments (no inflow hydrograph upstream, whose area is not
 // known) and draining at least 1 mi2 warns when its peak per unit area exceeds the envelope.
 // `summary.stations` is in model order.
-void add_result_scale_warnings(const network::Model& model, RunSummary& summary);
+// `reports` are the elements' reports (Element::report()), in model order.
+void add_result_scale_warnings(const network::Model& model,
+                               const std::vector<network::ElementReport>& reports,
+                               RunSummary& summary);
 
 }  // namespace freshet::io::detail

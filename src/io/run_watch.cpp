@@ -3,7 +3,8 @@
 #include <cmath>
 #include <limits>
 
-#include "freshet/network/elements.hpp"
+#include "freshet/network/element.hpp"
+#include "reported_as.hpp"
 
 namespace freshet::io::detail {
 
@@ -47,19 +48,18 @@ RunWatch::RunWatch(const network::Model& model, const std::vector<StationDescrip
       backwater_time_s_(stations.size(), kNaN) {
   const auto& down = model.topology.downstream;
   for (std::size_t i = 0; i < stations.size(); ++i) {
-    const auto* sub = dynamic_cast<const network::SubcatchmentElement*>(model.elements[i].get());
+    const bool sub = is_subcatchment(model.links[i].kind);
     if (sub) {
-      area_m2_[i] = sub->model().spec().area_m2;
+      area_m2_[i] = model.elements[i]->report().subcatchment().area_m2;
       for (std::ptrdiff_t j = static_cast<std::ptrdiff_t>(i); j >= 0;
            j = down[static_cast<std::size_t>(j)]) {
         upstream_subcatchments_[static_cast<std::size_t>(j)].push_back(i);
       }
     }
-    const bool reach = model.links[i].kind == network::ElementKind::reach;
-    tracked_[i] = reach || sub != nullptr;
+    const bool reach = is_reach(model.links[i].kind);
+    tracked_[i] = reach || sub;
     if (reach && down[i] >= 0 && stations[i].stage_is_elevation &&
-        dynamic_cast<const network::PoolElement*>(
-            model.elements[static_cast<std::size_t>(down[i])].get())) {
+        is_pool(model.links[static_cast<std::size_t>(down[i])].kind)) {
       pond_below_[i] = down[i];
       backwater_m_[i] = -std::numeric_limits<double>::infinity();
     }

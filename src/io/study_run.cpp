@@ -17,6 +17,7 @@
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/network/elements.hpp"
 #include "freshet/routing/applicability.hpp"
+#include "reported_as.hpp"
 #include "result_scale.hpp"
 #include "run_watch.hpp"
 
@@ -26,6 +27,12 @@ namespace {
 
 using network::ElementKind;
 using network::StationSample;
+
+using detail::is_pool;
+using detail::is_reach;
+using detail::is_subcatchment;
+using detail::reported_as;
+using detail::ReportedAs;
 
 // Streams station samples to the two NetCDF files and keeps per-station accumulators.
 class StudySink final : public network::RecordSink {
@@ -38,7 +45,7 @@ class StudySink final : public network::RecordSink {
         at_peak_(stations.size()),
         watch_(model, stations) {
     for (std::size_t i = 0; i < stations.size(); ++i) {
-      (stations[i].kind == "subcatchment" ? sub_index_ : channel_index_).push_back(i);
+      (is_subcatchment(stations[i].kind) ? sub_index_ : channel_index_).push_back(i);
     }
   }
 
@@ -171,7 +178,7 @@ InstanceSet instances(const std::vector<StationDescription>& stations,
     InstanceInfo info;
     info.id = stations[i].id;
     info.name = stations[i].name;
-    if (stations[i].kind == "reach") info.reach_id = stations[i].id;
+    if (is_reach(stations[i].kind)) info.reach_id = stations[i].id;
     set.instances.push_back(info);
   }
   // Stage mixes elevations and depths (see the variable's long_name), so no datum is claimed.
@@ -222,7 +229,7 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
   for (const auto& id : request.export_stations) files.push_back(at.export_csv(id));
   bool channel = false, subcatchment = false;
   for (const auto& s : study.stations(request.scenario_id)) {
-    (s.kind == "subcatchment" ? subcatchment : channel) = true;
+    (is_subcatchment(s.kind) ? subcatchment : channel) = true;
   }
   if (channel) files.push_back(at.stations_nc());
   if (subcatchment) files.push_back(at.subcatchments_nc());
@@ -283,14 +290,13 @@ std::string shock_fate(const routing::ShockReport& s) {
   return "did not reach the outlet";
 }
 
-void add_shocks(const network::Model& model, RunSummary& summary) {
-  for (const auto& e : model.elements) {
-    const auto* reach = dynamic_cast<const network::ReachElement*>(e.get());
-    if (!reach) continue;
-    for (const routing::ShockReport* found : reach->significant_shocks()) {
-      const routing::ShockReport& s = *found;
+void add_shocks(const network::Model& model, const std::vector<network::ElementReport>& reports,
+                RunSummary& summary) {
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    if (!is_reach(reports[i].kind)) continue;
+    for (const routing::ShockReport& s : reports[i].reach().significant_shocks) {
       ShockRecord r;
-      r.element = e->id();
+      r.element = model.links[i].id;
       r.time_s = s.formation_time_s;
       r.chainage_m = s.formation_position_m;
       r.message = "mean speed " + format_fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
@@ -310,7 +316,7 @@ void add_backwater_warning(const network::Model& model,
   const std::ptrdiff_t down = model.topology.downstream[i];
   if (down < 0) return;
   const auto d = static_cast<std::size_t>(down);
-  if (!dynamic_cast<const network::PoolElement*>(model.elements[d].get())) return;
+  if (!is_pool(model.links[d].kind)) return;
   const std::string& id = model.links[i].id;
   if (!stations[i].stage_is_elevation) {
     summary.warnings.push_back({id,
@@ -332,17 +338,18 @@ void add_backwater_warning(const network::Model& model,
 
 // Kinematic-wave applicability per reach, backwater from pools, conduits at capacity.
 void add_warnings(const network::Model& model,
+                  const std::vector<network::ElementReport>& reports,
                   const StudySink& sink,
                   const std::vector<StationDescription>& stations,
                   RunSummary& summary) {
   for (std::size_t i = 0; i < model.elements.size(); ++i) {
-    const auto* reach = dynamic_cast<const network::ReachElement*>(model.elements[i].get());
-    if (!reach) continue;
+    if (!is_reach(reports[i].kind)) continue;
+    const network::ReachFacts& reach = reports[i].reach();
     const StationSample& p = sink.at_peak(i);
     const SummaryAccumulator& acc = sink.accumulator(i);
     const double tp_s = acc.peak_time_s() -
                         sink.watch().rise_start_s(i, acc.peak_time_s(), acc.peak_discharge_m3s());
-    const double slope = reach->section().bed_slope;
+    const double slope = reach.bed_slope;
     if (p.depth_m > 0.0 && p.velocity_m_s > 0.0 && tp_s > 0.0 && slope > 0.0) {
       // Ponce (1989) in the time-of-rise form (routing/applicability.hpp).
       const routing::WaveApplicability a =
@@ -363,15 +370,15 @@ void add_warnings(const network::Model& model,
         summary.warnings.push_back({model.links[i].id, std::move(message)});
       }
     }
-    if (reach->capacity_steps() > 0) {
+    if (reach.capacity_steps > 0) {
       std::string message =
           "conduit reached its part-full capacity; surcharge is not represented and inflow "
           "above capacity is held back in the reach";
-      if (reach->peak_volume_above_full_m3() > 0.0) {
-        message += ": it held up to " + format_fixed(reach->peak_volume_above_full_m3(), 0) +
-                   " m3 above its full volume of " + format_fixed(reach->full_volume_m3(), 0) +
+      if (reach.peak_volume_above_full_m3 > 0.0) {
+        message += ": it held up to " + format_fixed(reach.peak_volume_above_full_m3, 0) +
+                   " m3 above its full volume of " + format_fixed(reach.full_volume_m3, 0) +
                    " m3 (at t = " +
-                   format_fixed(reach->time_of_peak_volume_above_full_s() / 60.0, 0) +
+                   format_fixed(reach.time_of_peak_volume_above_full_s / 60.0, 0) +
                    " min), water that would in fact surcharge the pipe or flood at manholes; "
                    "flows below it are delayed and lowered accordingly";
       }
@@ -393,7 +400,7 @@ void add_coupling_step_warnings(const StudySink& sink,
                                 double coupling_step_s,
                                 RunSummary& summary) {
   for (std::size_t i = 0; i < stations.size(); ++i) {
-    if (stations[i].kind != "reach" && stations[i].kind != "subcatchment") continue;
+    if (!is_reach(stations[i].kind) && !is_subcatchment(stations[i].kind)) continue;
     const SummaryAccumulator& acc = sink.accumulator(i);
     if (acc.sample_count() < 2 || !(acc.peak_discharge_m3s() > acc.first_discharge_m3s())) {
       continue;
@@ -431,6 +438,7 @@ RunSummary summarise(const Study& study,
                      const RunRequest& req,
                      const network::Model& model,
                      const network::RunSummary& numerics,
+                     const std::vector<network::ElementReport>& reports,
                      const StudySink& sink,
                      const std::vector<StationDescription>& stations) {
   RunSummary s;
@@ -445,12 +453,12 @@ RunSummary summarise(const Study& study,
     s.stations.push_back(st);
   }
   add_pairs(model, s);
-  add_shocks(model, s);
+  add_shocks(model, reports, s);
   add_balances(numerics, s);
-  add_warnings(model, sink, stations, s);
+  add_warnings(model, reports, sink, stations, s);
   add_end_of_run_warnings(sink, stations, s);
   add_coupling_step_warnings(sink, stations, run_clock(study.settings()).coupling_step_s(), s);
-  detail::add_result_scale_warnings(model, s);
+  detail::add_result_scale_warnings(model, reports, s);
   // Each element's warnings together, in network order.
   std::map<std::string, std::size_t, std::less<>> order;
   for (std::size_t i = 0; i < stations.size(); ++i) order.emplace(stations[i].id, i);
@@ -470,9 +478,11 @@ class ProfileWriter {
   ProfileWriter(const network::Model& model, const std::vector<std::string>& reach_ids) {
     std::vector<Problem> problems;
     for (const auto& id : reach_ids) {
-      const network::ReachElement* found = nullptr;
-      for (const auto& e : model.elements) {
-        if (e->id() == id) found = dynamic_cast<const network::ReachElement*>(e.get());
+      const network::Element* found = nullptr;
+      for (std::size_t i = 0; i < model.elements.size(); ++i) {
+        if (model.links[i].id == id && is_reach(model.links[i].kind)) {
+          found = model.elements[i].get();
+        }
       }
       if (!found) {
         problems.push_back({"",
@@ -491,13 +501,13 @@ class ProfileWriter {
     InstanceSet set;
     set.kind = "cell";
     for (const auto* r : reaches_) {
-      const double dx = r->reach().cell_width_m();
-      for (int k = 0; k < r->reach().spec().cell_count; ++k) {
+      const std::vector<network::CellSample> cells = r->cell_samples();
+      for (std::size_t k = 0; k < cells.size(); ++k) {
         InstanceInfo info;
         info.id = r->id() + "#" + std::to_string(k + 1);
         info.name = "cell " + std::to_string(k + 1) + " of reach " + r->id();
         info.reach_id = r->id();
-        info.chainage_m = (k + 0.5) * dx;
+        info.chainage_m = cells[k].chainage_m;
         set.instances.push_back(info);
       }
     }
@@ -505,23 +515,24 @@ class ProfileWriter {
   }
 
   void write(NetcdfTimeSeriesWriter& out, double time_s) {
-    std::size_t n = 0;
-    for (const auto* r : reaches_) n += static_cast<std::size_t>(r->reach().spec().cell_count);
-    row_.assign(3 * n, 0.0);
-    std::size_t j = 0;
+    cells_.clear();
     for (const auto* r : reaches_) {
-      const auto areas = r->reach().cell_area_m2();
-      for (std::size_t k = 0; k < areas.size(); ++k, ++j) {
-        row_[j] = r->reach().cell_discharge_m3s(static_cast<int>(k));
-        row_[n + j] = r->section().depth_m(areas[k]);
-        row_[2 * n + j] = r->section().velocity_m_s(areas[k]);
-      }
+      const std::vector<network::CellSample> cells = r->cell_samples();
+      cells_.insert(cells_.end(), cells.begin(), cells.end());
+    }
+    const std::size_t n = cells_.size();
+    row_.assign(3 * n, 0.0);
+    for (std::size_t j = 0; j < n; ++j) {
+      row_[j] = cells_[j].discharge_m3s;
+      row_[n + j] = cells_[j].depth_m;
+      row_[2 * n + j] = cells_[j].velocity_m_s;
     }
     out.record(time_s, row_);
   }
 
  private:
-  std::vector<const network::ReachElement*> reaches_;
+  std::vector<const network::Element*> reaches_;
+  std::vector<network::CellSample> cells_;
   std::vector<double> row_;
 };
 
@@ -650,7 +661,7 @@ std::filesystem::path write_export(const Study& study,
 
 // The per-station peaks for the cross-storm and cross-scenario tables, with the road
 // overtopping of every culvert crossing.
-std::vector<StationPeak> station_peaks(const network::Model& model,
+std::vector<StationPeak> station_peaks(const std::vector<network::ElementReport>& reports,
                                        const RunSummary& summary,
                                        const std::vector<StationDescription>& stations) {
   std::vector<StationPeak> peaks;
@@ -666,9 +677,8 @@ std::vector<StationPeak> station_peaks(const network::Model& model,
                   st.runoff_volume_m3,
                   "",
                   kNotApplicable};
-    const auto* pool = dynamic_cast<const network::PoolElement*>(model.elements[i].get());
-    if (pool && pool->crossing()) {
-      const auto r = network::structures::crossing_report(*pool->crossing(), pool->pool());
+    if (is_pool(reports[i].kind) && reports[i].pool().crossing) {
+      const network::structures::CrossingReport& r = *reports[i].pool().crossing;
       p.overtopping_s = r.road_overtopped ? r.overtopping_duration_s : 0.0;
       p.overtopping =
           r.road_overtopped ? format_fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
@@ -775,11 +785,84 @@ network::RunSummary simulate_located(const Study& study,
 }
 
 std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
-    const network::Model& model) {
+    const network::Model& model, const std::vector<network::ElementReport>& reports) {
   std::vector<std::pair<std::string, routing::RunDiagnostics>> out;
-  for (const auto& e : model.elements) {
-    if (const auto* reach = dynamic_cast<const network::ReachElement*>(e.get())) {
-      out.emplace_back(e->id(), reach->reach().diagnostics());
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    if (is_reach(reports[i].kind)) out.emplace_back(model.links[i].id, reports[i].reach().diagnostics);
+  }
+  return out;
+}
+
+std::string shock_note(const routing::ShockReport& shock) {
+  return "kinematic shock formed at t = " + format_fixed(shock.formation_time_s / 60.0, 1) +
+         " min, " + format_fixed(shock.formation_position_m, 0) + " m downstream, mean speed " +
+         format_fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+         format_fixed(shock.rankine_hugoniot_m_s, 2) + " m/s), " + shock_fate(shock);
+}
+
+std::string capacity_note(const network::ReachFacts& reach) {
+  std::string text = "conduit at capacity for " + std::to_string(reach.capacity_steps) +
+                     " coupling step(s): surcharge is not represented by the kinematic wave; "
+                     "peak flows above capacity are held back";
+  if (reach.peak_volume_above_full_m3 > 0.0) {
+    text += "; up to " + format_fixed(reach.peak_volume_above_full_m3, 0) +
+            " m3 above its full volume (" + format_fixed(reach.full_volume_m3, 0) +
+            " m3) at t = " + format_fixed(reach.time_of_peak_volume_above_full_s / 60.0, 0) +
+            " min";
+  }
+  return text;
+}
+
+std::string crossing_note(const network::structures::CrossingReport& r) {
+  std::string text =
+      "peak headwater " + format_fixed(r.peak_headwater_stage_m, 2) + " m (" +
+      format_fixed(r.peak_headwater_depth_m, 2) +
+      " m above the inlet invert) at t = " + format_fixed(r.time_of_peak_headwater_s / 60.0, 1) +
+      " min, " + (r.control_at_peak == network::structures::Control::inlet ? "inlet" : "outlet") +
+      " control; ";
+  text += r.road_overtopped
+              ? "road overtopped for " + format_fixed(r.overtopping_duration_s / 60.0, 1) +
+                    " min (" + format_fixed(r.overtopping_discharge_at_peak_m3s, 2) +
+                    " m3/s over the road at the peak)"
+              : "road not overtopped";
+  if (r.stage_beyond_rating) text += "; WARNING: headwater above the tabulated rating";
+  return text;
+}
+
+std::string detention_note(const network::structures::DetentionReport& r,
+                           double peak_inflow_m3s) {
+  return "peak stage " + format_fixed(r.peak_stage_m, 2) + " m at t = " +
+         format_fixed(r.time_of_peak_stage_s / 60.0, 1) + " min, peak storage " +
+         format_fixed(r.peak_storage_m3, 0) + " m3, peak outflow " +
+         format_fixed(r.peak_outflow_m3s, 3) + " m3/s (peak inflow " +
+         format_fixed(peak_inflow_m3s, 3) + " m3/s)";
+}
+
+// What each element found (shocks, conduits at capacity, culvert headwater and overtopping,
+// detention peaks), one line of text each, in network order.
+std::vector<std::pair<std::string, std::string>> element_notes(
+    const network::Model& model, const std::vector<network::ElementReport>& reports) {
+  std::vector<std::pair<std::string, std::string>> out;
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    const std::string& id = model.links[i].id;
+    switch (reported_as(reports[i].kind)) {
+      case ReportedAs::reach: {
+        const network::ReachFacts& reach = reports[i].reach();
+        for (const auto& shock : reach.significant_shocks) out.emplace_back(id, shock_note(shock));
+        if (reach.capacity_steps > 0) out.emplace_back(id, capacity_note(reach));
+        break;
+      }
+      case ReportedAs::pool: {
+        const network::PoolFacts& pool = reports[i].pool();
+        if (pool.crossing) out.emplace_back(id, crossing_note(*pool.crossing));
+        if (pool.detention) {
+          out.emplace_back(id, detention_note(*pool.detention, pool.peak_inflow_m3s));
+        }
+        break;
+      }
+      case ReportedAs::subcatchment:
+      case ReportedAs::passage:
+        break;
     }
   }
   return out;
@@ -812,9 +895,12 @@ RunOutcome run_study(const Study& study,
   out.scenario_id = req.scenario_id;
   out.storm_id = req.storm_id;
   out.numerics = simulate_located(study, req, model, clock, sink, progress);
-  out.summary = summarise(study, req, model, out.numerics, sink, stations);
-  out.peaks = station_peaks(model, out.summary, stations);
-  out.reach_numerics = reach_numerics(model);
+  std::vector<network::ElementReport> reports;
+  for (const auto& e : model.elements) reports.push_back(e->report());
+  out.summary = summarise(study, req, model, out.numerics, reports, sink, stations);
+  out.peaks = station_peaks(reports, out.summary, stations);
+  out.reach_numerics = reach_numerics(model, reports);
+  out.notes = element_notes(model, reports);
   write_run_files(study, req, sink, stations, exported, results, files, out);
   // The commit point: every file is complete in the staging folder.
   if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");

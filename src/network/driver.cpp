@@ -171,7 +171,6 @@ RunSummary summarise(const Model& model) {
       r.worst_relative_imbalance = worst;
       r.worst_element = e->id();
     }
-    for (auto& note : e->notes()) r.notes.emplace_back(e->id(), std::move(note));
   }
   r.network_relative_imbalance = network_imbalance(model, r.balances, BalanceTolerance{});
   return r;

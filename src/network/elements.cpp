@@ -100,37 +100,32 @@ std::vector<const routing::ShockReport*> ReachElement::significant_shocks() cons
   return out;
 }
 
-std::vector<ElementNote> ReachElement::notes() const {
-  std::vector<ElementNote> out;
-  for (const routing::ShockReport* found : significant_shocks()) {
-    const routing::ShockReport& shock = *found;
-    std::string text =
-        "kinematic shock formed at t = " + format_fixed(shock.formation_time_s / 60.0, 1) +
-        " min, " + format_fixed(shock.formation_position_m, 0) + " m downstream, mean " + "speed " +
-        format_fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
-        format_fixed(shock.rankine_hugoniot_m_s, 2) + " m/s)";
-    if (shock.reached_outlet) {
-      text += ", reached the outlet at t = " + format_fixed(shock.outlet_arrival_time_s / 60.0, 1) +
-              " min";
-    } else if (shock.ended) {
-      text +=
-          ", faded or merged in the reach after t = " + format_fixed(shock.end_time_s / 60.0, 1) +
-          " min";
-    } else {
-      text += ", did not reach the outlet";
-    }
-    out.push_back({text});
+ElementReport ReachElement::report() const {
+  ReachFacts f;
+  f.bed_slope = section_.bed_slope;
+  f.length_m = reach_->spec().length_m;
+  f.cell_count = reach_->spec().cell_count;
+  f.cell_width_m = reach_->cell_width_m();
+  for (const routing::ShockReport* shock : significant_shocks()) {
+    f.significant_shocks.push_back(*shock);
   }
-  if (capacity_steps_ > 0) {
-    std::string text = "conduit at capacity for " + std::to_string(capacity_steps_) +
-                       " coupling step(s): surcharge is not represented by the kinematic wave; "
-                       "peak flows above capacity are held back";
-    if (peak_above_full_m3_ > 0.0) {
-      text += "; up to " + format_fixed(peak_above_full_m3_, 0) + " m3 above its full volume (" +
-              format_fixed(full_volume_m3_, 0) + " m3) at t = " +
-              format_fixed(peak_above_full_s_ / 60.0, 0) + " min";
-    }
-    out.push_back({text});
+  f.capacity_steps = capacity_steps_;
+  f.full_volume_m3 = full_volume_m3_;
+  f.peak_volume_above_full_m3 = peak_above_full_m3_;
+  f.time_of_peak_volume_above_full_s = peak_above_full_s_;
+  f.diagnostics = reach_->diagnostics();
+  return {kind(), std::move(f)};
+}
+
+std::vector<CellSample> ReachElement::cell_samples() const {
+  const auto areas = reach_->cell_area_m2();
+  const double dx_m = reach_->cell_width_m();
+  std::vector<CellSample> out(areas.size());
+  for (std::size_t k = 0; k < areas.size(); ++k) {
+    out[k].chainage_m = (static_cast<double>(k) + 0.5) * dx_m;
+    out[k].discharge_m3s = reach_->cell_discharge_m3s(static_cast<int>(k));
+    out[k].depth_m = section_.depth_m(areas[k]);
+    out[k].velocity_m_s = section_.velocity_m_s(areas[k]);
   }
   return out;
 }
@@ -165,6 +160,10 @@ VolumeLedger SubcatchmentElement::ledger() const {
   l.outflow_m3 = h.runoff_m3;
   l.storage_m3 = h.storage_m3;
   return l;
+}
+
+ElementReport SubcatchmentElement::report() const {
+  return {kind(), SubcatchmentFacts{model_->spec().area_m2}};
 }
 
 // ---- PoolElement -------------------------------------------------------------------------
@@ -236,32 +235,15 @@ StationSample PoolElement::sample() const {
 
 VolumeLedger PoolElement::ledger() const { return pool_->ledger(); }
 
-std::vector<ElementNote> PoolElement::notes() const {
-  std::vector<ElementNote> out;
+ElementReport PoolElement::report() const {
+  PoolFacts f;
+  f.peak_inflow_m3s = peak_inflow_m3s_;
   if (crossing_) {
-    const structures::CrossingReport r = structures::crossing_report(*crossing_, *pool_);
-    std::string text =
-        "peak headwater " + format_fixed(r.peak_headwater_stage_m, 2) + " m (" +
-        format_fixed(r.peak_headwater_depth_m, 2) +
-        " m above the inlet invert) at t = " + format_fixed(r.time_of_peak_headwater_s / 60.0, 1) +
-        " min, " + (r.control_at_peak == structures::Control::inlet ? "inlet" : "outlet") +
-        " control; ";
-    text += r.road_overtopped
-                ? "road overtopped for " + format_fixed(r.overtopping_duration_s / 60.0, 1) +
-                      " min (" + format_fixed(r.overtopping_discharge_at_peak_m3s, 2) +
-                      " m3/s over the road at the peak)"
-                : "road not overtopped";
-    if (r.stage_beyond_rating) text += "; WARNING: headwater above the tabulated rating";
-    out.push_back({text});
+    f.crossing = structures::crossing_report(*crossing_, *pool_);
   } else {
-    const structures::DetentionReport r = structures::detention_report(*pool_);
-    out.push_back({"peak stage " + format_fixed(r.peak_stage_m, 2) +
-                   " m at t = " + format_fixed(r.time_of_peak_stage_s / 60.0, 1) +
-                   " min, peak storage " + format_fixed(r.peak_storage_m3, 0) +
-                   " m3, peak outflow " + format_fixed(r.peak_outflow_m3s, 3) +
-                   " m3/s (peak inflow " + format_fixed(peak_inflow_m3s_, 3) + " m3/s)"});
+    f.detention = structures::detention_report(*pool_);
   }
-  return out;
+  return {kind(), std::move(f)};
 }
 
 }  // namespace freshet::network

@@ -69,7 +69,7 @@ struct ScenarioDefinition {
 // Where a station sits, for outputs.
 struct StationDescription {
   std::string id;
-  std::string kind;        // "reach", "culvert", ...
+  network::ElementKind kind = network::ElementKind::junction;
   std::string name;        // human label, e.g. "Mill Lane culvert"
   std::string to;          // downstream element id ("" for outlets)
   bool stage_is_elevation = false;  // stage is a water-surface elevation (else a depth)

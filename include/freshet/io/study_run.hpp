@@ -46,7 +46,7 @@ struct RunRequest {
 struct StationPeak {
   std::string id;
   std::string name;
-  std::string kind;
+  network::ElementKind kind = network::ElementKind::junction;
   double peak_discharge_m3s = kNotApplicable;
   double peak_time_s = kNotApplicable;
   double peak_stage_m = kNotApplicable;
@@ -62,11 +62,14 @@ struct RunOutcome {
   std::string scenario_id;
   std::string storm_id;
   RunSummary summary;                  // peaks, pairs, shocks, mass balance, warnings
-  network::RunSummary numerics;        // steps, wall time, ledgers, element notes
+  network::RunSummary numerics;        // steps, wall time, ledgers
   std::vector<StationPeak> peaks;      // one per station, model order
   // Per reach: scheme, steps taken and rejected, largest Courant number, volume balance,
   // shocks found, wall time.
   std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics;
+  // What each element found (shocks, conduits at capacity, culvert headwater and road
+  // overtopping, detention peaks): element id and one line of text, in network order.
+  std::vector<std::pair<std::string, std::string>> notes;
   std::vector<std::filesystem::path> files;  // written and renamed into place
 };
 

@@ -97,7 +97,6 @@ struct RunSummary {
   long long coupling_steps = 0;
   double wall_time_s = 0.0;
   std::vector<ElementBalance> balances;  // per element, links order
-  std::vector<std::pair<std::string, ElementNote>> notes;
   double worst_relative_imbalance = 0.0;    // max over elements of relative_imbalance()
   std::string worst_element;                // the element with that imbalance
   double network_relative_imbalance = 0.0;  // the whole network, as BalanceTolerance says

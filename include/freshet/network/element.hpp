@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "freshet/core/volume_ledger.hpp"
+#include "freshet/network/element_report.hpp"
 #include "freshet/network/topology.hpp"
 
 namespace freshet::network {
@@ -51,11 +52,6 @@ struct StepOutflow {
   double end_m3s = 0.0;   // outflow rate at t1
 };
 
-// A notable event, for reports: a kinematic shock, a conduit running full, road overtopping.
-struct ElementNote {
-  std::string text;
-};
-
 class Element {
  public:
   Element(std::string id, ElementKind kind) : id_(std::move(id)), kind_(kind) {}
@@ -74,8 +70,12 @@ class Element {
   // The state at the end of the last step.
   [[nodiscard]] virtual StationSample sample() const = 0;
   [[nodiscard]] virtual VolumeLedger ledger() const = 0;
-  // Events found so far (shocks, full conduits, overtopping); empty by default.
-  [[nodiscard]] virtual std::vector<ElementNote> notes() const { return {}; }
+  // What the element found so far, as typed facts of its kind (element_report.hpp): shocks,
+  // capacity, volume above full, pool stage, overtopping. Default: nothing beyond samples.
+  [[nodiscard]] virtual ElementReport report() const { return {kind_, NoFacts{}}; }
+  // The element's computational cells at the end of the last step (the along-reach profile
+  // of a reach); empty for elements without cells.
+  [[nodiscard]] virtual std::vector<CellSample> cell_samples() const { return {}; }
   // True for elements whose inflow from subcatchments enters along their length (reaches).
   [[nodiscard]] virtual bool takes_lateral_inflow() const { return false; }
 

@@ -29,7 +29,8 @@ class ReachElement final : public Element {
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override;
-  [[nodiscard]] std::vector<ElementNote> notes() const override;
+  [[nodiscard]] ElementReport report() const override;
+  [[nodiscard]] std::vector<CellSample> cell_samples() const override;
   [[nodiscard]] bool takes_lateral_inflow() const override { return true; }
 
   [[nodiscard]] const routing::ReachModel& reach() const { return *reach_; }
@@ -72,6 +73,7 @@ class SubcatchmentElement final : public Element {
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override { return sample_; }
   [[nodiscard]] VolumeLedger ledger() const override;
+  [[nodiscard]] ElementReport report() const override;
   [[nodiscard]] const hydrology::Subcatchment& model() const { return *model_; }
 
  private:
@@ -99,7 +101,7 @@ class PoolElement final : public Element {
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override;
-  [[nodiscard]] std::vector<ElementNote> notes() const override;
+  [[nodiscard]] ElementReport report() const override;
 
   [[nodiscard]] const structures::LevelPool& pool() const { return *pool_; }
   [[nodiscard]] const structures::CulvertCrossing* crossing() const { return crossing_.get(); }

@@ -197,7 +197,7 @@ void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&&
   link.where = {file_, r.line(), r.column()};
   // A missing or misplaced 'to' is reported once, by the topology check.
   link.to = r.optional_text("to").value_or("");
-  StationDescription station{link.id, std::string(network::to_string(kind)),
+  StationDescription station{link.id, kind,
                              r.optional_text("name").value_or(link.id), link.to, false};
   const std::size_t before = problems_.size();
   element_start_ = before;

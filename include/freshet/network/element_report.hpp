@@ -1,0 +1,85 @@
+// What an element tells the run's reports about itself: typed facts, one struct per kind of
+// element, through one channel (Element::report()). The reports above the network (warnings,
+// summaries, element notes, overtopping tables) read these facts and never the element's
+// concrete type; they switch over ElementReport::kind with no `default`, so the compiler
+// points at every place that must learn a new element kind.
+//
+//   const network::ElementReport r = element.report();
+//   switch (r.kind) {
+//     case ElementKind::reach: use(r.reach().capacity_steps); break;
+//     case ElementKind::culvert: case ElementKind::detention: use(r.pool()); break;
+//     case ElementKind::subcatchment: use(r.subcatchment().area_m2); break;
+//     case ElementKind::inflow: case ElementKind::junction: case ElementKind::outlet: break;
+//   }
+#pragma once
+
+#include <optional>
+#include <variant>
+#include <vector>
+
+#include "freshet/network/structures/level_pool.hpp"
+#include "freshet/network/topology.hpp"
+#include "freshet/routing/diagnostics.hpp"
+#include "freshet/routing/shock.hpp"
+
+namespace freshet::network {
+
+// A reach routed by the kinematic wave.
+struct ReachFacts {
+  double bed_slope = 0.0;  // m/m
+  double length_m = 0.0;
+  int cell_count = 0;
+  double cell_width_m = 0.0;
+  // The kinematic shocks that matter to the flood, in order of formation (each one's largest
+  // discharge jump along its path is at least ReachElement::kSignificantShockFraction of the
+  // reach's peak outflow).
+  std::vector<routing::ShockReport> significant_shocks;
+  // Coupling steps at whose end some cell held the conduit's capacity area (surcharge is not
+  // represented); 0 for open channels that never fill.
+  long capacity_steps = 0;
+  // Closed conduits: full area x length, and the largest volume held above it (summed over
+  // cells, at coupling-step ends) with its time; 0 for open channels.
+  double full_volume_m3 = 0.0;
+  double peak_volume_above_full_m3 = 0.0;
+  double time_of_peak_volume_above_full_s = 0.0;
+  routing::RunDiagnostics diagnostics;  // scheme, steps, Courant numbers, shocks, wall time
+};
+
+// A subcatchment.
+struct SubcatchmentFacts {
+  double area_m2 = 0.0;
+};
+
+// A level pool: the ponding upstream of a culvert crossing, or a detention basin.
+struct PoolFacts {
+  double peak_inflow_m3s = 0.0;  // at coupling-step ends
+  std::optional<structures::CrossingReport> crossing;    // culvert crossings: headwater, road
+  std::optional<structures::DetentionReport> detention;  // detention basins: stage, storage
+};
+
+// Nothing to report beyond the station samples (inflow hydrographs, junctions, outlets).
+struct NoFacts {};
+
+struct ElementReport {
+  ElementKind kind = ElementKind::junction;
+  std::variant<NoFacts, ReachFacts, SubcatchmentFacts, PoolFacts> facts;
+
+  // The facts of the element's kind; asking for another kind's is a programmer error
+  // (std::bad_variant_access).
+  [[nodiscard]] const ReachFacts& reach() const { return std::get<ReachFacts>(facts); }
+  [[nodiscard]] const SubcatchmentFacts& subcatchment() const {
+    return std::get<SubcatchmentFacts>(facts);
+  }
+  [[nodiscard]] const PoolFacts& pool() const { return std::get<PoolFacts>(facts); }
+};
+
+// One computational cell of an element at the end of the last coupling step (reaches: the
+// along-reach profile).
+struct CellSample {
+  double chainage_m = 0.0;  // cell centre, from the upstream end
+  double discharge_m3s = 0.0;
+  double depth_m = 0.0;
+  double velocity_m_s = 0.0;
+};
+
+}  // namespace freshet::network
