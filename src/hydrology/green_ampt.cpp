@@ -33,8 +33,11 @@ double ponded_increment_m(const GreenAmptParameters& p, double f0_m, double dura
   const double hi = expand_upper_bracket(g, k_t, k_t + std::sqrt(2.0 * a * k_t));
   return converged_root(solve_bracketed_newton(fdf, 0.0, hi), element,
                         "Green-Ampt ponded infiltration increment (m)",
-                        "K t = " + format_value(k_t) + " m from F = " + format_value(f0_m) +
-                            " m over " + format_value(duration_s) + " s");
+                        [&] {
+                          return "K t = " + format_value(k_t) + " m from F = " +
+                                 format_value(f0_m) + " m over " + format_value(duration_s) +
+                                 " s";
+                        });
 }
 
 }  // namespace

@@ -49,7 +49,10 @@ double HortonParameters::equivalent_time_s(double cumulative_m, std::string_view
   if (std::isnan(hi)) return kInfinity;
   return converged_root(solve_bracketed_newton(fdf, 0.0, hi), element,
                         "Horton equivalent time (s)",
-                        "cumulative infiltration F = " + format_value(cumulative_m) + " m");
+                        [&] {
+                          return "cumulative infiltration F = " + format_value(cumulative_m) +
+                                 " m";
+                        });
 }
 
 HortonLoss::HortonLoss(const HortonParameters& parameters, const std::string& element)

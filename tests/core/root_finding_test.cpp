@@ -1,6 +1,7 @@
 #include "freshet/core/converged_root.hpp"
 
 #include <cmath>
+#include <string>
 #include <gtest/gtest.h>
 
 namespace freshet {
@@ -41,9 +42,17 @@ TEST(SolveBracketedNewton, SurvivesFlatDerivative) {
 
 // A converged root is returned as found; a failed one becomes a NumericalError that names the
 // element, the quantity and the value it was sought for (the error tiers of DEVELOPERS.md).
-// Reference: x^2 - 2 has no root on [2, 3] (f > 0 at both ends), so rtsafe reports no bracket.
+// What it was sought for is described only on failure (solvers in hot loops call this for
+// every root). Reference: x^2 - 2 has no root on [2, 3] (f > 0 at both ends), so rtsafe
+// reports no bracket.
 TEST(ConvergedRoot, ReturnsTheRootOrNamesElementQuantityAndValue) {
-  EXPECT_EQ(converged_root({1.5, 3, true}, "reach 'r1'", "depth (m)", "area 2 m2"), 1.5);
+  int described = 0;
+  auto area = [&described] {
+    ++described;
+    return std::string("area 2 m2");
+  };
+  EXPECT_EQ(converged_root({1.5, 3, true}, "reach 'r1'", "depth (m)", area), 1.5);
+  EXPECT_EQ(described, 0);
   auto fdf = [](double x, double& f, double& df) {
     f = x * x - 2.0;
     df = 2.0 * x;
@@ -51,13 +60,14 @@ TEST(ConvergedRoot, ReturnsTheRootOrNamesElementQuantityAndValue) {
   const RootResult none = solve_bracketed_newton(fdf, 2.0, 3.0);
   ASSERT_FALSE(none.converged);
   try {
-    (void)converged_root(none, "reach 'r1'", "depth (m)", "area 2 m2");
+    (void)converged_root(none, "reach 'r1'", "depth (m)", area);
     FAIL() << "no NumericalError";
   } catch (const NumericalError& e) {
     EXPECT_STREQ(e.what(),
                  "reach 'r1': depth (m) did not converge for area 2 m2 (0 iterations, last "
                  "estimate nan)");
   }
+  EXPECT_EQ(described, 1);
 }
 
 }  // namespace

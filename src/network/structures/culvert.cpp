@@ -157,7 +157,7 @@ double Culvert::critical_depth_m(double q) const {
   const RootResult r = detail::solve_monotone([&](double y) { return critical_q(y) - q; }, 0.0,
                                               y_top);
   return converged_root(r, element_, "critical depth (m)",
-                        "barrel discharge " + format_value(q) + " m3/s");
+                        [&] { return "barrel discharge " + format_value(q) + " m3/s"; });
 }
 
 double Culvert::manning_discharge_m3s(double y) const {
@@ -173,7 +173,7 @@ double Culvert::normal_depth_m(double q) const {
   const RootResult r = detail::solve_monotone(
       [&](double y) { return manning_discharge_m3s(y) - q; }, 0.0, max_part_full_depth_m_);
   return converged_root(r, element_, "normal depth (m)",
-                        "barrel discharge " + format_value(q) + " m3/s");
+                        [&] { return "barrel discharge " + format_value(q) + " m3/s"; });
 }
 
 }  // namespace freshet::network::structures

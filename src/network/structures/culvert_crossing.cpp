@@ -51,27 +51,40 @@ double CulvertCrossing::direct_discharge(double stage_m) const {
 
 // Where linear interpolation misses the direct inversion at an interval's midpoint by more
 // than kRatingTolerance (relative), the midpoint is added; up to kMaxRefinements passes.
-// Kinks in the rating (regime changes, the control switch) get dense nodes this way.
+// Kinks in the rating (regime changes, the control switch) get dense nodes this way. A pass
+// looks again only at the halves of the intervals the previous pass split: an interval that
+// met the tolerance is unchanged, so testing it again would give the same answer (the table
+// is the same as testing every interval in every pass, at a fraction of the root solves).
 void CulvertCrossing::refine_rating() {
   constexpr double kRatingTolerance = 5e-4;
   constexpr int kMaxRefinements = 8;
+  // open[k]: the interval [stage_m_[k], stage_m_[k + 1]] is still to be tested.
+  std::vector<char> open(stage_m_.size() > 1 ? stage_m_.size() - 1 : 0, 1);
   for (int pass = 0; pass < kMaxRefinements; ++pass) {
     std::vector<double> h{stage_m_.front()}, q{barrel_m3s_.front()};
+    std::vector<char> still_open;
     bool added = false;
     for (std::size_t k = 0; k + 1 < stage_m_.size(); ++k) {
-      const double mid = 0.5 * (stage_m_[k] + stage_m_[k + 1]);
-      const double q_mid = direct_discharge(mid);
-      const double q_lin = 0.5 * (barrel_m3s_[k] + barrel_m3s_[k + 1]);
-      if (std::abs(q_lin - q_mid) > kRatingTolerance * q_mid) {
-        h.push_back(mid);
-        q.push_back(q_mid);
-        added = true;
+      bool split = false;
+      if (open[k]) {
+        const double mid = 0.5 * (stage_m_[k] + stage_m_[k + 1]);
+        const double q_mid = direct_discharge(mid);
+        const double q_lin = 0.5 * (barrel_m3s_[k] + barrel_m3s_[k + 1]);
+        split = std::abs(q_lin - q_mid) > kRatingTolerance * q_mid;
+        if (split) {
+          h.push_back(mid);
+          q.push_back(q_mid);
+          still_open.push_back(1);
+          added = true;
+        }
       }
+      still_open.push_back(split ? 1 : 0);
       h.push_back(stage_m_[k + 1]);
       q.push_back(barrel_m3s_[k + 1]);
     }
     stage_m_ = std::move(h);
     barrel_m3s_ = std::move(q);
+    open = std::move(still_open);
     if (!added) return;
   }
 }

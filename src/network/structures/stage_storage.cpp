@@ -175,7 +175,7 @@ double StageStorage::table_stage(double storage_m3) const {
   auto g = [&](double h) { return table_storage(h) - storage_m3; };
   const RootResult r = detail::solve_monotone(g, stage_m_[k - 1], stage_m_[k], 1e-15);
   return converged_root(r, element_, "stage for storage (m)",
-                        "storage " + format_value(storage_m3) + " m3");
+                        [&] { return "storage " + format_value(storage_m3) + " m3"; });
 }
 
 }  // namespace freshet::network::structures
