@@ -1,4 +1,4 @@
-// `freshet verify`: runs the built-in verification cases (verification_cases.cpp) and prints
+// `freshet verify`: runs the verification cases (freshet/verification/verification_case.hpp) and prints
 // a report an engineer can attach to a submission: a header naming the freshet version, the
 // date and the machine; one row per case with the published value, freshet's value, the
 // tolerance, pass/fail and the source; the closing line "N passed, N failed"; the caution.
@@ -22,11 +22,17 @@
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
 #include "freshet/io/atomic_file.hpp"
+#include "freshet/verification/verification_case.hpp"
 #include "freshet_version.hpp"
-#include "verification_cases.hpp"
 
 namespace freshet::cli {
 namespace {
+
+using verification::CaseResult;
+using verification::ToleranceKind;
+using verification::VerificationCase;
+using verification::run_case;
+using verification::verification_cases;
 
 constexpr double kPerturbFactor = 1.1;
 constexpr const char* kPerturbVariable = "FRESHET_VERIFY_PERTURB";
@@ -52,9 +58,7 @@ std::set<std::string> perturbed_case_ids() {
   }
   ProblemList problems("environment");
   for (const std::string& id : ids) {
-    bool known = false;
-    for (const auto& c : verification_cases()) known = known || c.id == id;
-    if (!known) problems.add(kPerturbVariable, "= '" + id + "': not a case id (see --list)");
+    if (verification::find_case(id) == nullptr) problems.add(kPerturbVariable, "= '" + id + "': not a case id (see --list)");
   }
   problems.throw_if_any();
   return ids;

@@ -8,6 +8,7 @@
 #include <limits>
 #include <string>
 
+#include "freshet/verification/problems.hpp"
 #include "test_sections.hpp"
 
 namespace freshet::geometry {
@@ -138,17 +139,18 @@ TEST(PowerLawSections, TriangleAndSheetHaveExactCelerityRatios) {
 // ---- Normal depth and inverses ------------------------------------------------------------
 
 TEST(NormalDepth, ReproducesChowsTrapezoidalExample) {
-  // Chow (1959), Open-Channel Hydraulics, Example 6.2 (from memory): trapezoidal channel,
-  // b = 20 ft, z = 2, S0 = 0.0016, n = 0.025, Q = 400 cfs; normal depth y_n = 3.36 ft.
+  // Chow (1959), Open-Channel Hydraulics, Example 6.2 (from memory; the set-up and the
+  // published 3.36 ft are in freshet/verification/problems.hpp, shared with `freshet verify`).
+  const verification::ChowTrapezoidExample ex;
   const double ft = units::kMetresPerFoot;
-  const auto s = make_section(section_spec_to_si(TrapezoidalSpec{20.0, 2.0, 2.0, 0.025},
-                                                 units::System::us_customary));
-  const double q = units::discharge_to_m3s(400.0, units::System::us_customary);
-  const auto y = normal_depth_m(*s, 0.0016, q);
+  const double q = ex.discharge_m3s();
+  const auto y = normal_depth_m(*ex.section(), ex.bed_slope, q);
   ASSERT_TRUE(y.has_value());
-  EXPECT_NEAR(*y / ft, 3.36, 0.005);
+  EXPECT_NEAR(*y / ft, ex.normal_depth_ft, 0.005);
   // The closed-form law inverts to the same area.
-  const FlowSection f = make_flow_section(TrapezoidalSpec{20.0 * ft, 2.0, 2.0, 0.025}, 0.0016);
+  TrapezoidalSpec si = ex.spec_ft;
+  si.bottom_width_m *= ft;
+  const FlowSection f = make_flow_section(si, ex.bed_slope);
   EXPECT_NEAR(f.depth_m(area_for_discharge_m2(f.flux, q)), *y, 1e-12);
 }
 

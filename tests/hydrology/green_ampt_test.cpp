@@ -4,6 +4,8 @@
 #include <string>
 #include <gtest/gtest.h>
 
+#include "freshet/verification/problems.hpp"
+
 namespace freshet::hydrology {
 namespace {
 
@@ -11,15 +13,10 @@ constexpr double kCm = 0.01;
 constexpr double kHour = 3600.0;
 
 // Silt loam as in Chow, Maidment & Mays (1988), Applied Hydrology, Examples 4.3.1 and 4.4.1:
-// K = 0.65 cm/h, psi = 16.7 cm, theta_e = 0.486, S_e = 0.3 (dtheta = 0.340). Porosity 0.501
-// from Rawls, Brakensiek & Miller (1983), J. Hydraulic Eng. 109(1) (silt loam).
-GreenAmptParameters silt_loam() {
-  return {.hydraulic_conductivity_m_s = 0.65 * kCm / kHour,
-          .suction_head_m = 16.7 * kCm,
-          .porosity = 0.501,
-          .effective_porosity = 0.486,
-          .initial_effective_saturation = 0.3};
-}
+// K = 0.65 cm/h, psi = 16.7 cm, theta_e = 0.486, S_e = 0.3 (dtheta = 0.340); porosity 0.501
+// (Rawls, Brakensiek & Miller 1983). Written once in freshet/verification/problems.hpp,
+// shared with `freshet verify`.
+using verification::silt_loam;
 
 // CMM 1988 Example 4.3.1 (from memory): after 1 h of ponding F = 3.17 cm, f = 1.81 cm/h
 // (evaluating eq. 4.3.7 at F = 3.167 cm gives 1.816 cm/h; the text rounds).

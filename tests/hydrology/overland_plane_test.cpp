@@ -5,17 +5,15 @@
 #include <cstdio>
 #include <gtest/gtest.h>
 
+#include "freshet/verification/problems.hpp"
+
 namespace freshet::hydrology {
 namespace {
 
-constexpr double kMmPerHour = 1e-3 / 3600.0;
-
-// Invented plane: L = 100 m, S = 0.01, n = 0.1 -> alpha = 1 m^(1/3)/s; excess 50 mm/h.
-OverlandPlaneSpec test_plane(int cells = 200) {
-  return {.name = "test-lawn", .length_m = 100.0, .slope = 0.01, .manning_n = 0.1,
-          .cell_count = cells};
-}
-constexpr double kExcess = 50.0 * kMmPerHour;
+// Invented plane: L = 100 m, S = 0.01, n = 0.1 -> alpha = 1 m^(1/3)/s; excess 50 mm/h
+// (freshet/verification/problems.hpp, shared with `freshet verify`).
+OverlandPlaneSpec test_plane(int cells = 200) { return verification::kinematic_test_plane(cells); }
+constexpr double kExcess = verification::kTestPlaneExcess_m_s;
 
 // The stated grids: second-order MUSCL-Heun on 200 cells, first-order explicit upwind on
 // 1000 cells (Courant targets are the routing defaults: 0.45 and 0.9).

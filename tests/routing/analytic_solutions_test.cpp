@@ -10,6 +10,7 @@
 
 #include "freshet/core/root_finding.hpp"
 #include "freshet/routing/kinematic_reach.hpp"
+#include "freshet/verification/problems.hpp"
 #include "routing_test_support.hpp"
 
 namespace freshet::routing {
@@ -21,15 +22,11 @@ using testing::cell_center_m;
 using testing::options_for;
 using testing::wide_manning;
 
-// Wide Manning channel 20 m wide, n = 0.03, S = 0.002 (invented).
-const PowerLawFlux kManning = wide_manning(20.0, 0.03, 0.002);
-
-std::vector<double> riemann_state(int cells, double dx, double x_jump, double a_left,
-                                  double a_right) {
-  std::vector<double> a(static_cast<std::size_t>(cells));
-  for (int i = 0; i < cells; ++i) a[static_cast<std::size_t>(i)] = cell_center_m(i, dx) < x_jump ? a_left : a_right;
-  return a;
-}
+// Wide Manning channel 20 m wide, n = 0.03, S = 0.002 (invented), and the Riemann problems on
+// it: written once in freshet/verification/problems.hpp, shared with `freshet verify`.
+const PowerLawFlux kManning = verification::wide_channel();
+using verification::kFanProblem;
+using verification::kShockProblem;
 
 // Riemann problem with the deeper state upstream: a kinematic shock at the Rankine-Hugoniot
 // speed U = (Q_L - Q_R) / (A_L - A_R) (Lighthill & Whitham 1955, On kinematic waves I,
@@ -37,16 +34,16 @@ std::vector<double> riemann_state(int cells, double dx, double x_jump, double a_
 class RiemannShock : public ::testing::TestWithParam<SchemeKind> {};
 
 TEST_P(RiemannShock, MovesAtRankineHugoniotSpeed) {
-  const double a_left = 40.0, a_right = 10.0, x_jump = 1000.0, length = 4000.0;
+  const double a_left = kShockProblem.a_left_m2, x_jump = kShockProblem.x_jump_m;
+  const double length = kShockProblem.length_m;
   const int cells = 800;
   const double dx = length / cells;
   RoutingOptions opt = options_for(GetParam());
   opt.implicit_courant = 1.0;  // accuracy: at larger Courant the implicit front smears widely
   KinematicReach<PowerLawFlux> reach({"riemann", length, cells}, kManning, opt);
-  const auto a0 = riemann_state(cells, dx, x_jump, a_left, a_right);
-  reach.set_initial_areas(a0);
-  const double q_left = kManning.discharge_m3s(a_left), q_right = kManning.discharge_m3s(a_right);
-  const double u_exact = (q_left - q_right) / (a_left - a_right);
+  reach.set_initial_areas(kShockProblem.initial_areas_m2(cells));
+  const double q_left = kManning.discharge_m3s(a_left);
+  const double u_exact = kShockProblem.shock_speed_m_s(kManning);
   const auto inflow = PiecewiseLinearSeries::constant(q_left);
   const double t_end = 800.0;
   for (double t = 0.0; t < t_end; t += 20.0) (void)reach.advance(t, t + 20.0, inflow, LateralInflow::none());
@@ -64,15 +61,14 @@ TEST_P(RiemannShock, MovesAtRankineHugoniotSpeed) {
 }
 
 TEST_P(RiemannShock, ReportsArrivalAtTheOutlet) {
-  const double a_left = 40.0, a_right = 10.0, x_jump = 1000.0, length = 4000.0;
+  const double x_jump = kShockProblem.x_jump_m, length = kShockProblem.length_m;
   const int cells = 400;
-  const double dx = length / cells;
   RoutingOptions opt = options_for(GetParam());
   opt.implicit_courant = 1.0;
   KinematicReach<PowerLawFlux> reach({"riemann", length, cells}, kManning, opt);
-  reach.set_initial_areas(riemann_state(cells, dx, x_jump, a_left, a_right));
-  const double q_left = kManning.discharge_m3s(a_left);
-  const double u_exact = (q_left - kManning.discharge_m3s(a_right)) / (a_left - a_right);
+  reach.set_initial_areas(kShockProblem.initial_areas_m2(cells));
+  const double q_left = kManning.discharge_m3s(kShockProblem.a_left_m2);
+  const double u_exact = kShockProblem.shock_speed_m_s(kManning);
   const auto inflow = PiecewiseLinearSeries::constant(q_left);
   for (double t = 0.0; t < 1500.0; t += 10.0) (void)reach.advance(t, t + 10.0, inflow, LateralInflow::none());
   const ShockReport& shock = reach.shock_report();
@@ -92,25 +88,18 @@ INSTANTIATE_TEST_SUITE_P(Schemes, RiemannShock,
 
 // Riemann problem with the shallower state upstream: a centred rarefaction fan, c(A) = x / t
 // between c(A_L) t and c(A_R) t (Lighthill & Whitham 1955; LeVeque 2002, sec. 11.10).
-double rarefaction_area(double xi, double a_left, double a_right) {
-  const double c_left = kManning.celerity_m_s(a_left), c_right = kManning.celerity_m_s(a_right);
-  if (xi <= c_left) return a_left;
-  if (xi >= c_right) return a_right;
-  const double m = kManning.exponent();
-  return std::pow(xi / (m * kManning.alpha()), 1.0 / (m - 1.0));
-}
-
 double rarefaction_l1_error(SchemeKind scheme, int cells, double* fan_width_out = nullptr) {
-  const double a_left = 10.0, a_right = 40.0, x_jump = 500.0, length = 4000.0, t_end = 600.0;
+  const double a_left = kFanProblem.a_left_m2, a_right = kFanProblem.a_right_m2;
+  const double x_jump = kFanProblem.x_jump_m, length = kFanProblem.length_m, t_end = 600.0;
   const double dx = length / cells;
   KinematicReach<PowerLawFlux> reach({"fan", length, cells}, kManning, options_for(scheme));
-  reach.set_initial_areas(riemann_state(cells, dx, x_jump, a_left, a_right));
+  reach.set_initial_areas(kFanProblem.initial_areas_m2(cells));
   const auto inflow = PiecewiseLinearSeries::constant(kManning.discharge_m3s(a_left));
   (void)reach.advance(0.0, t_end, inflow, LateralInflow::none());
   double err = 0.0;
   for (int i = 0; i < cells; ++i) {
     const double xi = (cell_center_m(i, dx) - x_jump) / t_end;
-    err += std::abs(reach.cell_area_m2()[static_cast<std::size_t>(i)] - rarefaction_area(xi, a_left, a_right)) * dx;
+    err += std::abs(reach.cell_area_m2()[static_cast<std::size_t>(i)] - kFanProblem.rarefaction_area_m2(kManning, xi)) * dx;
   }
   const double fan_width = (kManning.celerity_m_s(a_right) - kManning.celerity_m_s(a_left)) * t_end;
   if (fan_width_out) *fan_width_out = fan_width;

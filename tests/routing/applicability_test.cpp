@@ -8,6 +8,7 @@
 #include <cmath>
 
 #include "freshet/core/error.hpp"
+#include "freshet/verification/problems.hpp"
 
 namespace freshet::routing {
 namespace {
@@ -29,11 +30,14 @@ TEST(WaveApplicability, ClosedFormsOnAnInventedReach) {
 
 // The 1978 paper states the criteria with the wave period T: T S0 u0/d0 >= 171 (kinematic)
 // and T S0 (g/d0)^(1/2) >= 30 (diffusion). On the same invented reach, the time of rise that
-// puts the wave on each boundary with T = 2 t_r must give freshet's t_r numbers 85.5 and 15.
+// puts the wave on each boundary with T = 2 t_r must give freshet's t_r numbers 85.5 and 15
+// (the reach and the kinematic boundary: freshet/verification/problems.hpp, PonceReach).
 TEST(WaveApplicability, MatchesThePaperCriteriaWithAWavePeriodOfTwiceTheRise) {
-  const double s0 = 0.002, u0 = 1.8, d0 = 2.4;
-  const double kinematic_boundary_s = 171.0 * d0 / (s0 * u0) / 2.0;
-  EXPECT_NEAR(wave_applicability(kinematic_boundary_s, s0, u0, d0).kinematic_number, 85.5, 1e-9);
+  const verification::PonceReach reach;
+  const double s0 = reach.bed_slope, u0 = reach.velocity_m_s, d0 = reach.depth_m;
+  const double kinematic_boundary_s = reach.kinematic_boundary_rise_s();
+  EXPECT_NEAR(wave_applicability(kinematic_boundary_s, s0, u0, d0).kinematic_number,
+              reach.kinematic_period_number / 2.0, 1e-9);
   EXPECT_TRUE(wave_applicability(kinematic_boundary_s, s0, u0, d0).kinematic_ok);
   const double diffusion_boundary_s = 30.0 / (s0 * std::sqrt(9.80665 / d0)) / 2.0;
   EXPECT_NEAR(wave_applicability(diffusion_boundary_s, s0, u0, d0).diffusion_number, 15.0, 1e-9);

@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "freshet/routing/kinematic_reach.hpp"
+#include "freshet/verification/problems.hpp"
 #include "routing_test_support.hpp"
 
 namespace freshet::routing {
@@ -23,12 +24,12 @@ using testing::wide_manning;
 // x = xi + A0(xi) t first cross at t_b = -1 / min A0'(xi) (Whitham 1974, Linear and
 // Nonlinear Waves, eq. 2.14; LeVeque 2002, Finite Volume Methods for Hyperbolic Problems,
 // sec. 11.3). min A0' is at xi* = x0 + w / sqrt(2): A0'(xi*) = -sqrt(2) e^(-1/2) / w, so
-// t_b = w e^(1/2) / sqrt(2), and the break is at x_b = xi* + A0(xi*) t_b.
-constexpr double kX0 = 3.0, kWidth = 1.0;
-double gaussian_bump(double x) { return 1.0 + std::exp(-std::pow((x - kX0) / kWidth, 2)); }
-const double kBreakTime = kWidth * std::exp(0.5) / std::sqrt(2.0);
-const double kBreakOrigin = kX0 + kWidth / std::sqrt(2.0);
-const double kBreakPosition = kBreakOrigin + gaussian_bump(kBreakOrigin) * kBreakTime;
+// t_b = w e^(1/2) / sqrt(2), and the break is at x_b = xi* + A0(xi*) t_b. The bump (x0 = 3,
+// w = 1) is written once in freshet/verification/problems.hpp, shared with `freshet verify`.
+const verification::BurgersBump kBump;
+double gaussian_bump(double x) { return kBump.initial_area_m2(x); }
+const double kBreakTime = kBump.breaking_time_s();
+const double kBreakPosition = kBump.breaking_position_m();
 
 TEST(PredictBreaking, FromProfileMatchesExactBurgersBreakingTime) {
   std::vector<double> x, a;

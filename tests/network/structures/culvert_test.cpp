@@ -8,6 +8,7 @@
 #include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
+#include "freshet/verification/problems.hpp"
 
 namespace freshet::network::structures {
 namespace {
@@ -15,17 +16,9 @@ namespace {
 constexpr double kG = units::kGravity_m_s2;
 constexpr double kPi = std::numbers::pi;
 
-CulvertSpec concrete_pipe(double d, double length, double fall) {
-  CulvertSpec s;
-  s.shape = BarrelShape::circular;
-  s.rise_m = d;
-  s.length_m = length;
-  s.inlet_invert_stage_m = 100.0;
-  s.outlet_invert_stage_m = 100.0 - fall;
-  s.manning_n = 0.012;
-  s.inlet = InletType::concrete_square_edge_headwall;
-  return s;
-}
+// A concrete pipe, square edge with headwall, n = 0.012 (freshet/verification/problems.hpp,
+// shared with `freshet verify`).
+using verification::concrete_pipe;
 
 // Reference: FHWA HDS-5 (Schall et al. 2012), Appendix A, Table A.1, as reproduced by a
 // third-party page (tbn2net.com "Inlet Control Coefficients"); entries checked one by one.
@@ -79,13 +72,15 @@ TEST(Culvert, NormalDepthAndLargestPartFullDischarge) {
 // Reference: HDS-5 (2012) Appendix A submerged form HW/D = c (K_u Q/(A D^0.5))^2 + Y - 0.5 S,
 // K_u = 1.811, with Table A.1 constants (c = 0.0398, Y = 0.67: recalled, then matched against
 // a third-party reproduction of Table A.1; HDS-5 original not at hand). The form is evaluated
-// in the test, independently of the implementation's code path.
+// by verification::hds5_submerged_headwater_m (shared with `freshet verify`), independently of
+// the implementation's code path.
 TEST(Culvert, InletControlSubmergedFromTheFormula) {
   const Culvert pipe(concrete_pipe(1.2, 40.0, 0.4), "pipe");  // S = 0.01
   const double a = kPi * 1.44 / 4.0;
   const double x = 1.811 * 3.0 / (a * std::sqrt(1.2));
-  ASSERT_GT(x, 4.0);
-  EXPECT_NEAR(pipe.inlet_control_depth_m(3.0), 1.2 * (0.0398 * x * x + 0.67 - 0.5 * 0.01), 1e-12);
+  ASSERT_GT(x, 4.0);  // submerged
+  EXPECT_NEAR(pipe.inlet_control_depth_m(3.0),
+              verification::hds5_submerged_headwater_m(3.0, 1.2, 0.01), 1e-12);
 }
 
 // Reference: HDS-5 (2012) Appendix A unsubmerged form 1,

@@ -10,15 +10,14 @@
 #include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
 #include "freshet/network/structures/outlets.hpp"
+#include "freshet/verification/problems.hpp"
 
 namespace freshet::network::structures {
 namespace {
 
-// Linear reservoir O = S / K: a prismatic pool of 1 m2 whose outflow is stage / K.
-LevelPool linear_reservoir(double k_s, LevelPoolOptions options = {}) {
-  return LevelPool("linear reservoir", StageStorage::prismatic(0.0, 1.0, 0.0, "lr"),
-                   [k_s](double h) { return h > 0.0 ? h / k_s : 0.0; }, options);
-}
+// Linear reservoir O = S / K: a prismatic pool of 1 m2 whose outflow is stage / K
+// (freshet/verification/problems.hpp, shared with `freshet verify`).
+using verification::linear_reservoir;
 
 // Reference: linear reservoir dS/dt = I - S/K with constant inflow from empty has
 // O(t) = I (1 - exp(-t/K)) (Chow, Maidment and Mays 1988, Applied Hydrology, ch. 8,
@@ -91,44 +90,26 @@ TEST(LevelPool, TableMethodMatchesGeneralStepOnLinearReservoir) {
 
 // Textbook worked example: Chow, Maidment and Mays (1988), Applied Hydrology, McGraw-Hill,
 // Examples 8.2.1 and 8.2.2 (storage-outflow function and level-pool routing) -- FROM MEMORY:
-// the data and the result below were recalled without the book at hand. A detention basin
-// with vertical walls and a surface area of 1 acre drains through a pipe whose outflow at
-// 0.5 ft stage steps is tabulated; the inflow rises by 60 cfs every 10 min to 360 cfs at
-// 60 min and falls by 40 cfs every 10 min to zero at 150 min. Storage-indication routing
-// with dt = 10 min gives a peak outflow of about 270 cfs at 80 min, 20 min after the inflow
-// peak (outflow peaks where it crosses the falling inflow, as level-pool routing must).
-// The book's first 2S/dt + O column values (75.6, 153.2, 234.8, 320.4 cfs) are also checked.
-struct ChowDetentionExample {
-  static constexpr double kDt_s = 600.0;
-  std::vector<double> stage_ft, outflow_cfs, inflow_cfs;
-  ChowDetentionExample() {
-    outflow_cfs = {0,   3,   8,   17,  30,  43,  60,  78,  97,  117, 137,
-                   156, 173, 190, 205, 218, 231, 242, 253, 264, 275};
-    for (std::size_t k = 0; k < outflow_cfs.size(); ++k) stage_ft.push_back(0.5 * static_cast<double>(k));
-    inflow_cfs = {0, 60, 120, 180, 240, 300, 360, 320, 280, 240, 200, 160, 120, 80, 40, 0,
-                  0, 0,  0,   0,   0,   0};
-  }
-};
+// the data and the result were recalled without the book at hand. The example (1-acre
+// vertical-walled basin, tabulated pipe outflow, 0-360-0 cfs inflow, peak about 270 cfs at
+// 80 min, the first 2S/dt + O values) is written once in freshet/verification/problems.hpp,
+// shared with `freshet verify`. Outflow peaks where it crosses the falling inflow, as
+// level-pool routing must.
+using verification::ChowDetentionExample;
 
 TEST(LevelPool, ChowDetentionExampleTableMethod) {
   const ChowDetentionExample ex;
   const double ft3 = units::kCubicMetresPerCubicFoot;
-  std::vector<double> storage_m3, outflow_m3s, inflow_m3s;
-  for (std::size_t k = 0; k < ex.stage_ft.size(); ++k) {
-    storage_m3.push_back(43560.0 * ex.stage_ft[k] * ft3);  // 1 acre = 43 560 ft2
-    outflow_m3s.push_back(ex.outflow_cfs[k] * ft3);
+  const std::vector<double> storage_m3 = ex.storage_m3(), outflow_m3s = ex.outflow_m3s();
+  for (std::size_t k = 1; k <= ex.storage_indication_cfs.size(); ++k) {
+    const double si = 2.0 * storage_m3[k] / ex.dt_s + outflow_m3s[k];
+    EXPECT_NEAR(si / ft3, ex.storage_indication_cfs[k - 1], 0.05) << "2S/dt + O at row " << k;
   }
-  const double si_cfs[] = {75.6, 153.2, 234.8, 320.4};
-  for (std::size_t k = 1; k <= 4; ++k) {
-    const double si = 2.0 * storage_m3[k] / ex.kDt_s + outflow_m3s[k];
-    EXPECT_NEAR(si / ft3, si_cfs[k - 1], 0.05) << "2S/dt + O at row " << k;
-  }
-  for (double q : ex.inflow_cfs) inflow_m3s.push_back(q * ft3);
-  const std::vector<double> out = route_storage_indication(storage_m3, outflow_m3s, ex.kDt_s,
-                                                           inflow_m3s, 0.0);
+  const std::vector<double> out = route_storage_indication(storage_m3, outflow_m3s, ex.dt_s,
+                                                           ex.inflow_m3s(), 0.0);
   const auto peak = std::max_element(out.begin(), out.end());
-  EXPECT_NEAR(*peak / ft3, 270.0, 0.5);
-  EXPECT_EQ(peak - out.begin(), 8) << "peak at 80 min";
+  EXPECT_NEAR(*peak / ft3, ex.peak_outflow_cfs, 0.5);
+  EXPECT_EQ(static_cast<double>(peak - out.begin()) * ex.dt_s, ex.peak_time_s) << "peak at 80 min";
 }
 
 // The general step (what the network driver uses) on the same example: the stage-storage
@@ -155,36 +136,33 @@ TEST(LevelPool, ChowDetentionExampleGeneralStep) {
                  rating);
   pool.reset(0.0, 0.0);
   for (std::size_t j = 0; j + 1 < ex.inflow_cfs.size(); ++j) {
-    const double t0 = static_cast<double>(j) * ex.kDt_s;
-    pool.advance(t0, t0 + ex.kDt_s, 0.5 * (ex.inflow_cfs[j] + ex.inflow_cfs[j + 1]) * ft3);
+    const double t0 = static_cast<double>(j) * ex.dt_s;
+    pool.advance(t0, t0 + ex.dt_s, 0.5 * (ex.inflow_cfs[j] + ex.inflow_cfs[j + 1]) * ft3);
   }
-  EXPECT_NEAR(pool.peaks().peak_outflow_m3s / ft3, 270.0, 0.5);
-  EXPECT_DOUBLE_EQ(pool.peaks().time_of_peak_outflow_s, 80.0 * 60.0);
+  EXPECT_NEAR(pool.peaks().peak_outflow_m3s / ft3, ex.peak_outflow_cfs, 0.5);
+  EXPECT_DOUBLE_EQ(pool.peaks().time_of_peak_outflow_s, ex.peak_time_s);
   EXPECT_LT(std::abs(pool.ledger().balance_error_m3()), 1e-12 * pool.ledger().supplied_m3());
 }
 
 // Reference: a prismatic pool of area A behind a weir draining with no inflow,
 // A dH/dt = -C L H^1.5, has H(t) = H0 / (1 + C L sqrt(H0) t / (2A))^2 (separation of
-// variables, derived here); under constant inflow Q the pool settles at the weir head
-// H = (Q / (C L))^(2/3) exactly.
+// variables); under constant inflow Q the pool settles at the weir head H = (Q / (C L))^(2/3)
+// exactly (the pool and both closed forms: freshet/verification/problems.hpp, WeirPool).
 TEST(LevelPool, WeirPoolDrainsAsClosedFormAndSettlesAtEquilibriumHead) {
-  const double area = 5000.0, c = 1.70, length = 3.0, crest = 100.0, h0 = 1.2;
-  const RectangularWeir weir{.crest_stage_m = crest, .length_m = length, .coefficient_si = c};
-  LevelPoolOptions opt;
-  opt.max_substep_s = 10.0;
-  LevelPool pool("pond", StageStorage::prismatic(crest, area, 0.0, "pond"),
-                 [weir](double h) { return weir.discharge_m3s(h); }, opt);
+  const verification::WeirPool w;
+  const double crest = w.crest_stage_m, h0 = 1.2;
+  LevelPool pool = w.make(10.0);
   pool.reset(0.0, crest + h0);
   for (int j = 0; j < 60; ++j) {
     pool.advance(j * 60.0, (j + 1) * 60.0, 0.0);
     const double t = (j + 1) * 60.0;
-    const double exact = h0 / std::pow(1.0 + c * length * std::sqrt(h0) * t / (2.0 * area), 2.0);
+    const double exact = w.draining_head_m(h0, t);
     // Trapezoidal truncation at 10 s sub-steps against a ~600 s time constant: < 1e-5 m.
     EXPECT_NEAR(pool.state().stage_m - crest, exact, 1.5e-5) << t;
   }
   const double q = 4.0;
   for (int j = 60; j < 60 + 400; ++j) pool.advance(j * 60.0, (j + 1) * 60.0, q);
-  EXPECT_NEAR(pool.state().stage_m - crest, std::pow(q / (c * length), 2.0 / 3.0), 1e-9);
+  EXPECT_NEAR(pool.state().stage_m - crest, w.equilibrium_head_m(q), 1e-9);
   EXPECT_NEAR(pool.state().outflow_m3s, q, 1e-8);
 }
 

@@ -1,9 +1,11 @@
-// Built-in verification cases of `freshet verify` (docs/verification.md).
+// The verification cases: the library behind `freshet verify` (docs/verification.md) and
+// tests/verification.
 //
 // Each case runs the library on one published problem and compares one quantity with the
 // published value: a number from a handbook, a manual or a textbook worked example, or a
 // published closed-form solution evaluated exactly for the case's own parameters. Values are
-// in the unit they were published in (ft, in, cm, h, ...), stated by `unit`.
+// in the unit they were published in (ft, in, cm, h, ...), stated by `unit`. The problems
+// themselves are written once, in problems.hpp, which the module tests build on too.
 //
 //   for (const VerificationCase& c : verification_cases()) {
 //     CaseResult r = run_case(c, 1.0);
@@ -15,7 +17,7 @@
 #include <string>
 #include <string_view>
 
-namespace freshet::cli {
+namespace freshet::verification {
 
 enum class ToleranceKind { absolute, relative };
 
@@ -39,6 +41,9 @@ struct VerificationCase {
 // The registered cases, in report order (grouped by module).
 std::span<const VerificationCase> verification_cases();
 
+// The case with this id, or nullptr.
+const VerificationCase* find_case(std::string_view id);
+
 struct CaseResult {
   const VerificationCase* verification_case = nullptr;
   double published = 0.0;  // after the self-test factor
@@ -56,4 +61,4 @@ CaseResult run_case(const VerificationCase& verification_case, double published_
 bool within_tolerance(const VerificationCase& verification_case, double published,
                       double freshet);
 
-}  // namespace freshet::cli
+}  // namespace freshet::verification
