@@ -28,25 +28,43 @@ void ClockOptions::validate() const {
 // The counts are judged as doubles, before any conversion to an integer: a count that is not
 // finite or does not fit would otherwise wrap (a 1e-300 s coupling step once gave a run of
 // zero steps that wrote its initial state as the result).
+ClockOptions::CountFault ClockOptions::count_fault() const {
+  const double n = (end_s - start_s) / output_interval_s;
+  if (!(n >= 1.0 - 1e-9)) return CountFault::output_interval_longer_than_run;
+  if (!(output_count() <= kMaxCouplingSteps)) return CountFault::too_many_outputs;
+  if (std::abs(n - std::round(n)) > 1e-9 * std::max(1.0, n)) {
+    return CountFault::output_interval_not_whole;
+  }
+  if (!(coupling_step_count() <= kMaxCouplingSteps)) return CountFault::too_many_coupling_steps;
+  return CountFault::none;
+}
+
 void ClockOptions::check_counts(ProblemList& p) const {
   const double length_s = end_s - start_s;
   const double n = length_s / output_interval_s;
-  if (!(n >= 1.0 - 1e-9)) {
-    p.add("output_interval", "= " + format_value(output_interval_s) +
-                                 " s: longer than the run (" + format_value(length_s) + " s)");
-  } else if (!(output_count() <= kMaxCouplingSteps)) {
-    p.add("output_interval", "= " + format_value(output_interval_s) + " s: gives " +
-                                 format_value(n) + " output times, more than can be counted "
-                                 "exactly (2^53)");
-  } else if (std::abs(n - std::round(n)) > 1e-9 * std::max(1.0, n)) {
-    p.add("output_interval", "= " + format_value(output_interval_s) +
-                                 " s: must divide the run length (" + format_value(length_s) +
-                                 " s) into whole steps");
-  } else if (!(coupling_step_count() <= kMaxCouplingSteps)) {
-    p.add("coupling_step", "= " + format_value(max_coupling_step_s) + " s: gives " +
-                               format_value(coupling_step_count()) +
-                               " coupling steps, more than can be counted exactly (2^53); "
-                               "use a longer step");
+  switch (count_fault()) {
+    case CountFault::none:
+      return;
+    case CountFault::output_interval_longer_than_run:
+      p.add("output_interval", "= " + format_value(output_interval_s) +
+                                   " s: longer than the run (" + format_value(length_s) + " s)");
+      return;
+    case CountFault::too_many_outputs:
+      p.add("output_interval", "= " + format_value(output_interval_s) + " s: gives " +
+                                   format_value(n) + " output times, more than can be counted "
+                                   "exactly (2^53)");
+      return;
+    case CountFault::output_interval_not_whole:
+      p.add("output_interval", "= " + format_value(output_interval_s) +
+                                   " s: must divide the run length (" + format_value(length_s) +
+                                   " s) into whole steps");
+      return;
+    case CountFault::too_many_coupling_steps:
+      p.add("coupling_step", "= " + format_value(max_coupling_step_s) + " s: gives " +
+                                 format_value(coupling_step_count()) +
+                                 " coupling steps, more than can be counted exactly (2^53); "
+                                 "use a longer step");
+      return;
   }
 }
 

@@ -561,6 +561,24 @@ TEST(StudyLoad, ClockAndBlockRulesNameTheKeysAtTheirLines) {
                        {"field 'step_min' = 45 min: must not exceed duration_min = 30"}));
 }
 
+// An output interval longer than the run was refused by the clock in its own words, at the
+// [study] line: "study, field 'output_interval' = 7200 s: longer than the run". It is now said
+// with the file's key, at its line, in minutes. (The rule: a run has at least one output
+// interval; network::ClockOptions::count_fault.)
+TEST(StudyLoad, OutputIntervalLongerThanTheRunIsNamedByItsKeyAtItsLine) {
+  std::string head = kHead;
+  head.replace(head.find("output_interval_min = 5.0"), 25, "output_interval_min = 120.0");
+  Fixture f(head + kGoodNetwork);
+  ASSERT_EQ(f.problems().size(), 1u) << f.what;
+  EXPECT_TRUE(has_line(f.what, f.at("output_interval_min"),
+                       {"study, field 'output_interval_min' = 120 min: must divide the run "
+                        "(duration_h = 1, i.e. 60 min) into whole output intervals; it is "
+                        "longer than the run"}))
+      << f.what;
+  EXPECT_EQ(f.what.find("'output_interval'"), std::string::npos) << f.what;
+  EXPECT_EQ(f.what.find(" s:"), std::string::npos) << "no internal seconds: " << f.what;
+}
+
 // A CSV file that cannot be opened is reported at the key that names it.
 TEST(StudyLoad, UnreadableCsvIsReportedAtItsFileKey) {
   Fixture f(kHead + kGoodNetwork, {});

@@ -223,6 +223,23 @@ TEST(ClockOptions, RefusesCountsThatAreZeroOrNotFinite) {
               ::testing::HasSubstr("coupling steps, more than can be counted"));
 }
 
+// The rules validate() words with the clock's field names are also told apart, so that a
+// reader can say them with its own keys (io names output_interval_min and coupling_step_s).
+TEST(ClockOptions, CountFaultTellsTheRulesApart) {
+  using Fault = ClockOptions::CountFault;
+  EXPECT_EQ((ClockOptions{0.0, 3600.0, 300.0, 60.0}.count_fault()), Fault::none);
+  EXPECT_EQ((ClockOptions{0.0, 3600.0, 7200.0, 60.0}.count_fault()),
+            Fault::output_interval_longer_than_run);
+  EXPECT_EQ((ClockOptions{0.0, 3600.0, 1e-300, 1e-300}.count_fault()), Fault::too_many_outputs);
+  EXPECT_EQ((ClockOptions{0.0, 1000.0, 300.0, 60.0}.count_fault()),
+            Fault::output_interval_not_whole);
+  EXPECT_EQ((ClockOptions{0.0, 3600.0, 300.0, 1e-300}.count_fault()),
+            Fault::too_many_coupling_steps);
+  // validate() refuses exactly the clocks count_fault() faults.
+  EXPECT_NO_THROW((ClockOptions{0.0, 3600.0, 300.0, 60.0}.validate()));
+  EXPECT_THROW((ClockOptions{0.0, 1000.0, 300.0, 60.0}.validate()), InputError);
+}
+
 TEST(Simulate, RefusesARunThatLosesWaterNamingTheElement) {
   Model m = spring_through(std::make_unique<LeakyJunction>("meet", 0.999));
   RecordingSink sink;

@@ -51,6 +51,18 @@ struct ClockOptions {
   // 2^53: every count up to here, and every time built from it, is exact in a double.
   static constexpr double kMaxCouplingSteps = 9007199254740992.0;
 
+  // The first rule on the counts that the clock breaks, for a clock whose times are finite,
+  // whose end is after its start and whose intervals are positive (validate() says so with
+  // the clock's own field names; io says it with the basin file's keys, at their lines).
+  enum class CountFault {
+    none,
+    output_interval_longer_than_run,  // fewer than one output interval in the run
+    too_many_outputs,                 // more than kMaxCouplingSteps output times
+    output_interval_not_whole,        // the interval does not divide the run (to 1e-9)
+    too_many_coupling_steps,          // more than kMaxCouplingSteps coupling steps
+  };
+  [[nodiscard]] CountFault count_fault() const;
+
  private:
   void check_counts(ProblemList& problems) const;
 };

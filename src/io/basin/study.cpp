@@ -79,6 +79,43 @@ routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::S
   return text.empty() ? fallback : routing::parse_scheme_kind(text);
 }
 
+// The clock's rules on its counts (network::ClockOptions::count_fault), said with the file's
+// keys, at their lines and in the file's units; the clock's own wording names its fields in s.
+void report_clock_counts(FieldReader& r, const StudySettings& s) {
+  const auto positive = [](double v) { return std::isfinite(v) && v > 0.0; };
+  if (!positive(s.duration_s) || !positive(s.output_interval_s)) return;  // reported already
+  const std::string interval =
+      "= " + format_value(s.output_interval_s / units::kSecondsPerMinute) + " min: ";
+  const std::string divide = "must divide the run (duration_h = " +
+                             format_value(s.duration_s / units::kSecondsPerHour) + ", i.e. " +
+                             format_value(s.duration_s / units::kSecondsPerMinute) +
+                             " min) into whole output intervals";
+  const network::ClockOptions clock = s.clock();
+  using Fault = network::ClockOptions::CountFault;
+  switch (clock.count_fault()) {
+    case Fault::none:
+      return;
+    case Fault::output_interval_longer_than_run:
+      r.report("output_interval_min", interval + divide + "; it is longer than the run");
+      return;
+    case Fault::output_interval_not_whole:
+      r.report("output_interval_min", interval + divide);
+      return;
+    case Fault::too_many_outputs:
+      r.report("output_interval_min", interval + "gives " + format_value(clock.output_count()) +
+                                          " output times, more than can be counted exactly "
+                                          "(2^53)");
+      return;
+    case Fault::too_many_coupling_steps:
+      if (!positive(s.coupling_step_s)) return;  // reported already
+      r.report("coupling_step_s", "= " + format_value(s.coupling_step_s) + " s: gives " +
+                                      format_value(clock.coupling_step_count()) +
+                                      " coupling steps over the run, more than can be counted "
+                                      "exactly (2^53); use a longer step");
+      return;
+  }
+}
+
 }  // namespace
 
 void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems) {
@@ -107,18 +144,7 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
       ranged(r, u, "output_interval_min", Q::output_interval_min) * units::kSecondsPerMinute;
   settings.coupling_step_s =
       optional_ranged(r, u, "coupling_step_s", Q::coupling_step_s).value_or(60.0);
-  const double intervals = settings.duration_s / settings.output_interval_s;  // NaN if either is
-  if (std::isfinite(intervals) && intervals > 1.0 &&
-      std::abs(intervals - std::round(intervals)) > 1e-9 * intervals) {
-    // The clock's own rule (network::ClockOptions::validate), said with the file's keys. An
-    // interval longer than the run is left to the clock.
-    r.report("output_interval_min",
-             "= " + format_value(settings.output_interval_s / units::kSecondsPerMinute) +
-                 " min: must divide the run (duration_h = " +
-                 format_value(settings.duration_s / units::kSecondsPerHour) + ", i.e. " +
-                 format_value(settings.duration_s / units::kSecondsPerMinute) +
-                 " min) into whole output intervals");
-  }
+  report_clock_counts(r, settings);
   if (settings.coupling_step_s > settings.output_interval_s) {  // false when either is NaN
     r.report("coupling_step_s",
              "= " + format_value(settings.coupling_step_s) + " s: must be <= the output "
@@ -150,6 +176,8 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   }
   r.finish();
   if (problems.size() != before) return;  // the clock's own checks would repeat them
+  // Every rule of the clock is said above with the file's keys; this guard stays so that a
+  // rule added to the clock later is still refused (at the [study] line, in its own words).
   try {
     settings.clock().validate();
   } catch (const InputError& e) {
