@@ -287,6 +287,37 @@ TEST(RequireSoundRun, RefusesNoStepsNaNVolumesAndTransferMismatch) {
   EXPECT_THROW(require_sound_run(r), NumericalError);
 }
 
+// The enforcement itself, on constructed ledgers either side of the tolerance (1e-9 of the
+// water that passed; BalanceTolerance). Reference: the definition in driver.hpp, by hand:
+// 1000 m3 in, 600 m3 out, 400 m3 stored less 2e-6 m3 -> 2e-6 / 1000 = 2e-9, refused;
+// less 5e-7 m3 -> 5e-10, accepted. The refusal names the element, its volumes and says that
+// the results are not written (the CLI maps it to exit 3: tests/cli/exit_codes_test.cpp).
+TEST(RequireSoundRun, RefusesAnElementJustBeyondTheToleranceNamingItAndItsVolumes) {
+  RunSummary r;
+  r.coupling_steps = 12;
+  VolumeLedger fine;
+  fine.inflow_m3 = 10.0;
+  fine.outflow_m3 = 10.0;
+  VolumeLedger pond;
+  pond.inflow_m3 = 1000.0;
+  pond.outflow_m3 = 600.0;
+  pond.storage_m3 = 400.0 - 5e-7;
+  r.balances = {{"spring", fine}, {"pond", pond}, {"out", fine}};
+  EXPECT_NO_THROW(require_sound_run(r));
+  r.balances[1].ledger.storage_m3 = 400.0 - 2e-6;
+  try {
+    require_sound_run(r);
+    FAIL() << "an element losing 2e-9 of its water was accepted";
+  } catch (const NumericalError& e) {
+    EXPECT_THAT(e.what(), ::testing::MatchesRegex("element 'pond': volume balance error "
+                                                  "(2|1\\.99999[0-9]*)e-06 m3 "
+                                                  "\\((2|1\\.99999[0-9]*)e-09 of .*"));
+    EXPECT_THAT(e.what(), ::testing::HasSubstr("of the water that passed; the limit is 1e-09"));
+    EXPECT_THAT(e.what(), ::testing::HasSubstr("supplied 1000 m3, out 600 m3, lost 0 m3"));
+    EXPECT_THAT(e.what(), ::testing::HasSubstr("the results are not written"));
+  }
+}
+
 TEST(RelativeImbalance, IsJudgedAgainstTheWaterThatPassedOrTheFloor) {
   VolumeLedger l;
   l.inflow_m3 = 100.0;
