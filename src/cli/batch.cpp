@@ -143,7 +143,7 @@ std::string cell(const std::string& text, std::size_t width, bool right) {
 }
 
 std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
-                                   const std::vector<io::StationDescription>& stations) {
+                                   const std::vector<reporting::StationDescription>& stations) {
   std::ostringstream out;
   out << "Critical storm at each point (highest peak discharge, m3/s):\n";
   out << cell("point", 22);

@@ -56,7 +56,7 @@ std::string cell(const std::string& text, std::size_t width, bool right = false)
 // The storms giving the highest peak discharge at each station: one row per station with
 // the peak for every storm and the critical one.
 std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
-                                   const std::vector<io::StationDescription>& stations);
+                                   const std::vector<reporting::StationDescription>& stations);
 
 // Element reports (culvert crossings, detention basins, shocks, capacity) of one run.
 std::string format_notes(const io::RunOutcome& run);

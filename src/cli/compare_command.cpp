@@ -25,7 +25,7 @@ std::string signed_number(double v, int digits) {
 
 // One storm: rows per point of interest, one line per scenario (base first).
 std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
-                             const std::vector<io::StationDescription>& stations,
+                             const std::vector<reporting::StationDescription>& stations,
                              bool all_points) {
   std::size_t w_point = 6, w_scenario = 9;
   for (const auto& s : stations) w_point = std::max(w_point, s.id.size() + 2);
@@ -41,8 +41,8 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
       continue;
     }
     for (std::size_t k = 0; k < runs.size(); ++k) {
-      const io::StationPeak& p = runs[k]->peaks[i];
-      const io::StationPeak& b = base.peaks[i];
+      const reporting::StationPeak& p = runs[k]->peaks[i];
+      const reporting::StationPeak& b = base.peaks[i];
       out << cell(k == 0 ? stations[i].id : "", w_point)
           << cell(runs[k]->scenario_id.empty() ? "base" : runs[k]->scenario_id, w_scenario)
           << cell(number(p.peak_discharge_m3s, 3), 12, true)

@@ -44,7 +44,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
       std::cout << "  " << id << ": " << d.brief_report();
       if (d.shocks_found > 0) {
         const auto listed = std::count_if(r.summary.shocks.begin(), r.summary.shocks.end(),
-                                          [&id](const io::ShockRecord& s) { return s.element == id; });
+                                          [&id](const reporting::ShockRecord& s) { return s.element == id; });
         std::cout << " (" << listed << " with a jump of at least a tenth of the reach's peak, "
                   << "listed under Shocks)";
       }

@@ -12,6 +12,15 @@
 
 namespace freshet::io {
 
+using reporting::ApplicabilityWarning;
+using reporting::kNotApplicable;
+using reporting::MassBalanceRecord;
+using reporting::PairSummary;
+using reporting::RunSummary;
+using reporting::ShockRecord;
+using reporting::StationSummary;
+using reporting::WaveNumberRecord;
+
 namespace {
 
 // ---- text table ---------------------------------------------------------------------------

@@ -13,6 +13,7 @@
 
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
+#include "freshet/reporting/series_resample.hpp"
 #include "temp_dir.hpp"
 
 namespace freshet::io {
@@ -246,6 +247,22 @@ TEST(CsvSeries, ValuesAndTimesBeyondHardLimitsAreRefusedWithTheirLine) {
   const auto time = messages_of("time_h,discharge_m3s\n0,0\n1e306,1\n");
   ASSERT_EQ(time.size(), 1u);
   EXPECT_THAT(time[0], HasSubstr("more than 1000 years"));
+}
+
+// A series resampled to keep its volume (reporting/series_resample.hpp) keeps it through a CSV
+// file: the written digits round-trip. Reference volume: the trapezoid rule over the
+// breakpoints of a piecewise-linear series (exact for it).
+TEST(CsvSeries, ResampledVolumeSurvivesWritingAndReading) {
+  const PiecewiseLinearSeries q({0.0, 2820.0, 11580.0}, {1.5, 13.5, 1.5});
+  const auto r = reporting::resample_preserving_volume(q, 0.0, 300.0, 40,
+                                                       reporting::ResampleMethod::interval_volumes);
+  SeriesTable t;
+  t.times_s.assign(r.times_s().begin(), r.times_s().end());
+  t.values_si.assign(r.values().begin(), r.values().end());
+  const auto back = parse_series_csv(format_series_csv(t, {}), "mem.csv");
+  const PiecewiseLinearSeries b(back.times_s, back.values_si);
+  const double exact = q.integral(0.0, 12000.0);
+  EXPECT_LT(std::abs(b.integral(0.0, 12000.0) - exact) / exact, 1e-12);
 }
 
 }  // namespace

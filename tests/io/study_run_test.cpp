@@ -20,6 +20,9 @@ namespace {
 
 using testing::TempDir;
 using testing::write_text;
+using reporting::ApplicabilityWarning;
+using reporting::ShockRecord;
+using reporting::StationSummary;
 
 // Settings for `hours` of run at 5-minute output, and a 30-minute storm.
 std::string head(double hours) {

@@ -28,6 +28,7 @@
 #include "freshet/hydrology/hyetograph.hpp"
 #include "freshet/network/driver.hpp"
 #include "freshet/network/run_budget.hpp"
+#include "freshet/reporting/station.hpp"
 #include "freshet/routing/routing_options.hpp"
 
 namespace freshet::io {
@@ -66,14 +67,7 @@ struct ScenarioDefinition {
   std::string description;
 };
 
-// Where a station sits, for outputs.
-struct StationDescription {
-  std::string id;
-  network::ElementKind kind = network::ElementKind::junction;
-  std::string name;        // human label, e.g. "Mill Lane culvert"
-  std::string to;          // downstream element id ("" for outlets)
-  bool stage_is_elevation = false;  // stage is a water-surface elevation (else a depth)
-};
+using reporting::StationDescription;
 
 class Study {
  public:

@@ -19,8 +19,8 @@
 
 #include "freshet/io/atomic_file.hpp"
 #include "freshet/io/study.hpp"
-#include "freshet/io/summary.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/reporting/run_report.hpp"
 #include "freshet/routing/diagnostics.hpp"
 
 namespace freshet::io {
@@ -42,28 +42,12 @@ struct RunRequest {
   std::vector<std::string> profile_reaches;
 };
 
-// What one station did, for the cross-storm and cross-scenario tables.
-struct StationPeak {
-  std::string id;
-  std::string name;
-  network::ElementKind kind = network::ElementKind::junction;
-  double peak_discharge_m3s = kNotApplicable;
-  double peak_time_s = kNotApplicable;
-  double peak_stage_m = kNotApplicable;
-  bool stage_is_elevation = false;  // peak_stage_m is an elevation (else a depth)
-  double volume_m3 = kNotApplicable;
-  // Culvert crossings: whether and how long the road overtopped, e.g. "55 min" or "no";
-  // empty for other elements.
-  std::string overtopping;
-  double overtopping_s = kNotApplicable;
-};
-
 struct RunOutcome {
   std::string scenario_id;
   std::string storm_id;
-  RunSummary summary;                  // peaks, pairs, shocks, mass balance, warnings
+  reporting::RunSummary summary;       // peaks, pairs, shocks, mass balance, warnings
   network::RunSummary numerics;        // steps, wall time, ledgers
-  std::vector<StationPeak> peaks;      // one per station, model order
+  std::vector<reporting::StationPeak> peaks;  // one per station, model order
   // Per reach: scheme, steps taken and rejected, largest Courant number, volume balance,
   // shocks found, wall time.
   std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics;

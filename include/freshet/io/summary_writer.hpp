@@ -1,4 +1,4 @@
-// Writers for a RunSummary (summary.hpp): an aligned text table for the console, CSV files and
+// Writers for a reporting::RunSummary (freshet/reporting/summary.hpp): an aligned text table for the console, CSV files and
 // one JSON document, written next to the NetCDF output through atomic files. Every output
 // carries freshet::kCautionText. Field lists are in docs/outputs.md.
 //
@@ -12,20 +12,20 @@
 #include <vector>
 
 #include "freshet/io/atomic_file.hpp"
-#include "freshet/io/summary.hpp"
+#include "freshet/reporting/summary.hpp"
 
 namespace freshet::io {
 
 // Console table: stations, pairs, shocks, mass balance and warnings, columns aligned, units
 // in the headings (m3/s, h, m, m3), ending with the caution unless the caller prints it
 // itself at the end of a longer report (with_caution = false).
-std::string format_summary_table(const RunSummary& summary, bool with_caution = true);
+std::string format_summary_table(const reporting::RunSummary& summary, bool with_caution = true);
 
 // The run's warnings (applicability, backwater, pipes at capacity, coupling step, end of run),
 // one "  element: message" line each, in the summary's order (each element's together, in
 // network order); empty when there are none. The console table prints them under its
 // "Applicability warnings" heading.
-std::string format_warning_lines(const RunSummary& summary);
+std::string format_warning_lines(const reporting::RunSummary& summary);
 
 // Writes `<prefix>_stations.csv`, `<prefix>_pairs.csv` and `<prefix>_checks.csv` (shocks,
 // mass-balance records and applicability warnings, one row each); returns the paths written.
@@ -34,13 +34,13 @@ std::string format_warning_lines(const RunSummary& summary);
 // The three paths write_summary_csv() writes for `prefix`, in order.
 std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix);
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
-                                                     const RunSummary& summary,
+                                                     const reporting::RunSummary& summary,
                                                      Overwrite overwrite = Overwrite::no,
                                                      OutputSet* set = nullptr);
 
 // The whole summary as one JSON document (NaN as null), with "caution" and "units" members.
-std::string format_summary_json(const RunSummary& summary);
-void write_summary_json(const std::filesystem::path& path, const RunSummary& summary,
+std::string format_summary_json(const reporting::RunSummary& summary);
+void write_summary_json(const std::filesystem::path& path, const reporting::RunSummary& summary,
                         Overwrite overwrite = Overwrite::no, OutputSet* set = nullptr);
 
 }  // namespace freshet::io

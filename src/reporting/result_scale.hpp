@@ -5,10 +5,10 @@
 // into place.
 #pragma once
 
-#include "freshet/io/summary.hpp"
+#include "freshet/reporting/summary.hpp"
 #include "freshet/network/driver.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::reporting::detail {
 
 // The envelope of the world's record floods, as a unit discharge (m3/s per km2) at a drainage
 // area (km2): Creager, Justin & Hinds (1945), Q = 46 C A^(0.894 A^-0.048) ft3/s with A in mi2
@@ -23,4 +23,4 @@ void add_result_scale_warnings(const network::Model& model,
                                const std::vector<network::ElementReport>& reports,
                                RunSummary& summary);
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::reporting::detail

@@ -1,11 +1,11 @@
 // Run summary records and an online per-station accumulator.
 //
-// Header-only and numerics-free (standard library only), so the network driver can fill
-// these records without linking freshet::io; the writers live in summary_writer.hpp.
+// Header-only (standard library only). run_report.hpp fills these records from a run; the
+// file writers (text, CSV, JSON) live in freshet/io/summary_writer.hpp.
 // Units are SI and carried in the names; times are seconds since the run's time origin.
 // A quantity that does not apply is NaN (written as empty in CSV, null in JSON).
 //
-//   freshet::io::SummaryAccumulator acc;
+//   freshet::reporting::SummaryAccumulator acc;
 //   for (each output time t) acc.add_sample(t, q_m3s, stage_m);
 //   StationSummary s = acc.station_summary("mill-outlet", "Mill Lane outlet", rain_centroid_s);
 //   PairSummary p = compare_stations(upstream, downstream);
@@ -16,7 +16,7 @@
 #include <string>
 #include <vector>
 
-namespace freshet::io {
+namespace freshet::reporting {
 
 inline constexpr double kNotApplicable = std::numeric_limits<double>::quiet_NaN();
 
@@ -197,4 +197,4 @@ class SummaryAccumulator {
   bool has_handed_volume_ = false;
 };
 
-}  // namespace freshet::io
+}  // namespace freshet::reporting

@@ -11,10 +11,10 @@
 #include <span>
 #include <vector>
 
-#include "freshet/io/study.hpp"
+#include "freshet/reporting/station.hpp"
 #include "freshet/network/driver.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::reporting::detail {
 
 // A bounded record of one series: when full, every other sample is dropped and the
 // sampling stride doubles, so it keeps at most kCapacity samples spread over the whole run.
@@ -63,4 +63,4 @@ class RunWatch {
   bool started_ = false;
 };
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::reporting::detail

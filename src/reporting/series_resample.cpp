@@ -1,4 +1,4 @@
-#include "freshet/io/series_resample.hpp"
+#include "freshet/reporting/series_resample.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -6,7 +6,7 @@
 
 #include "freshet/core/error.hpp"
 
-namespace freshet::io {
+namespace freshet::reporting {
 
 namespace {
 
@@ -176,4 +176,4 @@ Problem resample_refusal(double dt_s, ResampleMethod method) {
   return Problem{"", 0, 0, "resampled series", "dt_s", "= " + format_value(dt_s) + ": " + why};
 }
 
-}  // namespace freshet::io
+}  // namespace freshet::reporting

@@ -7,9 +7,9 @@
 
 #include "freshet/core/error.hpp"
 #include "freshet/network/element.hpp"
-#include "reported_as.hpp"
+#include "freshet/reporting/reported_as.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::reporting::detail {
 
 namespace {
 
@@ -75,4 +75,4 @@ void add_result_scale_warnings(const network::Model& model,
   }
 }
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::reporting::detail

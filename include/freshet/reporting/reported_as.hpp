@@ -8,7 +8,7 @@
 
 #include "freshet/network/topology.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::reporting {
 
 enum class ReportedAs { reach, subcatchment, pool, passage };
 
@@ -35,4 +35,4 @@ constexpr bool is_subcatchment(network::ElementKind k) {
 }
 constexpr bool is_pool(network::ElementKind k) { return reported_as(k) == ReportedAs::pool; }
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::reporting

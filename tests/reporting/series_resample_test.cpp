@@ -1,7 +1,7 @@
 // Volume-preserving resampling. Reference volumes are areas of triangles and trapezoids
 // (elementary geometry: area = base * height / 2), and the exact integral of a piecewise-linear
 // function is the trapezoid rule over its breakpoints.
-#include "freshet/io/series_resample.hpp"
+#include "freshet/reporting/series_resample.hpp"
 
 #include <gtest/gtest.h>
 
@@ -12,9 +12,8 @@
 #include <optional>
 
 #include "freshet/core/error.hpp"
-#include "freshet/io/csv_series.hpp"
 
-namespace freshet::io {
+namespace freshet::reporting {
 namespace {
 
 // Triangular hydrograph: 0 at t = 0, peak 12 m3/s at 47 min, 0 again at 3 h 13 min; the
@@ -185,16 +184,5 @@ TEST(Resample, LocalCorrectionInvariantsOnRandomHydrographs) {
   RecordProperty("random_hydrographs_checked", checked);
 }
 
-TEST(Resample, VolumeSurvivesWritingAndReadingCsv) {
-  const auto q = triangle_on_base_flow();
-  const auto r = resample_preserving_volume(q, 0.0, 300.0, 40, ResampleMethod::interval_volumes);
-  SeriesTable t;
-  t.times_s.assign(r.times_s().begin(), r.times_s().end());
-  t.values_si.assign(r.values().begin(), r.values().end());
-  const auto back = parse_series_csv(format_series_csv(t, {}), "mem.csv");
-  const PiecewiseLinearSeries b(back.times_s, back.values_si);
-  EXPECT_LT(relative(b.integral(0.0, 12000.0), q.integral(0.0, 12000.0)), 1e-12);
-}
-
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::reporting

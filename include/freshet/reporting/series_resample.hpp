@@ -39,7 +39,7 @@
 
 #include "freshet/core/time_series.hpp"
 
-namespace freshet::io {
+namespace freshet::reporting {
 
 enum class ResampleMethod { interval_volumes, local_correction, scaled_samples };
 
@@ -63,4 +63,4 @@ std::optional<PiecewiseLinearSeries> try_resample_preserving_volume(
 // Why `method` could not resample at `dt_s`: the problem resample_preserving_volume throws.
 Problem resample_refusal(double dt_s, ResampleMethod method);
 
-}  // namespace freshet::io
+}  // namespace freshet::reporting

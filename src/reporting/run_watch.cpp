@@ -4,9 +4,9 @@
 #include <limits>
 
 #include "freshet/network/element.hpp"
-#include "reported_as.hpp"
+#include "freshet/reporting/reported_as.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::reporting::detail {
 
 namespace {
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
@@ -104,4 +104,4 @@ double RunWatch::rise_start_s(std::size_t i, double peak_time_s, double peak_m3s
   return series_[i].last_time_at_or_below(threshold, peak_time_s);
 }
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::reporting::detail

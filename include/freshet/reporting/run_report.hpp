@@ -1,0 +1,65 @@
+// What a run found, from the network and its in-memory record (run_recorder.hpp), with no
+// file: station summaries, upstream/downstream pairs, shocks, volume balances, Ponce numbers,
+// the warnings (kinematic-wave applicability, conduits at capacity, backwater from ponds,
+// coupling steps longer than a rise, peaks not reached by the end of the run, peaks out of
+// scale with the area draining to them), the per-station peaks for the cross-run tables, each
+// reach's numerics and each element's notes. Elements are read through their typed reports
+// (network::Element::report()), never through their concrete types.
+//
+//   RunRecorder recorder(model, stations);
+//   const network::RunSummary numerics = network::simulate(model, clock, recorder);
+//   const RunReport r = report_run(model, numerics, recorder, {title, "freshet 0.1", clock});
+//   for (const ApplicabilityWarning& w : r.summary.warnings) ...
+#pragma once
+
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "freshet/network/driver.hpp"
+#include "freshet/reporting/run_recorder.hpp"
+#include "freshet/reporting/station.hpp"
+#include "freshet/reporting/summary.hpp"
+#include "freshet/routing/diagnostics.hpp"
+
+namespace freshet::reporting {
+
+// What one station did, for the cross-storm and cross-scenario tables.
+struct StationPeak {
+  std::string id;
+  std::string name;
+  network::ElementKind kind = network::ElementKind::junction;
+  double peak_discharge_m3s = kNotApplicable;
+  double peak_time_s = kNotApplicable;
+  double peak_stage_m = kNotApplicable;
+  bool stage_is_elevation = false;  // peak_stage_m is an elevation (else a depth)
+  double volume_m3 = kNotApplicable;
+  // Culvert crossings: whether and how long the road overtopped, e.g. "55 min" or "no";
+  // empty for other elements.
+  std::string overtopping;
+  double overtopping_s = kNotApplicable;
+};
+
+struct ReportContext {
+  std::string title;   // the summary's title
+  std::string source;  // freshet version string
+  network::ClockOptions clock;  // the run's clock (its coupling step judges rises)
+};
+
+struct RunReport {
+  RunSummary summary;             // peaks, pairs, shocks, mass balance, warnings
+  std::vector<StationPeak> peaks;  // one per station, model order
+  // Per reach: scheme, steps taken and rejected, largest Courant number, volume balance,
+  // shocks found, wall time.
+  std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics;
+  // What each element found (shocks, conduits at capacity, culvert headwater and road
+  // overtopping, detention peaks): element id and one line of text, in network order.
+  std::vector<std::pair<std::string, std::string>> notes;
+};
+
+// `numerics` is what network::simulate returned for `model`; `recorder` recorded that run.
+// Warnings are grouped by element, in network order.
+RunReport report_run(const network::Model& model, const network::RunSummary& numerics,
+                     const RunRecorder& recorder, const ReportContext& context);
+
+}  // namespace freshet::reporting

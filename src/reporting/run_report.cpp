@@ -1,0 +1,353 @@
+#include "freshet/reporting/run_report.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <functional>
+#include <map>
+
+#include "freshet/core/error.hpp"
+#include "freshet/reporting/reported_as.hpp"
+#include "freshet/routing/applicability.hpp"
+#include "result_scale.hpp"
+
+namespace freshet::reporting {
+
+namespace {
+
+using network::ElementKind;
+using network::StationSample;
+
+// Inflow against outflow of every element fed by exactly one other station. Subcatchment
+// runoff entering along a reach is lateral inflow, not a station upstream (the pair's volume
+// change then shows it); into any other element it is a feeder of its own. At a confluence
+// the pair would compare a part with the whole, so confluences are left out.
+void add_pairs(const network::Model& model, RunSummary& summary) {
+  for (std::size_t i = 0; i < model.links.size(); ++i) {
+    const bool lateral = model.elements[i]->takes_lateral_inflow();
+    std::vector<std::size_t> feeders;
+    for (std::size_t u : model.topology.upstream[i]) {
+      if (!(lateral && model.links[u].kind == ElementKind::subcatchment)) feeders.push_back(u);
+    }
+    if (feeders.size() == 1) {
+      summary.pairs.push_back(compare_stations(summary.stations[feeders[0]], summary.stations[i]));
+    }
+  }
+}
+
+void add_balances(const network::RunSummary& numerics, RunSummary& summary) {
+  for (std::size_t i = 0; i < numerics.balances.size(); ++i) {
+    const network::VolumeLedger& l = numerics.balances[i].ledger;
+    MassBalanceRecord r;
+    r.element = numerics.balances[i].id;
+    r.inflow_volume_m3 = l.supplied_m3();
+    r.outflow_volume_m3 = l.outflow_m3 + l.loss_m3;
+    r.storage_change_m3 = l.storage_m3 - l.initial_storage_m3;
+    r.error_m3 = l.balance_error_m3();
+    r.relative_error = network::relative_imbalance(l);  // as the run's check judges it
+    summary.mass_balance.push_back(r);
+  }
+}
+
+std::string shock_fate(const routing::ShockReport& s) {
+  if (s.reached_outlet) {
+    return "reached the outlet at t = " + format_fixed(s.outlet_arrival_time_s / 60.0, 1) + " min";
+  }
+  if (s.ended) {
+    return "faded or merged in the reach after t = " + format_fixed(s.end_time_s / 60.0, 1) +
+           " min";
+  }
+  return "did not reach the outlet";
+}
+
+void add_shocks(const network::Model& model, const std::vector<network::ElementReport>& reports,
+                RunSummary& summary) {
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    if (!is_reach(reports[i].kind)) continue;
+    for (const routing::ShockReport& s : reports[i].reach().significant_shocks) {
+      ShockRecord r;
+      r.element = model.links[i].id;
+      r.time_s = s.formation_time_s;
+      r.chainage_m = s.formation_position_m;
+      r.message = "mean speed " + format_fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+                  format_fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " + shock_fate(s);
+      summary.shocks.push_back(r);
+    }
+  }
+}
+
+// A pond whose level rises above the water level at the outlet of the reach feeding it backs
+// water up the reach, which the kinematic wave cannot carry upstream.
+void add_backwater_warning(const network::Model& model,
+                           const RunRecorder& recorder,
+                           const std::vector<StationDescription>& stations,
+                           std::size_t i,
+                           RunSummary& summary) {
+  const std::ptrdiff_t down = model.topology.downstream[i];
+  if (down < 0) return;
+  const auto d = static_cast<std::size_t>(down);
+  if (!is_pool(model.links[d].kind)) return;
+  const std::string& id = model.links[i].id;
+  if (!stations[i].stage_is_elevation) {
+    summary.warnings.push_back({id,
+                                "drains into the pond at '" + model.links[d].id +
+                                    "' but has no outlet_invert, so "
+                                    "backwater from the pond could not be checked"});
+    return;
+  }
+  const double excess_m = recorder.backwater_excess_m(i);
+  if (!(excess_m > 0.0)) return;
+  summary.warnings.push_back({id,
+                              "the pond at '" + model.links[d].id + "' stood up to " +
+                                  format_fixed(excess_m, 2) +
+                                  " m above this reach's computed outlet water level (at t = " +
+                                  format_fixed(recorder.backwater_time_s(i) / 60.0, 0) +
+                                  " min): backwater into the "
+                                  "reach is not represented by the kinematic wave"});
+}
+
+// Kinematic-wave applicability per reach, backwater from pools, conduits at capacity.
+void add_warnings(const network::Model& model,
+                  const std::vector<network::ElementReport>& reports,
+                  const RunRecorder& recorder,
+                  const std::vector<StationDescription>& stations,
+                  RunSummary& summary) {
+  for (std::size_t i = 0; i < model.elements.size(); ++i) {
+    if (!is_reach(reports[i].kind)) continue;
+    const network::ReachFacts& reach = reports[i].reach();
+    const StationSample& p = recorder.at_peak(i);
+    const double tp_s = recorder.rise_duration_s(i);
+    const double slope = reach.bed_slope;
+    if (p.depth_m > 0.0 && p.velocity_m_s > 0.0 && tp_s > 0.0 && slope > 0.0) {
+      // Ponce (1989) in the time-of-rise form (routing/applicability.hpp).
+      const routing::WaveApplicability a =
+          routing::wave_applicability(tp_s, slope, p.velocity_m_s, p.depth_m);
+      summary.wave_numbers.push_back(
+          {model.links[i].id, tp_s, a.kinematic_number, a.diffusion_number});
+      if (!a.kinematic_ok) {
+        const auto number = [](double x) { return format_fixed(x, x < 10.0 ? 2 : 1); };
+        std::string message =
+            "time-of-rise number t_r S0 u0/d0 = " + number(a.kinematic_number) +
+            " < 85 (Ponce, Li & Simons 1978; Ponce 1989): the kinematic wave may misstate "
+            "attenuation here; ";
+        message += a.diffusion_ok
+                       ? "a diffusion wave would apply (t_r S0 (g/d0)^0.5 = " +
+                             number(a.diffusion_number) + " >= 15)"
+                       : "even a diffusion wave is doubtful (t_r S0 (g/d0)^0.5 = " +
+                             number(a.diffusion_number) + " < 15); check with a dynamic-wave model";
+        summary.warnings.push_back({model.links[i].id, std::move(message)});
+      }
+    }
+    if (reach.capacity_steps > 0) {
+      std::string message =
+          "conduit reached its part-full capacity; surcharge is not represented and inflow "
+          "above capacity is held back in the reach";
+      if (reach.peak_volume_above_full_m3 > 0.0) {
+        message += ": it held up to " + format_fixed(reach.peak_volume_above_full_m3, 0) +
+                   " m3 above its full volume of " + format_fixed(reach.full_volume_m3, 0) +
+                   " m3 (at t = " +
+                   format_fixed(reach.time_of_peak_volume_above_full_s / 60.0, 0) +
+                   " min), water that would in fact surcharge the pipe or flood at manholes; "
+                   "flows below it are delayed and lowered accordingly";
+      }
+      summary.warnings.push_back({model.links[i].id, std::move(message)});
+    }
+    add_backwater_warning(model, recorder, stations, i, summary);
+  }
+}
+
+// Elements exchange flows once per coupling step and peaks are taken at step ends, so a rise
+// shorter than two steps is under-resolved: its peak can be missed here and smoothed below.
+// (Our criterion, no source: two steps is the fewest that can show a rise and a peak.)
+void add_coupling_step_warnings(const RunRecorder& recorder,
+                                const std::vector<StationDescription>& stations,
+                                double coupling_step_s,
+                                RunSummary& summary) {
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    if (!is_reach(stations[i].kind) && !is_subcatchment(stations[i].kind)) continue;
+    const SummaryAccumulator& acc = recorder.accumulator(i);
+    if (acc.sample_count() < 2 || !(acc.peak_discharge_m3s() > acc.first_discharge_m3s())) {
+      continue;
+    }
+    const double rise_s = recorder.rise_duration_s(i);
+    if (!(rise_s < 2.0 * coupling_step_s)) continue;
+    summary.warnings.push_back(
+        {stations[i].id, "its discharge rises to the peak in " + format_fixed(rise_s, 0) +
+                             " s, less than two coupling steps (of " +
+                             format_fixed(coupling_step_s, 1) + " s): the peak may be missed here "
+                             "and smoothed downstream; set coupling_step_s to at most " +
+                             format_value(std::max(1.0, std::floor(rise_s / 4.0))) + " s"});
+  }
+}
+
+// A station whose discharge is still at its highest when the run ends may not have peaked.
+void add_end_of_run_warnings(const RunRecorder& recorder,
+                             const std::vector<StationDescription>& stations,
+                             RunSummary& summary) {
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    const SummaryAccumulator& acc = recorder.accumulator(i);
+    if (acc.sample_count() < 2 || acc.peak_time_s() < acc.last_time_s()) continue;
+    const double rise_m3s = acc.peak_discharge_m3s() - acc.first_discharge_m3s();
+    if (!(rise_m3s > 1e-9 * std::max(1.0, acc.peak_discharge_m3s()))) continue;
+    summary.warnings.push_back(
+        {stations[i].id, "discharge is still at its highest when the run ends (t = " +
+                             format_fixed(acc.last_time_s() / 3600.0, 2) +
+                             " h): the peak may come later; lengthen duration_h"});
+  }
+}
+
+// The per-station peaks for the cross-storm and cross-scenario tables, with the road
+// overtopping of every culvert crossing.
+std::vector<StationPeak> station_peaks(const std::vector<network::ElementReport>& reports,
+                                       const RunSummary& summary,
+                                       const std::vector<StationDescription>& stations) {
+  std::vector<StationPeak> peaks;
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    const StationSummary& st = summary.stations[i];
+    StationPeak p{st.station_id,
+                  st.name,
+                  stations[i].kind,
+                  st.peak_discharge_m3s,
+                  st.peak_time_s,
+                  st.peak_stage_m,
+                  stations[i].stage_is_elevation,
+                  st.runoff_volume_m3,
+                  "",
+                  kNotApplicable};
+    if (is_pool(reports[i].kind) && reports[i].pool().crossing) {
+      const network::structures::CrossingReport& r = *reports[i].pool().crossing;
+      p.overtopping_s = r.road_overtopped ? r.overtopping_duration_s : 0.0;
+      p.overtopping =
+          r.road_overtopped ? format_fixed(r.overtopping_duration_s / 60.0, 0) + " min" : "no";
+    }
+    peaks.push_back(std::move(p));
+  }
+  return peaks;
+}
+
+std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
+    const network::Model& model, const std::vector<network::ElementReport>& reports) {
+  std::vector<std::pair<std::string, routing::RunDiagnostics>> out;
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    if (is_reach(reports[i].kind)) out.emplace_back(model.links[i].id, reports[i].reach().diagnostics);
+  }
+  return out;
+}
+
+std::string shock_note(const routing::ShockReport& shock) {
+  return "kinematic shock formed at t = " + format_fixed(shock.formation_time_s / 60.0, 1) +
+         " min, " + format_fixed(shock.formation_position_m, 0) + " m downstream, mean speed " +
+         format_fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+         format_fixed(shock.rankine_hugoniot_m_s, 2) + " m/s), " + shock_fate(shock);
+}
+
+std::string capacity_note(const network::ReachFacts& reach) {
+  std::string text = "conduit at capacity for " + std::to_string(reach.capacity_steps) +
+                     " coupling step(s): surcharge is not represented by the kinematic wave; "
+                     "peak flows above capacity are held back";
+  if (reach.peak_volume_above_full_m3 > 0.0) {
+    text += "; up to " + format_fixed(reach.peak_volume_above_full_m3, 0) +
+            " m3 above its full volume (" + format_fixed(reach.full_volume_m3, 0) +
+            " m3) at t = " + format_fixed(reach.time_of_peak_volume_above_full_s / 60.0, 0) +
+            " min";
+  }
+  return text;
+}
+
+std::string crossing_note(const network::structures::CrossingReport& r) {
+  std::string text =
+      "peak headwater " + format_fixed(r.peak_headwater_stage_m, 2) + " m (" +
+      format_fixed(r.peak_headwater_depth_m, 2) +
+      " m above the inlet invert) at t = " + format_fixed(r.time_of_peak_headwater_s / 60.0, 1) +
+      " min, " + (r.control_at_peak == network::structures::Control::inlet ? "inlet" : "outlet") +
+      " control; ";
+  text += r.road_overtopped
+              ? "road overtopped for " + format_fixed(r.overtopping_duration_s / 60.0, 1) +
+                    " min (" + format_fixed(r.overtopping_discharge_at_peak_m3s, 2) +
+                    " m3/s over the road at the peak)"
+              : "road not overtopped";
+  if (r.stage_beyond_rating) text += "; WARNING: headwater above the tabulated rating";
+  return text;
+}
+
+std::string detention_note(const network::structures::DetentionReport& r,
+                           double peak_inflow_m3s) {
+  return "peak stage " + format_fixed(r.peak_stage_m, 2) + " m at t = " +
+         format_fixed(r.time_of_peak_stage_s / 60.0, 1) + " min, peak storage " +
+         format_fixed(r.peak_storage_m3, 0) + " m3, peak outflow " +
+         format_fixed(r.peak_outflow_m3s, 3) + " m3/s (peak inflow " +
+         format_fixed(peak_inflow_m3s, 3) + " m3/s)";
+}
+
+// What each element found (shocks, conduits at capacity, culvert headwater and overtopping,
+// detention peaks), one line of text each, in network order.
+std::vector<std::pair<std::string, std::string>> element_notes(
+    const network::Model& model, const std::vector<network::ElementReport>& reports) {
+  std::vector<std::pair<std::string, std::string>> out;
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    const std::string& id = model.links[i].id;
+    switch (reported_as(reports[i].kind)) {
+      case ReportedAs::reach: {
+        const network::ReachFacts& reach = reports[i].reach();
+        for (const auto& shock : reach.significant_shocks) out.emplace_back(id, shock_note(shock));
+        if (reach.capacity_steps > 0) out.emplace_back(id, capacity_note(reach));
+        break;
+      }
+      case ReportedAs::pool: {
+        const network::PoolFacts& pool = reports[i].pool();
+        if (pool.crossing) out.emplace_back(id, crossing_note(*pool.crossing));
+        if (pool.detention) {
+          out.emplace_back(id, detention_note(*pool.detention, pool.peak_inflow_m3s));
+        }
+        break;
+      }
+      case ReportedAs::subcatchment:
+      case ReportedAs::passage:
+        break;
+    }
+  }
+  return out;
+}
+
+}  // namespace
+
+RunReport report_run(const network::Model& model, const network::RunSummary& numerics,
+                     const RunRecorder& recorder, const ReportContext& context) {
+  const std::vector<StationDescription>& stations = recorder.stations();
+  std::vector<network::ElementReport> reports;
+  reports.reserve(model.elements.size());
+  for (const auto& e : model.elements) reports.push_back(e->report());
+  RunReport out;
+  RunSummary& s = out.summary;
+  s.title = context.title;
+  s.source = context.source;
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    // Centroid lag: from the centroid of the rainfall excess upstream of the station.
+    StationSummary st = recorder.accumulator(i).station_summary(
+        stations[i].id, stations[i].name, recorder.excess_centroid_s(i));
+    st.runoff_volume_m3 = numerics.balances[i].ledger.outflow_m3;  // exact, from the ledger
+    s.stations.push_back(st);
+  }
+  add_pairs(model, s);
+  add_shocks(model, reports, s);
+  add_balances(numerics, s);
+  add_warnings(model, reports, recorder, stations, s);
+  add_end_of_run_warnings(recorder, stations, s);
+  add_coupling_step_warnings(recorder, stations, context.clock.coupling_step_s(), s);
+  detail::add_result_scale_warnings(model, reports, s);
+  // Each element's warnings together, in network order.
+  std::map<std::string, std::size_t, std::less<>> order;
+  for (std::size_t i = 0; i < stations.size(); ++i) order.emplace(stations[i].id, i);
+  std::stable_sort(s.warnings.begin(), s.warnings.end(),
+                   [&order](const ApplicabilityWarning& a, const ApplicabilityWarning& b) {
+                     const auto ia = order.find(a.element), ib = order.find(b.element);
+                     const std::size_t ka = ia == order.end() ? order.size() : ia->second;
+                     const std::size_t kb = ib == order.end() ? order.size() : ib->second;
+                     return ka < kb;
+                   });
+  out.peaks = station_peaks(reports, s, stations);
+  out.reach_numerics = reach_numerics(model, reports);
+  out.notes = element_notes(model, reports);
+  return out;
+}
+
+}  // namespace freshet::reporting

@@ -1,0 +1,227 @@
+// The run's summaries and warnings, driven in memory: a network built in the test is run by
+// network::simulate into a RunRecorder (the recording sink), and report_run reads what it
+// found. No file is read or written.
+//
+// Sources of the checks (each named again beside its check):
+//  - Manning's formula, Q = (1/n) A R^(2/3) S0^(1/2) (SI): Chow (1959), Open-Channel
+//    Hydraulics, eq. 5-6. A kinematic reach at its outlet is at normal depth for its discharge.
+//  - Kinematic-wave applicability: Ponce, Li & Simons (1978), Applicability of kinematic and
+//    diffusion models, J. Hydraul. Div. ASCE 104(HY3); in the time-of-rise form of Ponce
+//    (1989), Engineering Hydrology: Principles and Practices: the kinematic wave applies when
+//    t_r S0 u0 / d0 >= 85, a diffusion wave when t_r S0 (g/d0)^(1/2) >= 15.
+//  - A part-full circular conduit under Manning's law carries most at y/D = 0.938, 1.076
+//    times its full discharge Q_full = (1/n) (pi D^2/4) (D/4)^(2/3) S0^(1/2) (Chow 1959,
+//    hydraulic elements of a circular section; ASCE/WPCF 1969, MOP 37; from memory, and
+//    reproduced by the geometry module's own check).
+//  - Volume and centroid of a triangular hydrograph: area base x height / 2 and centroid at
+//    (t0 + tp + tb) / 3 (plane geometry, centroid of a triangle).
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <memory>
+#include <numbers>
+#include <string>
+#include <vector>
+
+#include "freshet/geometry/section_flux.hpp"
+#include "freshet/network/elements.hpp"
+#include "freshet/network/simple_elements.hpp"
+#include "freshet/reporting/run_recorder.hpp"
+#include "freshet/reporting/run_report.hpp"
+#include "freshet/routing/make_reach.hpp"
+
+namespace freshet::reporting {
+namespace {
+
+using network::ElementKind;
+
+constexpr double kGravity_m_s2 = 9.80665;
+
+// inflow -> reach -> outlet, the reach 1 km long in 40 cells.
+struct Network {
+  network::Model model;
+  std::vector<StationDescription> stations;
+};
+
+Network inflow_reach_outlet(PiecewiseLinearSeries inflow_m3s, const geometry::SectionSpec& section,
+                            double slope, double length_m = 1000.0) {
+  Network n;
+  n.model.links = {{"in", ElementKind::inflow, "ch", {}},
+                   {"ch", ElementKind::reach, "out", {}},
+                   {"out", ElementKind::outlet, "", {}}};
+  n.model.elements.push_back(
+      std::make_unique<network::InflowHydrograph>("in", std::move(inflow_m3s)));
+  geometry::FlowSection flow = geometry::make_flow_section(section, slope);
+  auto reach = routing::make_reach({"ch", length_m, 40}, flow.flux);
+  n.model.elements.push_back(
+      std::make_unique<network::ReachElement>("ch", std::move(flow), std::move(reach), 100.0));
+  n.model.elements.push_back(std::make_unique<network::PassThrough>("out", ElementKind::outlet));
+  n.model.finalize();
+  n.stations = {{"in", ElementKind::inflow, "inflow", "ch", false},
+                {"ch", ElementKind::reach, "channel", "out", true},
+                {"out", ElementKind::outlet, "outlet", "", false}};
+  return n;
+}
+
+// Runs the network in memory and reports it.
+RunReport run(Network& n, const network::ClockOptions& clock, RunRecorder** kept = nullptr) {
+  static std::unique_ptr<RunRecorder> recorder;  // kept for the caller's further questions
+  recorder = std::make_unique<RunRecorder>(n.model, n.stations);
+  const network::RunSummary numerics = network::simulate(n.model, clock, *recorder);
+  if (kept) *kept = recorder.get();
+  return report_run(n.model, numerics, *recorder, {"in memory", "freshet test", clock});
+}
+
+std::vector<std::string> warnings_of(const RunReport& r, const std::string& element) {
+  std::vector<std::string> out;
+  for (const auto& w : r.summary.warnings) {
+    if (w.element == element) out.push_back(w.message);
+  }
+  return out;
+}
+
+bool any_contains(const std::vector<std::string>& lines, const std::string& text) {
+  return std::any_of(lines.begin(), lines.end(),
+                     [&](const std::string& l) { return l.find(text) != std::string::npos; });
+}
+
+// Normal depth of a rectangular channel by bisection on Manning's formula (Chow 1959,
+// eq. 5-6): Q = (1/n) b d (b d / (b + 2 d))^(2/3) S0^(1/2).
+double rectangular_normal_depth_m(double q_m3s, double b_m, double n, double slope) {
+  const auto manning = [&](double d) {
+    return std::sqrt(slope) / n * b_m * d * std::pow(b_m * d / (b_m + 2.0 * d), 2.0 / 3.0);
+  };
+  double lo = 0.0, hi = 100.0;
+  for (int k = 0; k < 200; ++k) {
+    const double mid = 0.5 * (lo + hi);
+    (manning(mid) < q_m3s ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+// A triangular hydrograph through a junction keeps its volume and centroid (plane geometry:
+// volume = base x peak / 2, centroid at (0 + tp + tb) / 3); the pair in -> out shows no
+// attenuation and no shift.
+TEST(RunReport, StationSummariesOfATriangleMatchItsGeometry) {
+  Network n;
+  n.model.links = {{"in", ElementKind::inflow, "meet", {}},
+                   {"meet", ElementKind::junction, "out", {}},
+                   {"out", ElementKind::outlet, "", {}}};
+  n.model.elements.push_back(std::make_unique<network::InflowHydrograph>(
+      "in", PiecewiseLinearSeries({0.0, 1800.0, 5400.0}, {0.0, 6.0, 0.0})));
+  n.model.elements.push_back(std::make_unique<network::PassThrough>("meet", ElementKind::junction));
+  n.model.elements.push_back(std::make_unique<network::PassThrough>("out", ElementKind::outlet));
+  n.model.finalize();
+  n.stations = {{"in", ElementKind::inflow, "in", "meet", false},
+                {"meet", ElementKind::junction, "meet", "out", false},
+                {"out", ElementKind::outlet, "out", "", false}};
+  const RunReport r = run(n, {0.0, 7200.0, 300.0, 60.0});
+  ASSERT_EQ(r.summary.stations.size(), 3u);
+  const StationSummary& out = r.summary.stations[2];
+  EXPECT_NEAR(out.runoff_volume_m3, 0.5 * 5400.0 * 6.0, 1e-9 * 16200.0);
+  EXPECT_NEAR(out.peak_discharge_m3s, 6.0, 1e-12);
+  EXPECT_EQ(out.peak_time_s, 1800.0);
+  EXPECT_NEAR(out.centroid_time_s, (1800.0 + 5400.0) / 3.0, 1e-9 * 5400.0);
+  ASSERT_EQ(r.summary.pairs.size(), 2u);
+  EXPECT_NEAR(r.summary.pairs[1].peak_attenuation_m3s, 0.0, 1e-12);
+  EXPECT_EQ(r.summary.pairs[1].peak_time_shift_s, 0.0);
+  EXPECT_TRUE(r.summary.warnings.empty());
+  EXPECT_TRUE(r.notes.empty());
+  EXPECT_TRUE(r.reach_numerics.empty());
+  ASSERT_EQ(r.peaks.size(), 3u);
+  EXPECT_EQ(r.peaks[1].kind, ElementKind::junction);
+}
+
+// Ponce's numbers at the reach outlet: u0 and d0 are the normal-flow values at the routed
+// peak (Manning, Chow 1959 eq. 5-6), t_r is the rise of the outlet hydrograph. A slow rise on
+// a steep channel passes the kinematic criterion t_r S0 u0/d0 >= 85 (Ponce 1989) and raises no
+// warning; a quick rise on a flat one fails both criteria and is warned about with both
+// numbers.
+TEST(RunReport, PonceNumbersFollowTheOutletStateAndTheirPublishedThresholds) {
+  const geometry::RectangularSpec channel{4.0, 0.035};
+  struct Case {
+    double slope, rise_s;
+    bool kinematic_ok;
+  };
+  for (const Case& c : {Case{0.01, 5400.0, true}, Case{0.0002, 900.0, false}}) {
+    Network n = inflow_reach_outlet(
+        PiecewiseLinearSeries({0.0, c.rise_s, 3.0 * c.rise_s}, {0.5, 8.0, 0.5}), channel,
+        c.slope);
+    RunRecorder* recorder = nullptr;
+    const RunReport r = run(n, {0.0, 5.0 * c.rise_s, 300.0, 60.0}, &recorder);
+    ASSERT_EQ(r.summary.wave_numbers.size(), 1u);
+    const WaveNumberRecord& w = r.summary.wave_numbers.front();
+    const double q_peak = r.summary.stations[1].peak_discharge_m3s;
+    const double d0 = rectangular_normal_depth_m(q_peak, 4.0, 0.035, c.slope);
+    const double u0 = q_peak / (4.0 * d0);
+    const double t_r = recorder->rise_duration_s(1);
+    EXPECT_NEAR(w.time_of_rise_s, t_r, 1e-9 * t_r);
+    // 1e-6: the tabulated flux inverts Q(A) to that order; the bisection is exact to 1e-12.
+    EXPECT_NEAR(w.kinematic_number, t_r * c.slope * u0 / d0, 1e-6 * w.kinematic_number);
+    EXPECT_NEAR(w.diffusion_number, t_r * c.slope * std::sqrt(kGravity_m_s2 / d0),
+                1e-6 * w.diffusion_number);
+    EXPECT_EQ(w.kinematic_number >= 85.0, c.kinematic_ok) << "slope " << c.slope;
+    const auto warned = warnings_of(r, "ch");
+    EXPECT_EQ(any_contains(warned, "< 85 (Ponce, Li & Simons 1978; Ponce 1989)"), !c.kinematic_ok);
+    if (!c.kinematic_ok) {
+      EXPECT_LT(w.diffusion_number, 15.0);
+      EXPECT_TRUE(any_contains(warned, "even a diffusion wave is doubtful"));
+    }
+  }
+}
+
+// A pipe whose inflow stays below 1.076 Q_full never reaches capacity; one held at 1.15 Q_full
+// does, and the run warns that surcharge is not represented and reports the volume held above
+// the full pipe (part-full maximum at y/D = 0.938, 1.076 Q_full: Chow 1959, from memory).
+TEST(RunReport, APipeAboveItsPartFullMaximumIsWarnedAbout) {
+  const double d_m = 0.9, n_manning = 0.013, slope = 0.005;
+  const double q_full = 1.0 / n_manning * (std::numbers::pi * d_m * d_m / 4.0) *
+                        std::pow(d_m / 4.0, 2.0 / 3.0) * std::sqrt(slope);
+  for (const double ratio : {1.0, 1.15}) {
+    const double q = ratio * q_full;
+    Network n = inflow_reach_outlet(
+        PiecewiseLinearSeries({0.0, 600.0, 6000.0, 6600.0}, {0.0, q, q, 0.0}),
+        geometry::CircularSpec{d_m, n_manning}, slope, 500.0);
+    const RunReport r = run(n, {0.0, 10800.0, 300.0, 60.0});
+    const auto warned = warnings_of(r, "ch");
+    const bool capacity = any_contains(warned, "conduit reached its part-full capacity");
+    EXPECT_EQ(capacity, ratio > 1.076) << "ratio " << ratio;
+    const bool held = any_contains(warned, "above its full volume of");
+    EXPECT_EQ(held, ratio > 1.076) << "ratio " << ratio;
+    bool noted = false;
+    for (const auto& [id, note] : r.notes) {
+      noted = noted || (id == "ch" && note.find("conduit at capacity") != std::string::npos);
+    }
+    EXPECT_EQ(noted, ratio > 1.076);
+    // The outlet never passes more than the part-full maximum (to the table's 1e-6).
+    EXPECT_LE(r.summary.stations[1].peak_discharge_m3s, 1.076 * q_full * (1.0 + 1e-3));
+  }
+}
+
+// A hydrograph still rising when the run ends is pointed out (common practice, no source: a
+// peak at the last sample may not be the peak).
+TEST(RunReport, ARunEndingOnTheRiseIsPointedOut) {
+  Network n = inflow_reach_outlet(PiecewiseLinearSeries({0.0, 7200.0}, {0.5, 6.0}),
+                                  geometry::RectangularSpec{4.0, 0.035}, 0.005);
+  const RunReport r = run(n, {0.0, 3600.0, 300.0, 60.0});
+  EXPECT_TRUE(any_contains(warnings_of(r, "out"), "still at its highest when the run ends"));
+  EXPECT_TRUE(any_contains(warnings_of(r, "ch"), "lengthen duration_h"));
+}
+
+// A rise shorter than two coupling steps is under-resolved (our criterion, no source: two
+// steps are the fewest that show a rise and a peak); with a step of a tenth of the rise it is
+// not pointed out.
+TEST(RunReport, ACouplingStepLongerThanHalfTheRiseIsPointedOut) {
+  for (const double step_s : {600.0, 60.0}) {
+    Network n = inflow_reach_outlet(
+        PiecewiseLinearSeries({0.0, 600.0, 1200.0, 1800.0}, {0.5, 0.5, 8.0, 0.5}),
+        geometry::RectangularSpec{4.0, 0.035}, 0.01, 200.0);
+    const RunReport r = run(n, {0.0, 7200.0, 600.0, step_s});
+    const bool warned = any_contains(warnings_of(r, "ch"), "less than two coupling steps");
+    EXPECT_EQ(warned, step_s == 600.0) << "coupling step " << step_s << " s";
+  }
+}
+
+}  // namespace
+}  // namespace freshet::reporting
