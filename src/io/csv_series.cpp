@@ -11,6 +11,7 @@
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
+#include "basin/input_ranges.hpp"
 
 namespace freshet::io {
 
@@ -39,28 +40,18 @@ const std::array<UnitInfo, 9> kUnits{{
 
 const UnitInfo& info(ColumnUnit unit) { return kUnits[static_cast<std::size_t>(unit)]; }
 
-// Hard limits on a series value (SI): above them a number cannot be a real flow or rain, and
-// in every column unit it stays a finite number when written back. Generous on purpose; the
-// basin reader's plausibility checks (storm depth against the record envelope) come on top.
-struct Limit {
-  double max_si;
-  std::string_view reason;
-};
-Limit limit_of(SeriesQuantity q) {
+// Hard limits on a row's time and value, in SI: the series rows of the basin reader's range
+// table (src/io/basin/input_ranges.cpp), where every hard limit of the input lives.
+const detail::InputRange& range_of_value(SeriesQuantity q) {
   switch (q) {
-    case SeriesQuantity::discharge:
-      return {1e6, "above any flood discharge ever measured, about 3e5 m3/s on the largest "
-                   "rivers; from memory"};
+    case SeriesQuantity::discharge: return detail::range_of(detail::Quantity::series_discharge);
     case SeriesQuantity::rain_intensity:
-      return {1e4 * kMmPerHourToMs, "10,000 mm/h, several times the world-record 1-minute "
-                                    "rainfall rate (about 38 mm in 1 min; from memory)"};
-    case SeriesQuantity::rain_depth:
-      return {10.0, "10 m in one row, over five times the world-record 24-hour point rainfall "
-                    "(about 1.8 m; from memory)"};
+      return detail::range_of(detail::Quantity::series_rain_intensity);
+    case SeriesQuantity::rain_depth: return detail::range_of(detail::Quantity::series_rain_depth);
   }
-  return {0.0, ""};
+  return detail::range_of(detail::Quantity::series_discharge);
 }
-constexpr double kMaxAbsTimeS = 1000.0 * 365.25 * 86400.0;
+const detail::InputRange& time_range() { return detail::range_of(detail::Quantity::series_time); }
 
 std::string known_names(bool time) {
   std::string out;
@@ -215,9 +206,11 @@ struct RowParser {
   }
 
   void check_time(double t, int column, int line_no) {
-    if (std::abs(t * info(time_unit).to_si) > kMaxAbsTimeS) {
+    const double t_s = t * info(time_unit).to_si;
+    const detail::InputRange& range = time_range();
+    if (t_s > range.hard_max || t_s < range.hard_min) {
       problems.add(line_no, column, std::string(to_string(time_unit)) + " = " + format_value(t) +
-                                        ": more than 1000 years from the time origin");
+                                        ": " + std::string(range.hard_rule));
     }
     if (has_last && !(t > last_time)) {
       problems.add(line_no, column, "time " + format_value(t) +
@@ -231,11 +224,11 @@ struct RowParser {
   void check_value(double v, int column, int line_no) {
     const std::string name(to_string(value_unit));
     if (v < 0.0) problems.add(line_no, column, name + " = " + format_value(v) + ": must be >= 0");
-    const Limit& limit = limit_of(quantity_of(value_unit));
-    if (v * info(value_unit).to_si > limit.max_si) {
+    const detail::InputRange& limit = range_of_value(quantity_of(value_unit));
+    if (v * info(value_unit).to_si > limit.hard_max) {
       problems.add(line_no, column, name + " = " + format_value(v) + ": above the hard limit of " +
-                                        format_value(limit.max_si / info(value_unit).to_si) +
-                                        " (" + std::string(limit.reason) + ")");
+                                        format_value(limit.hard_max / info(value_unit).to_si) +
+                                        " (" + std::string(limit.hard_rule) + ")");
     }
     const bool first_row = table.values_si.empty() && table.times_s.empty();
     if (quantity_of(value_unit) == SeriesQuantity::rain_depth && first_row && v != 0.0) {

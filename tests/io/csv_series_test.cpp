@@ -243,6 +243,16 @@ TEST(CsvSeries, ValuesAndTimesBeyondHardLimitsAreRefusedWithTheirLine) {
   EXPECT_EQ(messages_of("time_h,intensity_mm_per_h\n0,0\n1,9999\n").size(), 0u);
   EXPECT_EQ(messages_of("time_s,discharge_cfs\n0,0\n1,4e7\n").size(), 1u);
   EXPECT_EQ(messages_of("time_s,discharge_m3s\n0,0\n1,9e5\n").size(), 0u);
+  // The limits are rows of the input-ranges table (src/io/basin/input_ranges.cpp): 1e6 m3/s,
+  // some three times the largest flood discharge measured (about 3e5 m3/s; from memory), is
+  // the last value accepted, and the refusal quotes the table's reason.
+  EXPECT_EQ(messages_of("time_s,discharge_m3s\n0,0\n1,1e6\n").size(), 0u);
+  const auto flood = messages_of("time_s,discharge_m3s\n0,0\n1,1.000001e6\n");
+  ASSERT_EQ(flood.size(), 1u);
+  EXPECT_THAT(flood[0], HasSubstr("above the hard limit of 1e+06 (above any flood discharge "
+                                  "ever measured, about 3e5 m3/s"));
+  EXPECT_EQ(messages_of("time_h,discharge_m3s\n-8766000,0\n0,1\n").size(), 0u);  // -1000 years
+  EXPECT_EQ(messages_of("time_h,discharge_m3s\n-8766001,0\n0,1\n").size(), 1u);
   EXPECT_EQ(messages_of("time_min,depth_mm\n0,0\n5,10001\n").size(), 1u);
   const auto time = messages_of("time_h,discharge_m3s\n0,0\n1e306,1\n");
   ASSERT_EQ(time.size(), 1u);

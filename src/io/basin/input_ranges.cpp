@@ -34,6 +34,10 @@ constexpr std::string_view kRawls =
 constexpr std::string_view kEarth =
     "the land surface of the Earth, Dead Sea shore (-430 m) to Everest (8849 m), from memory";
 constexpr std::string_view kCommon = "common practice, no source";
+constexpr std::string_view kCsvOnlyHard =
+    "none: a CSV value has hard limits only (a storm's depth is then judged against the record "
+    "envelope)";
+constexpr double kThousandYearsS = 1000.0 * 365.25 * 86400.0;
 
 // clang-format off
 constexpr std::array<InputRange, kQuantityCount> kRanges{{
@@ -224,6 +228,25 @@ constexpr std::array<InputRange, kQuantityCount> kRanges{{
   {Quantity::road_offset, "position along a road", Measure::length,
    -1e5, false, 1e5, false, "more than 100 km from the survey's origin; our criterion",
    -1e4, 1e4, kCommon},
+  // CSV series: the limits keep every value a finite number when written back in any column
+  // unit. Generous on purpose; no plausible range (it equals the hard one).
+  {Quantity::series_time, "time of a series row", Measure::seconds,
+   -kThousandYearsS, false, kThousandYearsS, false, "more than 1000 years from the time origin",
+   -kThousandYearsS, kThousandYearsS, kCsvOnlyHard},
+  {Quantity::series_discharge, "discharge of a series row", Measure::discharge,
+   0.0, false, 1e6, false,
+   "above any flood discharge ever measured, about 3e5 m3/s on the largest rivers; from memory",
+   0.0, 1e6, kCsvOnlyHard},
+  {Quantity::series_rain_intensity, "rain intensity of a series row", Measure::rate,
+   0.0, false, 1e4 * kMmPerH, false,
+   "10,000 mm/h, several times the world-record 1-minute rainfall rate (about 38 mm in 1 min; "
+   "from memory)",
+   0.0, 1e4 * kMmPerH, kCsvOnlyHard},
+  {Quantity::series_rain_depth, "rain depth of a series row", Measure::depth,
+   0.0, false, 10.0, false,
+   "10 m in one row, over five times the world-record 24-hour point rainfall (about 1.8 m; "
+   "from memory)",
+   0.0, 10.0, kCsvOnlyHard},
 }};
 // clang-format on
 
@@ -294,6 +317,7 @@ std::string_view unit_label(Measure m, const InputUnits& u) {
     case Measure::seconds: return "s";
     case Measure::per_hour: return "per h";
     case Measure::degrees: return "degrees";
+    case Measure::discharge: return us ? "cfs" : "m3/s";
   }
   return "";
 }
@@ -309,6 +333,7 @@ double to_table_units(Measure m, const InputUnits& u) {
     case Measure::rate: return u.rate_m_s(1.0);
     case Measure::volume: return u.volume_m3(1.0);
     case Measure::weir_coefficient: return u.weir_coefficient_si(1.0);
+    case Measure::discharge: return u.discharge_m3s(1.0);
     default: return 1.0;
   }
 }

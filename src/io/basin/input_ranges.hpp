@@ -45,6 +45,7 @@ enum class Measure {
   per_hour,        // 1/h
   degrees,         // deg
   count,           // a whole number
+  discharge,       // m3/s / cfs
 };
 
 enum class Quantity {
@@ -102,6 +103,12 @@ enum class Quantity {
   notch_angle,
   notch_coefficient,
   road_offset,
+  // The values of CSV series (src/io/csv_series.cpp, the column's own unit): hard limits
+  // only, no plausibility warning (a storm's depth is judged against the record envelope).
+  series_time,
+  series_discharge,
+  series_rain_intensity,
+  series_rain_depth,
 };
 
 struct InputRange {
@@ -118,7 +125,8 @@ struct InputRange {
   std::string_view source;  // where the plausible range comes from
 };
 
-inline constexpr std::size_t kQuantityCount = static_cast<std::size_t>(Quantity::road_offset) + 1;
+inline constexpr std::size_t kQuantityCount =
+    static_cast<std::size_t>(Quantity::series_rain_depth) + 1;
 
 // The table, in Quantity order.
 const std::array<InputRange, kQuantityCount>& input_ranges();
