@@ -108,6 +108,14 @@ std::vector<Problem> RoutingOptions::validate() const {
   p.require_positive("min_dt_s", min_dt_s);
   p.require(max_consecutive_rejections >= 1, "max_consecutive_rejections",
             max_consecutive_rejections, "must be >= 1");
+  p.require(front_node_spacing >= 1e-6 && front_node_spacing <= 0.1, "front_node_spacing",
+            front_node_spacing, "must be in [1e-6, 0.1]");
+  p.require(front_fan_max_fronts >= 1, "front_fan_max_fronts", front_fan_max_fronts,
+            "must be >= 1");
+  p.require(std::isfinite(front_merge_length_m) && front_merge_length_m >= 0.0,
+            "front_merge_length_m", front_merge_length_m, "must be >= 0 (0 = automatic)");
+  p.require(std::isfinite(lateral_split_step_s) && lateral_split_step_s > 0.0,
+            "lateral_split_step_s", lateral_split_step_s, "must be > 0");
   p.append(shock.validate());
   return p.problems();
 }

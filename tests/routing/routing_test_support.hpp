@@ -18,9 +18,13 @@ inline geometry::PowerLawFlux wide_manning(double width_m, double manning_n, dou
 
 inline geometry::PowerLawFlux burgers() { return {0.5, 2.0}; }  // Q = A^2 / 2
 
-inline constexpr SchemeKind kAllSchemes[] = {SchemeKind::kExplicitUpwind,
-                                             SchemeKind::kImplicitUpwind,
-                                             SchemeKind::kMethodOfLines, SchemeKind::kMusclHeun};
+inline constexpr SchemeKind kAllSchemes[] = {
+    SchemeKind::kExplicitUpwind, SchemeKind::kImplicitUpwind, SchemeKind::kMethodOfLines,
+    SchemeKind::kMusclHeun, SchemeKind::kCharacteristics};
+// The finite-volume schemes (one flux law per cell allowed; characteristics needs one law).
+inline constexpr SchemeKind kGridSchemes[] = {SchemeKind::kExplicitUpwind,
+                                              SchemeKind::kImplicitUpwind,
+                                              SchemeKind::kMethodOfLines, SchemeKind::kMusclHeun};
 
 inline RoutingOptions options_for(SchemeKind scheme) {
   RoutingOptions opt;

@@ -54,6 +54,7 @@ struct RunDiagnostics {
   // negative areas (conservative; reported for transparency, not a source or sink).
   double positivity_transfer_m3 = 0.0;
   int shocks_found = 0;
+  int max_fronts = 0;                // characteristics: most fronts held after an advance
   double wall_time_s = 0.0;          // inside advance()
 
   [[nodiscard]] std::string brief_report() const;

@@ -160,6 +160,7 @@ void KinematicReach<F>::set_uniform_discharge(double discharge_m3s) {
 template <geometry::FluxLaw F>
 void KinematicReach<F>::restart_ledger() {
   state_.ledger = VolumeLedger{};
+  ++state_.generation;
   state_.ledger.initial_storage_m3 = state_.ledger.storage_m3 = state_.storage_m3();
   std::vector<double>& face = state_.face_flux_m3s;
   for (std::size_t i = 0; i < n(); ++i) face[i + 1] = law(i).discharge_m3s(state_.area_m2[i]);

@@ -25,6 +25,7 @@ enum class SchemeKind {
   kImplicitUpwind,  // first-order upwind, backward Euler, cell-by-cell downstream Newton solve
   kMethodOfLines,   // upwind semi-discretisation integrated by an adaptive Runge-Kutta (Odeint)
   kMusclHeun,       // MUSCL limited reconstruction + SSP-RK2 (Heun), second order where smooth
+  kCharacteristics, // grid-free front tracking on a piecewise-linear flux (no cells, no dt)
 };
 
 enum class Limiter { kMinmod, kVanLeer };
@@ -79,6 +80,20 @@ struct RoutingOptions {
   // Method of lines: error tolerances of the controlled Runge-Kutta stepper.
   double ode_abs_tolerance_m2 = 1e-9;
   double ode_rel_tolerance = 1e-8;
+  // Characteristics: relative spacing of the area nodes of the piecewise-linear flux
+  // (A_{k+1} = A_k (1 + spacing)). A fan's states, and so a rarefaction, are resolved to one
+  // node: about m x spacing in discharge for Q ~ A^m; the flux itself is within
+  // m |m - 1| spacing^2 / 8 of the law (docs/methods-routing.md).
+  double front_node_spacing = 1e-3;
+  // Characteristics: most fronts one Riemann fan may hold (a fan onto a dry bed crosses
+  // thousands of nodes); a thinned fan's states are within 1/front_fan_max_fronts of its
+  // jump in discharge.
+  int front_fan_max_fronts = 256;
+  // Characteristics: when lateral inflow rebuilds the fronts, segments shorter than this are
+  // folded into a neighbour, volume-weighted (0 = automatic: 1e-4 x the reach length).
+  double front_merge_length_m = 0.0;
+  // Characteristics: longest sub-step of the Strang splitting of lateral inflow.
+  double lateral_split_step_s = 30.0;
   // Every scheme: upper bound on an internal step, and the smallest step tried after
   // rejections before advance() gives up.
   double max_dt_s = std::numeric_limits<double>::infinity();

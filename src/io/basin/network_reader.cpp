@@ -541,7 +541,8 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
   routing::RoutingOptions options = settings_.channel_routing;
   if (r.optional_node("scheme")) {
     const std::string scheme = r.choice(
-        "scheme", {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun"});
+        "scheme", {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun",
+                   "characteristics"});
     if (!scheme.empty()) options.scheme = routing::parse_scheme_kind(scheme);
   }
   if (!spec || !clean()) return nullptr;

@@ -74,7 +74,8 @@ std::string utc_iso_of(const toml::date_time& dt) {
 
 routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::SchemeKind fallback) {
   const std::string text = r.choice(
-      key, {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun"},
+      key, {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun",
+                          "characteristics"},
       std::string(routing::to_string(fallback)));
   return text.empty() ? fallback : routing::parse_scheme_kind(text);
 }

@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cstddef>
+#include <cstdint>
 #include <span>
 #include <vector>
 
@@ -72,6 +73,8 @@ struct ReachState {
   double c_max_m_s = 0.0;               // celerity bound of the current state
   VolumeLedger ledger;
   RunDiagnostics diag;
+  // Counts restarts (new initial state): a scheme with a state of its own rebuilds it.
+  std::uint64_t generation = 0;
 };
 
 }  // namespace freshet::routing::detail

@@ -14,6 +14,7 @@
 #include <variant>
 
 #include "freshet/routing/routing_options.hpp"
+#include "freshet/routing/schemes/characteristics.hpp"
 #include "freshet/routing/schemes/explicit_upwind.hpp"
 #include "freshet/routing/schemes/implicit_upwind.hpp"
 #include "freshet/routing/schemes/method_of_lines.hpp"
@@ -22,7 +23,8 @@
 namespace freshet::routing::schemes {
 
 // In the order of SchemeKind.
-using AnyScheme = std::variant<ExplicitUpwind, ImplicitUpwind, MethodOfLines, MusclHeun>;
+using AnyScheme = std::variant<ExplicitUpwind, ImplicitUpwind, MethodOfLines, MusclHeun,
+                               Characteristics>;
 
 inline constexpr std::size_t kSchemeCount = std::variant_size_v<AnyScheme>;
 

@@ -1,0 +1,480 @@
+// Front tracking on one reach [0, L] (detail; see docs/methods-routing.md, "Characteristics").
+//
+// The state is piecewise constant in x: a list of fronts, ordered downstream, each a jump
+// between two areas moving at the Rankine-Hugoniot speed of the piecewise-linear flux Q_pl
+// (flux_nodes.hpp). For that flux the entropy solution is exactly such a set of fronts
+// (Dafermos 1972; Holden & Risebro 2015, Front Tracking for Hyperbolic Conservation Laws,
+// 2nd ed., sec. 2.1-2.2): a Riemann problem between A_l and A_r is solved by the lower convex
+// envelope of Q_pl on [A_l, A_r] when A_l < A_r and by the upper concave envelope on
+// [A_r, A_l] when A_l > A_r (Oleinik's entropy condition; LeVeque 2002, Finite Volume Methods
+// for Hyperbolic Problems, sec. 16.1), each envelope segment one front. When two fronts meet,
+// the Riemann problem between their outer states replaces them. Nothing is discretised in x
+// or t: collisions are events in time order (a heap), the front that reaches x = L leaves
+// through the outlet, and the inlet state changes only when told (set_inlet_area).
+//
+// Volumes: each front moves at exactly (Q_l - Q_r) / (A_l - A_r), so the storage
+// sum(segment length x area) changes by exactly inflow - outflow; both are integrals of
+// piecewise-constant fluxes, booked here, so the balance closes to round-off.
+//
+// Every celerity is >= 0 (Q non-decreasing), so fronts never move upstream.
+#pragma once
+
+#include <algorithm>
+#include <cstddef>
+#include <cstdint>
+#include <functional>
+#include <limits>
+#include <queue>
+#include <span>
+#include <vector>
+
+#include "freshet/geometry/flux_law.hpp"
+#include "freshet/routing/detail/flux_eval.hpp"
+#include "freshet/routing/detail/flux_nodes.hpp"
+
+namespace freshet::routing::detail {
+
+// One front of a Riemann solution: the area to its right (downstream) and its speed.
+struct Wave {
+  double area_right_m2 = 0.0;
+  double speed_m_s = 0.0;
+};
+
+// Entropy solution of the Riemann problem (a_left | a_right) for Q_pl: the fronts from
+// upstream to downstream (speeds non-decreasing), appended to `out` (cleared first). `convex`
+// may be passed true only when Q is convex (c never decreases), which skips the envelope.
+//
+// A fan with more than max_fronts envelope segments is thinned: envelope vertices are kept
+// only where Q has moved by at least 1/max_fronts of the jump since the last one kept (the
+// ends always), so a fan onto a dry bed, which crosses thousands of geometric nodes, costs
+// at most max_fronts fronts. Thinning keeps the envelope's order of speeds (no front
+// overtakes another in the fan) and every front still moves at the Rankine-Hugoniot speed of
+// its own two states, so volumes stay exact; a thinned fan's states are within 1/max_fronts
+// of the jump in Q of the exact fan's.
+template <geometry::FluxLaw F>
+void solve_riemann(const FluxNodes& nodes, const F& law, bool convex, double a_left,
+                   double a_right, std::size_t max_fronts, std::vector<Wave>& out,
+                   std::vector<double>& scratch_a, std::vector<double>& scratch_q) {
+  out.clear();
+  if (a_left == a_right) return;
+  const bool rising = a_left < a_right;  // rising in x: lower convex envelope
+  const double lo = std::min(a_left, a_right), hi = std::max(a_left, a_right);
+  if ((convex && !rising) || nodes.index_below(lo) == nodes.index_below(hi)) {
+    // One linear piece, or the upper envelope of a convex flux (its chord): one front.
+    out.push_back({a_right, nodes.front_speed(law, a_left, a_right)});
+    return;
+  }
+  // Points of Q_pl on [lo, hi]: the two ends and every node strictly between.
+  scratch_a.clear();
+  scratch_q.clear();
+  scratch_a.push_back(lo);
+  scratch_q.push_back(nodes.flux(law, lo));
+  const long k_first = nodes.index_below(lo) + 1;
+  long k_last = nodes.index_below(hi);
+  if (nodes.node_area(k_last) >= hi) --k_last;
+  const auto samples = static_cast<long>(2 * max_fronts);
+  if (k_last - k_first + 1 <= samples) {
+    for (long k = k_first; k <= k_last; ++k) {
+      scratch_a.push_back(nodes.node_area(k));
+      scratch_q.push_back(nodes.node_flux(law, k));
+    }
+  } else {
+    // Too many nodes (a fan onto a dry bed crosses thousands): the nodes nearest below
+    // 2 max_fronts discharges evenly spaced over the jump; the envelope of these points is
+    // then thinned below.
+    const double q_lo = scratch_q.front(), q_hi = nodes.flux(law, hi);
+    long previous = k_first - 1;
+    for (long j = 1; j < samples; ++j) {
+      const double q = q_lo + (q_hi - q_lo) * static_cast<double>(j) / static_cast<double>(samples);
+      const long k = std::clamp(nodes.index_below(nodes.area_for_flux(law, q)), k_first, k_last);
+      if (k <= previous) continue;
+      scratch_a.push_back(nodes.node_area(k));
+      scratch_q.push_back(nodes.node_flux(law, k));
+      previous = k;
+    }
+  }
+  scratch_a.push_back(hi);
+  scratch_q.push_back(nodes.flux(law, hi));
+  // Monotone chain (Andrew 1979, Inform. Process. Lett. 9): keep a point while the turn stays
+  // convex (lower envelope) or concave (upper envelope); collinear points are dropped, so
+  // the speeds of the fan strictly increase downstream.
+  std::size_t m = 0;  // envelope length, built in place at the front of the scratch arrays
+  for (std::size_t i = 0; i < scratch_a.size(); ++i) {
+    while (m >= 2) {
+      const double cross =
+          (scratch_a[m - 1] - scratch_a[m - 2]) * (scratch_q[i] - scratch_q[m - 2]) -
+          (scratch_q[m - 1] - scratch_q[m - 2]) * (scratch_a[i] - scratch_a[m - 2]);
+      // Lower envelope: drop the middle point unless it turns left (cross > 0).
+      if (rising ? cross <= 0.0 : cross >= 0.0) --m;
+      else break;
+    }
+    scratch_a[m] = scratch_a[i];
+    scratch_q[m] = scratch_q[i];
+    ++m;
+  }
+  if (m - 1 > max_fronts) {
+    const double q_step = (scratch_q[m - 1] - scratch_q[0]) / static_cast<double>(max_fronts);
+    std::size_t kept = 1;
+    for (std::size_t i = 1; i + 1 < m; ++i) {
+      if (scratch_q[i] - scratch_q[kept - 1] < q_step) continue;
+      scratch_a[kept] = scratch_a[i];
+      scratch_q[kept] = scratch_q[i];
+      ++kept;
+    }
+    scratch_a[kept] = scratch_a[m - 1];
+    scratch_q[kept] = scratch_q[m - 1];
+    m = kept + 1;
+  }
+  auto speed = [&](std::size_t i, std::size_t j) {
+    return (scratch_q[j] - scratch_q[i]) / (scratch_a[j] - scratch_a[i]);
+  };
+  if (rising) {
+    for (std::size_t i = 1; i < m; ++i) out.push_back({scratch_a[i], speed(i - 1, i)});
+  } else {
+    for (std::size_t i = m - 1; i-- > 0;) out.push_back({scratch_a[i], speed(i, i + 1)});
+  }
+}
+
+class FrontTracker {
+ public:
+  FrontTracker() = default;
+  // length_m > 0; node_spacing > 0 (see FluxNodes).
+  FrontTracker(double length_m, double node_spacing, std::size_t max_fan_fronts)
+      : length_m_(length_m), nodes_(node_spacing), max_fan_fronts_(max_fan_fronts) {}
+
+  [[nodiscard]] const FluxNodes& nodes() const noexcept { return nodes_; }
+  [[nodiscard]] double length_m() const noexcept { return length_m_; }
+  [[nodiscard]] double time_s() const noexcept { return t_now_; }
+  [[nodiscard]] int front_count() const noexcept { return count_; }
+  [[nodiscard]] long events() const noexcept { return events_; }
+  [[nodiscard]] double inlet_area_m2() const noexcept { return inlet_area_; }
+  [[nodiscard]] double outlet_area_m2() const noexcept {
+    return tail_ < 0 ? inlet_area_ : pool_[idx(tail_)].area_right_m2;
+  }
+  [[nodiscard]] std::size_t memory_bytes() const noexcept {
+    return pool_.capacity() * sizeof(Front) + free_.capacity() * sizeof(int) +
+           heap_storage_bytes_ + (waves_.capacity() + scratch_a_.capacity() +
+                                  scratch_q_.capacity()) * sizeof(double);
+  }
+
+  // Starts over at time t_s from a piecewise-constant profile: areas[k] on
+  // [edge_m[k], edge_m[k+1]] (edges increasing from 0 to the length), with the inlet state
+  // inlet_area_m2 at x = 0. Segments shorter than merge_length_m (other than the first) are
+  // folded into a neighbour, volume-weighted, before the Riemann problems are solved.
+  template <geometry::FluxLaw F>
+  void set_profile(const F& law, double t_s, double inlet_area_m2,
+                   std::span<const double> edge_m, std::span<const double> area_m2,
+                   double merge_length_m = 0.0) {
+    clear(t_s);
+    convex_ = celerity_non_decreasing(law);
+    inlet_area_ = inlet_area_m2;
+    std::vector<double> e(edge_m.begin(), edge_m.end()), a(area_m2.begin(), area_m2.end());
+    coalesce(e, a, merge_length_m);
+    double left = inlet_area_;
+    for (std::size_t k = 0; k < a.size(); ++k) {
+      insert_fan(law, tail_, -1, e[k], left, a[k]);
+      left = a[k];
+    }
+    for (int f = head_; f >= 0; f = pool_[idx(f)].next) schedule_after(f);
+  }
+
+  // The inlet state becomes area_m2 from now on: the Riemann fan between it and the state
+  // just downstream of x = 0 starts at the inlet.
+  template <geometry::FluxLaw F>
+  void set_inlet_area(const F& law, double area_m2) {
+    if (area_m2 == inlet_area_) return;
+    const double right = head_ < 0 ? inlet_area_ : pool_[idx(head_)].area_left_m2;
+    const int old_head = head_;
+    inlet_area_ = area_m2;
+    (void)insert_fan(law, -1, head_, 0.0, area_m2, right);
+    // Collisions among the new fronts and with the old head.
+    for (int f = head_; f >= 0 && f != old_head; f = pool_[idx(f)].next) schedule_after(f);
+  }
+
+  // Moves every front to t_s (>= time_s()), resolving collisions and outlet exits in time
+  // order. Returns nothing; the inflow and outflow volumes over the interval are added to
+  // inflow_m3() and outflow_m3().
+  template <geometry::FluxLaw F>
+  void advance_to(const F& law, double t_s) {
+    while (true) {
+      const double t_exit = exit_time();
+      const Event* e = next_collision();
+      const double t_col = e ? e->time_s : std::numeric_limits<double>::infinity();
+      if (std::min(t_exit, t_col) > t_s) break;
+      if (t_exit <= t_col) {
+        pass_time(law, std::max(t_exit, t_now_));
+        remove_tail();
+      } else {
+        const Event ev = *e;
+        heap_.pop();
+        pass_time(law, std::max(ev.time_s, t_now_));
+        collide(law, ev.left);
+      }
+      ++events_;
+    }
+    pass_time(law, t_s);
+  }
+
+  // Volumes through the inlet and the outlet since the tracker was built (m3; set_profile
+  // does not reset them).
+  [[nodiscard]] double inflow_m3() const noexcept { return inflow_m3_; }
+  [[nodiscard]] double outflow_m3() const noexcept { return outflow_m3_; }
+
+  // The profile now: areas[k] on [edges[k], edges[k+1]], from 0 to the length (fronts at
+  // one position give zero-length segments).
+  void profile(std::vector<double>& edge_m, std::vector<double>& area_m2) const {
+    edge_m.assign(1, 0.0);
+    area_m2.clear();
+    double left = inlet_area_;
+    for (int f = head_; f >= 0; f = pool_[idx(f)].next) {
+      const Front& fr = pool_[idx(f)];
+      edge_m.push_back(clamp_x(position(fr, t_now_)));
+      area_m2.push_back(left);
+      left = fr.area_right_m2;
+    }
+    edge_m.push_back(length_m_);
+    area_m2.push_back(left);
+  }
+
+  // Storage now, sum of segment length x area (m3).
+  [[nodiscard]] double storage_m3() const {
+    double sum = 0.0, x = 0.0, left = inlet_area_;
+    for (int f = head_; f >= 0; f = pool_[idx(f)].next) {
+      const Front& fr = pool_[idx(f)];
+      const double xf = clamp_x(position(fr, t_now_));
+      sum += (xf - x) * left;
+      x = xf, left = fr.area_right_m2;
+    }
+    return sum + (length_m_ - x) * left;
+  }
+
+  // Exact averages over `cells` equal cells (areas), and the area at each face i dx (the
+  // state just upstream of the face; face 0 the inlet state).
+  void cell_averages(std::span<double> cell_area_m2, std::span<double> face_area_m2) const {
+    const std::size_t n = cell_area_m2.size();
+    const double dx = length_m_ / static_cast<double>(n);
+    std::fill(cell_area_m2.begin(), cell_area_m2.end(), 0.0);
+    std::size_t cell = 0;
+    double x = 0.0, left = inlet_area_;
+    face_area_m2[0] = inlet_area_;
+    auto fill_to = [&](double x_end, double area) {  // segment [x, x_end] of `area`
+      while (cell < n) {
+        const double cell_end = cell + 1 == n ? length_m_ : dx * static_cast<double>(cell + 1);
+        const double stop = std::min(x_end, cell_end);
+        cell_area_m2[cell] += (stop - x) * area;
+        x = stop;
+        if (x_end < cell_end) return;
+        face_area_m2[cell + 1] = area;
+        ++cell;
+      }
+    };
+    for (int f = head_; f >= 0; f = pool_[idx(f)].next) {
+      const Front& fr = pool_[idx(f)];
+      fill_to(std::max(x, clamp_x(position(fr, t_now_))), left);
+      left = fr.area_right_m2;
+    }
+    fill_to(length_m_, left);
+    for (std::size_t i = 0; i < n; ++i) {
+      const double width = i + 1 == n ? length_m_ - dx * static_cast<double>(i) : dx;
+      cell_area_m2[i] /= width;
+    }
+  }
+
+ private:
+  struct Front {
+    double x0_m = 0.0, t0_s = 0.0, speed_m_s = 0.0;
+    double area_left_m2 = 0.0, area_right_m2 = 0.0;
+    int prev = -1, next = -1;
+    std::uint32_t generation = 0;
+    bool alive = false;
+  };
+  struct Event {
+    double time_s;
+    int left, right;
+    std::uint32_t left_generation, right_generation;
+    bool operator>(const Event& o) const noexcept { return time_s > o.time_s; }
+  };
+
+  static constexpr double kParallel = 1e-12;
+  static std::size_t idx(int f) noexcept { return static_cast<std::size_t>(f); }
+  static double position(const Front& f, double t) noexcept {
+    return f.x0_m + f.speed_m_s * (t - f.t0_s);
+  }
+  [[nodiscard]] double clamp_x(double x) const noexcept { return std::clamp(x, 0.0, length_m_); }
+
+  void clear(double t_s) {
+    pool_.clear();
+    free_.clear();
+    heap_ = {};
+    head_ = tail_ = -1;
+    count_ = 0;
+    t_now_ = t_s;
+  }
+
+  int allocate() {
+    int f;
+    if (!free_.empty()) {
+      f = free_.back();
+      free_.pop_back();
+    } else {
+      f = static_cast<int>(pool_.size());
+      pool_.emplace_back();
+    }
+    Front& fr = pool_[idx(f)];
+    ++fr.generation;
+    fr.alive = true;
+    ++count_;
+    return f;
+  }
+  void release(int f) {
+    Front& fr = pool_[idx(f)];
+    fr.alive = false;
+    ++fr.generation;
+    free_.push_back(f);
+    --count_;
+  }
+  void unlink(int f) {
+    const Front& fr = pool_[idx(f)];
+    if (fr.prev >= 0) pool_[idx(fr.prev)].next = fr.next;
+    else head_ = fr.next;
+    if (fr.next >= 0) pool_[idx(fr.next)].prev = fr.prev;
+    else tail_ = fr.prev;
+    release(f);
+  }
+
+  // Inserts the Riemann fan (left | right) at x between fronts `prev` and `next` (-1: the
+  // ends); returns the first new front (-1 when left == right).
+  template <geometry::FluxLaw F>
+  int insert_fan(const F& law, int prev, int next, double x, double left, double right) {
+    solve_riemann(nodes_, law, convex_, left, right, max_fan_fronts_, waves_, scratch_a_,
+                  scratch_q_);
+    int first = -1;
+    double a_left = left;
+    for (const Wave& w : waves_) {
+      const int f = allocate();
+      Front& fr = pool_[idx(f)];
+      fr.x0_m = x, fr.t0_s = t_now_, fr.speed_m_s = w.speed_m_s;
+      fr.area_left_m2 = a_left, fr.area_right_m2 = w.area_right_m2;
+      fr.prev = prev, fr.next = next;
+      if (prev >= 0) pool_[idx(prev)].next = f;
+      else head_ = f;
+      if (next >= 0) pool_[idx(next)].prev = f;
+      else tail_ = f;
+      if (first < 0) first = f;
+      prev = f;
+      a_left = w.area_right_m2;
+    }
+    return first;
+  }
+
+  // Schedules the collision of front f with the next one downstream, if they approach.
+  void schedule_after(int f) {
+    if (f < 0) return;
+    const Front& a = pool_[idx(f)];
+    if (a.next < 0) return;
+    const Front& b = pool_[idx(a.next)];
+    // Fronts whose speeds differ by round-off only are parallel (no event).
+    if (!(a.speed_m_s - b.speed_m_s > kParallel * a.speed_m_s)) return;
+    const double gap = std::max(position(b, t_now_) - position(a, t_now_), 0.0);
+    heap_.push({t_now_ + gap / (a.speed_m_s - b.speed_m_s), f, a.next, a.generation,
+                b.generation});
+    heap_storage_bytes_ = std::max(heap_storage_bytes_, heap_.size() * sizeof(Event));
+  }
+
+  // The earliest collision still valid (stale events are dropped), or nullptr.
+  const Event* next_collision() {
+    while (!heap_.empty()) {
+      const Event& e = heap_.top();
+      const Front& a = pool_[idx(e.left)];
+      const Front& b = pool_[idx(e.right)];
+      if (a.alive && b.alive && a.generation == e.left_generation &&
+          b.generation == e.right_generation && a.next == e.right) {
+        return &e;
+      }
+      heap_.pop();
+    }
+    return nullptr;
+  }
+
+  [[nodiscard]] double exit_time() const noexcept {
+    if (tail_ < 0) return std::numeric_limits<double>::infinity();
+    const Front& f = pool_[idx(tail_)];
+    const double x = position(f, t_now_);
+    if (x >= length_m_) return t_now_;
+    if (!(f.speed_m_s > 0.0)) return std::numeric_limits<double>::infinity();
+    return t_now_ + (length_m_ - x) / f.speed_m_s;
+  }
+
+  // Books the inlet and outlet fluxes (constant between events) up to t.
+  template <geometry::FluxLaw F>
+  void pass_time(const F& law, double t) {
+    if (t <= t_now_) return;
+    const double dt = t - t_now_;
+    inflow_m3_ += nodes_.flux(law, inlet_area_) * dt;
+    outflow_m3_ += nodes_.flux(law, outlet_area_m2()) * dt;
+    t_now_ = t;
+  }
+
+  void remove_tail() {
+    const int f = tail_;
+    unlink(f);
+  }
+
+  template <geometry::FluxLaw F>
+  void collide(const F& law, int f) {
+    const Front& a = pool_[idx(f)];
+    const int g = a.next;
+    const Front& b = pool_[idx(g)];
+    const double x = clamp_x(0.5 * (position(a, t_now_) + position(b, t_now_)));
+    const double left = a.area_left_m2, right = b.area_right_m2;
+    const int prev = a.prev, next = b.next;
+    unlink(f);
+    unlink(g);
+    const int first = insert_fan(law, prev, next, x, left, right);
+    // New neighbours: prev with the first new front (or with next), each new front, the last.
+    schedule_after(prev);
+    for (int h = first; h >= 0 && h != next; h = pool_[idx(h)].next) schedule_after(h);
+  }
+
+  // Folds zero-length and short segments (index >= 1, shorter than merge_length_m) into their
+  // upstream neighbour, volume-weighted, and joins equal neighbours.
+  static void coalesce(std::vector<double>& edge, std::vector<double>& area, double merge_length_m) {
+    std::size_t out = 0;
+    for (std::size_t k = 1; k < area.size(); ++k) {
+      const double len = edge[k + 1] - edge[k];
+      const double prev_len = edge[out + 1] - edge[out];
+      if (area[k] == area[out] || len <= 0.0 || len < merge_length_m) {
+        const double total = prev_len + len;
+        if (total > 0.0 && area[k] != area[out]) {
+          area[out] = (area[out] * prev_len + area[k] * len) / total;
+        }
+        edge[out + 1] = edge[k + 1];
+      } else {
+        ++out;
+        area[out] = area[k];
+        edge[out] = edge[k];
+        edge[out + 1] = edge[k + 1];
+      }
+    }
+    area.resize(area.empty() ? 0 : out + 1);
+    edge.resize(area.size() + 1);
+  }
+
+  double length_m_ = 0.0;
+  FluxNodes nodes_;
+  std::size_t max_fan_fronts_ = 64;
+  bool convex_ = false;
+  std::vector<Front> pool_;
+  std::vector<int> free_;
+  std::priority_queue<Event, std::vector<Event>, std::greater<>> heap_;
+  std::size_t heap_storage_bytes_ = 0;
+  int head_ = -1, tail_ = -1, count_ = 0;
+  long events_ = 0;
+  double t_now_ = 0.0;
+  double inlet_area_ = 0.0;
+  double inflow_m3_ = 0.0, outflow_m3_ = 0.0;
+  std::vector<Wave> waves_;
+  std::vector<double> scratch_a_, scratch_q_;
+};
+
+}  // namespace freshet::routing::detail

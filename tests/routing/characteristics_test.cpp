@@ -1,0 +1,233 @@
+// The characteristics scheme (grid-free front tracking, schemes/characteristics.hpp) against
+// exact solutions of the kinematic wave: Riemann problems on a Manning channel (shock and
+// rarefaction), a non-convex Riemann problem in a part-full pipe, a triangular flood wave on a
+// long channel (P1), and its volume balance.
+#include "freshet/routing/schemes/characteristics.hpp"
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <vector>
+
+#include "freshet/geometry/section_flux.hpp"
+#include "freshet/routing/kinematic_reach.hpp"
+#include "freshet/routing/shock.hpp"
+#include "routing_test_support.hpp"
+
+namespace freshet::routing {
+namespace {
+
+using geometry::RectangularFlux;
+using geometry::TabulatedFlux;
+
+RoutingOptions characteristics_options(double node_spacing = 1e-3) {
+  RoutingOptions opt;
+  opt.scheme = SchemeKind::kCharacteristics;
+  opt.front_node_spacing = node_spacing;
+  return opt;
+}
+
+// The P1 channel: rectangular, 50 m wide, Manning n 0.035, bed slope 0.001.
+RectangularFlux p1_channel() { return {50.0, 0.035, 0.001}; }
+
+// Where the single front of a Riemann problem is, from the one cell average that lies
+// between the two plateaus: the average is A_r + (A_l - A_r) (front - cell start) / dx.
+double front_position_m(std::span<const double> area, double dx, double a_left, double a_right) {
+  for (std::size_t i = 0; i < area.size(); ++i) {
+    if (area[i] != a_left) {
+      return dx * (static_cast<double>(i) + (area[i] - a_right) / (a_left - a_right));
+    }
+  }
+  return dx * static_cast<double>(area.size());
+}
+
+// Shock: a channel at Q_r = 50 m3/s receives Q_l = 300 m3/s from t = 0. The entropy solution
+// is one front moving at the Rankine-Hugoniot speed U = (Q_l - Q_r) / (A_l - A_r)
+// (Lighthill & Whitham 1955, On kinematic waves I, Proc. R. Soc. A 229, sec. 2.3). With node
+// spacing 1e-6 the piecewise-linear flux is within ~1e-13 of Manning's law at the two states
+// (flux_nodes.hpp), so the front speed must match U to 1e-9, relative.
+TEST(Characteristics, ShockMovesAtTheRankineHugoniotSpeed) {
+  const RectangularFlux law = p1_channel();
+  const double q_l = 300.0, q_r = 50.0, length = 20000.0;
+  const int cells = 400;
+  KinematicReach<RectangularFlux> reach({"riemann-shock", length, cells}, law,
+                                        characteristics_options(1e-6));
+  reach.set_uniform_discharge(q_r);
+  const double a_l = law.area_for_discharge_m2(q_l), a_r = law.area_for_discharge_m2(q_r);
+  const double u = (q_l - q_r) / (a_l - a_r);
+  const double t = 3000.0;
+  (void)reach.advance(0.0, t, PiecewiseLinearSeries::constant(q_l), LateralInflow::none());
+  const auto area = reach.cell_area_m2();
+  // Plateaus are the inlet area for Q_l and the initial area (to the law's inversion).
+  const double x = front_position_m(area, length / cells, area.front(), area.back());
+  std::printf("shock: front at %.9f m after %.0f s, speed %.12f m/s, U = %.12f m/s\n", x, t,
+              x / t, u);
+  EXPECT_NEAR(area.front(), a_l, 1e-10 * a_l);
+  EXPECT_EQ(area.back(), a_r);
+  EXPECT_NEAR(x / t, u, 1e-9 * u);
+  EXPECT_LE(std::abs(reach.ledger().balance_error_m3()), 1e-12 * reach.ledger().inflow_m3);
+}
+
+// Rarefaction: the channel at Q_r = 300 m3/s receives Q_l = 50 m3/s from t = 0. The exact
+// solution is the centred fan c(A) = x / t between c(A_l) t and c(A_r) t (LeVeque 2002,
+// Finite Volume Methods for Hyperbolic Problems, sec. 11.2; Whitham 1974, Linear and
+// Nonlinear Waves, sec. 2.2). Front tracking replaces it by a staircase whose states are
+// neighbouring vertices of the flux envelope, so at every face the computed discharge lies
+// between the exact discharges one vertex either side (the stated error: one node, about
+// 5/3 x spacing in discharge, or 1/front_fan_max_fronts of the jump when the fan is thinned).
+TEST(Characteristics, RarefactionStaircaseIsWithinOneNodeOfTheExactFan) {
+  const RectangularFlux law = p1_channel();
+  const double q_l = 50.0, q_r = 300.0, length = 20000.0, t = 2400.0;
+  const int cells = 2000;
+  RoutingOptions opt = characteristics_options();
+  opt.front_fan_max_fronts = 100000;  // no thinning: the node error alone
+  KinematicReach<RectangularFlux> reach({"riemann-fan", length, cells}, law, opt);
+  reach.set_uniform_discharge(q_r);
+  (void)reach.advance(0.0, t, PiecewiseLinearSeries::constant(q_l), LateralInflow::none());
+  const double a_l = law.area_for_discharge_m2(q_l), a_r = law.area_for_discharge_m2(q_r);
+  const double c_l = law.celerity_m_s(a_l), c_r = law.celerity_m_s(a_r);
+  const double node_q_step = 5.0 / 3.0 * opt.front_node_spacing * 1.01;
+  const double thinning_q = (q_r - q_l) / opt.front_fan_max_fronts;
+  double worst_rel = 0.0;
+  int in_fan = 0;
+  for (int i = 1; i < cells; ++i) {
+    const double x = length * i / cells;
+    double q_exact;
+    if (x <= c_l * t) q_exact = q_l;
+    else if (x >= c_r * t) q_exact = q_r;
+    else {  // c(A) = x / t, c increasing in A for the rectangle: bisection
+      double lo = a_l, hi = a_r;
+      for (int k = 0; k < 200; ++k) {
+        const double mid = 0.5 * (lo + hi);
+        (law.celerity_m_s(mid) < x / t ? lo : hi) = mid;
+      }
+      q_exact = law.discharge_m3s(0.5 * (lo + hi));
+      ++in_fan;
+    }
+    const double q = reach.face_flux_m3s()[static_cast<std::size_t>(i)];
+    const double bound = std::max(node_q_step * q_exact, thinning_q) + 1e-9 * q_exact;
+    EXPECT_LE(std::abs(q - q_exact), bound) << "x = " << x;
+    worst_rel = std::max(worst_rel, std::abs(q - q_exact) / q_exact);
+  }
+  std::printf("rarefaction: %d faces in the fan, worst |dQ|/Q %.2e (bound %.2e)\n", in_fan,
+              worst_rel, node_q_step);
+  EXPECT_GT(in_fan, 100);
+  EXPECT_LE(std::abs(reach.ledger().balance_error_m3()), 1e-12 * reach.ledger().inflow_m3);
+}
+
+// Non-convex flux: a part-full pipe (D = 1.2 m, n 0.013, S0 0.005), whose Q(A) is convex
+// low in the pipe and concave near the crown. A nearly full pipe (h/D = 0.92) upstream of a
+// shallow flow (h/D = 0.15): the entropy solution follows the upper concave envelope of Q
+// on [A_r, A_l] (Oleinik's condition; LeVeque 2002, sec. 16.1): a fan from A_l down to the
+// tangent point A*, then a shock from A* to A_r moving at c(A*) = (Q(A*) - Q(A_r)) /
+// (A* - A_r). A* is found here by bisection on that tangency condition with the law itself,
+// independently of the node envelope the scheme builds.
+TEST(Characteristics, NonConvexPipeRiemannProblemFollowsTheConcaveEnvelope) {
+  const geometry::FlowSection pipe = geometry::make_flow_section(
+      geometry::CircularSpec{1.2, 0.013}, 0.005);
+  const auto& law = std::get<TabulatedFlux>(pipe.flux);
+  const double full_area = 3.14159265358979 * 0.36;
+  auto area_at_depth_ratio = [&](double r) {  // segment area of a circle, D = 1.2 m
+    const double theta = 2.0 * std::acos(1.0 - 2.0 * r);
+    return 0.125 * 1.44 * (theta - std::sin(theta));
+  };
+  const double a_l = area_at_depth_ratio(0.92), a_r = area_at_depth_ratio(0.15);
+  ASSERT_LT(a_l, law.capacity_area_m2());
+  ASSERT_LT(a_l, full_area);
+  auto tangency = [&](double a) {
+    return (law.discharge_m3s(a) - law.discharge_m3s(a_r)) / (a - a_r) - law.celerity_m_s(a);
+  };
+  double lo = 0.5 * (a_l + a_r), hi = a_l;  // chord slope - c changes sign once in the concave part
+  ASSERT_LT(tangency(lo), 0.0);
+  ASSERT_GT(tangency(hi), 0.0);
+  for (int k = 0; k < 200; ++k) {
+    const double mid = 0.5 * (lo + hi);
+    (tangency(mid) < 0.0 ? lo : hi) = mid;
+  }
+  const double a_star = 0.5 * (lo + hi);
+  const double shock_speed = law.celerity_m_s(a_star);
+
+  const detail::FluxNodes nodes(1e-3);
+  std::vector<detail::Wave> waves;
+  std::vector<double> sa, sq;
+  detail::solve_riemann(nodes, law, false, a_l, a_r, 1u << 20, waves, sa, sq);
+  ASSERT_GE(waves.size(), 2u);
+  for (std::size_t i = 1; i < waves.size(); ++i) {
+    EXPECT_GE(waves[i].speed_m_s, waves[i - 1].speed_m_s);  // an admissible fan: no overtaking
+  }
+  const detail::Wave& shock = waves.back();
+  const double a_star_ft = waves[waves.size() - 2].area_right_m2;
+  std::printf("pipe: A* %.6f m2 (front tracking %.6f), shock %.6f m/s (c(A*) %.6f), %zu fronts\n",
+              a_star, a_star_ft, shock.speed_m_s, shock_speed, waves.size());
+  EXPECT_EQ(shock.area_right_m2, a_r);
+  EXPECT_NEAR(a_star_ft, a_star, 2e-3 * a_star);           // within two nodes of the tangent
+  EXPECT_NEAR(shock.speed_m_s, shock_speed, 1e-5 * shock_speed);
+  // The fan states between A_l and A* all lie on the concave part (c falls with A there).
+  for (std::size_t i = 0; i + 1 < waves.size(); ++i) {
+    EXPECT_GT(waves[i].area_right_m2, a_star_ft * (1 - 1e-12));
+  }
+}
+
+// Breaking of a smooth hump under Burgers' equation u_t + u u_x = 0, u(x, 0) = exp(-x^2):
+// characteristics x = xi + u0(xi) t first cross at t_b = -1 / min u0' = sqrt(e / 2), from
+// xi* = 1 / sqrt(2), at x_b = xi* + u0(xi*) t_b = sqrt(2) (Whitham 1974, Linear and Nonlinear
+// Waves, sec. 2.1, eq. 2.14). The breaking predictor on a profile sampled every 1e-4.
+TEST(Characteristics, BurgersHumpBreaksAtSqrtHalfEAndSqrtTwo) {
+  std::vector<double> x, u;
+  for (int i = 0; i <= 60000; ++i) {
+    x.push_back(-2.0 + 1e-4 * i);
+    u.push_back(std::exp(-x.back() * x.back()));
+  }
+  const BreakingPrediction p = predict_breaking_from_profile(testing::burgers(), x, u);
+  ASSERT_TRUE(p.breaks);
+  const double t_b = std::sqrt(std::exp(1.0) / 2.0), x_b = std::sqrt(2.0);
+  std::printf("Burgers hump: t_b %.9f (exact %.9f), x_b %.9f (exact %.9f)\n", p.time_s, t_b,
+              p.position_m, x_b);
+  EXPECT_NEAR(p.time_s, t_b, 1e-6);
+  EXPECT_NEAR(p.position_m, x_b, 1e-6);
+}
+
+// P1: a 20 km rectangular channel (50 m, n 0.035, S0 0.001) with a triangular inflow
+// 20 -> 500 -> 20 m3/s over 6 h (peak at 3 h). By characteristics (Lighthill & Whitham 1955,
+// sec. 2) the peak discharge travels unchanged at c(A_500) = dQ/dA as long as the shock
+// formed on the rising limb stays ahead of it, so it reaches x = L at
+//   t = 3 h + L / c(A_500) = 10800 s + 20000 m / 3.45993 m/s = 16580.5 s = 276.34 min,
+// with c = dQ/dA of Manning's law for the rectangle (normal depth 4.52 m at 500 m3/s).
+// 500 m3/s is still the outlet peak: integrating the rising-limb shock (speed [Q]/[A],
+// upstream state from the characteristic that meets it) puts it at 20 km at 209.7 min with
+// 258 m3/s behind it, long before the peak characteristic could catch it. The
+// scheme carries the inflow's peak state exactly (it is a breakpoint of the hydrograph), so
+// the outlet peak must equal 500 m3/s to round-off and arrive within the sampling step (6 s)
+// plus the duration of the peak state at the inlet (both halves of the last node step).
+TEST(Characteristics, P1TriangularFloodPeakArrivesUndiminishedByCharacteristics) {
+  const RectangularFlux law = p1_channel();
+  const double length = 20000.0;
+  const PiecewiseLinearSeries inflow({0.0, 10800.0, 21600.0}, {20.0, 500.0, 20.0});
+  KinematicReach<RectangularFlux> reach({"P1", length, 200}, law, characteristics_options());
+  reach.set_uniform_discharge(20.0);
+  const double c_peak = law.celerity_m_s(law.area_for_discharge_m2(500.0));
+  const double t_exact = 10800.0 + length / c_peak;
+  double q_max = 0.0, t_first = 0.0, t_last = 0.0;
+  const double dt = 6.0;
+  for (double t = 0.0; t < 21600.0 + 7200.0; t += dt) {
+    (void)reach.advance(t, t + dt, inflow, LateralInflow::none());
+    const double q = reach.face_flux_m3s().back();
+    if (q > q_max * (1 + 1e-12)) q_max = q, t_first = t + dt;
+    if (q >= q_max * (1 - 1e-12)) t_last = t + dt;
+  }
+  const double t_peak = 0.5 * (t_first + t_last);
+  const VolumeLedger& ledger = reach.ledger();
+  std::printf("P1: c(500) = %.6f m/s, exact arrival %.2f s = %.2f min; outlet peak %.9f m3/s at "
+              "%.1f s (%.1f min, plateau %.0f-%.0f s); %d fronts at most; balance %.2e m3 of %.3e\n",
+              c_peak, t_exact, t_exact / 60.0, q_max, t_peak, t_peak / 60.0, t_first, t_last,
+              reach.diagnostics().max_fronts, ledger.balance_error_m3(), ledger.inflow_m3);
+  EXPECT_NEAR(q_max, 500.0, 1e-9 * 500.0);
+  EXPECT_NEAR(t_peak, t_exact, 10.0);
+  EXPECT_NEAR(ledger.inflow_m3, inflow.integral(0.0, 28800.0), 1e-12 * ledger.inflow_m3);
+  EXPECT_LE(std::abs(ledger.balance_error_m3()), 1e-12 * ledger.inflow_m3);
+}
+
+}  // namespace
+}  // namespace freshet::routing
