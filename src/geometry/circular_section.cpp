@@ -3,7 +3,9 @@
 //   T = 2 sqrt(h (D - h)),  dP/dh = 2 D / T.
 #include <cmath>
 #include <numbers>
+#include <string>
 
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/root_finding.hpp"
 #include "freshet/geometry/cross_section.hpp"
 
@@ -51,7 +53,9 @@ double capacity_depth_ratio() {
       f = unit_conveyance_slope(y);
       df = 0.0;
     };
-    return solve_bracketed_newton(fdf, 0.9, 0.99).x;
+    return converged_root(solve_bracketed_newton(fdf, 0.9, 0.99), "circular section",
+                          "relative depth of greatest conveyance (y/D)",
+                          [] { return std::string("dK/dy = 0 between y/D = 0.9 and 0.99"); });
   }();
   return ratio;
 }
@@ -66,7 +70,8 @@ CircularSection::CircularSection(const CircularSpec& spec, std::string element)
         return spec.diameter_m;
       }()),
       n_(spec.manning_n),
-      capacity_depth_m_(capacity_depth_ratio() * spec.diameter_m) {}
+      capacity_depth_m_(capacity_depth_ratio() * spec.diameter_m),
+      element_(std::move(element)) {}
 
 double CircularSection::full_area_m2() const noexcept {
   return std::numbers::pi * d_ * d_ / 4.0;
@@ -103,14 +108,23 @@ double CircularSection::conveyance_slope_m2s(double h) const noexcept {
   return std::cbrt(d_ * d_ * d_ * d_ * d_) * unit_conveyance_slope(h / d_) / n_;
 }
 
-double CircularSection::depth_from_area_m(double a) const noexcept {
+// [0, D] brackets every area between 0 and full; an area that is not a number does not
+// converge and is a NumericalError, not a NaN depth.
+double CircularSection::depth_from_area_m(double a) const {
   if (a <= 0.0) return 0.0;
   if (a >= full_area_m2()) return d_;
   auto fdf = [&](double h, double& f, double& df) {
     f = area_m2(h) - a;
     df = top_width_m(h);
   };
-  return solve_bracketed_newton(fdf, 0.0, d_).x;
+  RootResult r = solve_bracketed_newton(fdf, 0.0, d_);
+  if (!r.converged && std::isfinite(a)) {  // a nearly dry pipe: bracket the depth closely
+    double hi = d_;
+    const double lo = tighten_bracket_below([this](double h) { return area_m2(h); }, a, hi);
+    r = solve_bracketed_newton(fdf, lo, hi);
+  }
+  return converged_root(r, element_, "depth for area (m)",
+                        [a] { return "flow area " + format_value(a) + " m2"; });
 }
 
 }  // namespace freshet::geometry

@@ -12,6 +12,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/root_finding.hpp"
 #include "freshet/geometry/cross_section.hpp"
 
@@ -78,6 +79,7 @@ struct IrregularSection::Hydraulics {
 
 IrregularSection::IrregularSection(const IrregularSpec& spec, std::string element)
     : n_{spec.left_overbank_n, spec.main_channel_n, spec.right_overbank_n} {
+  element_ = element;
   ProblemList problems(std::move(element));
   spec.validate(problems);
   problems.throw_if_any();
@@ -214,7 +216,9 @@ double IrregularSection::conveyance_slope_above_m2s(double h) const noexcept {
   return conveyance_slope(h, Limit::from_above);
 }
 
-double IrregularSection::depth_from_area_m(double a) const noexcept {
+// Above the end points the walls are vertical, so every finite area has a finite depth; an
+// area that is not a number or infinite has none, and is a NumericalError, not a NaN depth.
+double IrregularSection::depth_from_area_m(double a) const {
   if (a <= 0.0) return 0.0;
   auto area = [this](double h) { return area_m2(h); };
   const double hi = expand_upper_bracket(area, a, depth_scale_m());
@@ -223,7 +227,14 @@ double IrregularSection::depth_from_area_m(double a) const noexcept {
     f = g.area[0] + g.area[1] + g.area[2] - a;
     df = g.width[0] + g.width[1] + g.width[2];
   };
-  return solve_bracketed_newton(fdf, 0.0, hi).x;
+  RootResult r = std::isfinite(hi) ? solve_bracketed_newton(fdf, 0.0, hi) : RootResult{};
+  if (!r.converged && std::isfinite(hi)) {  // a nearly dry section: bracket the depth closely
+    double top = hi;
+    const double lo = tighten_bracket_below(area, a, top);
+    r = solve_bracketed_newton(fdf, lo, top);
+  }
+  return converged_root(r, element_, "depth for area (m)",
+                        [a] { return "flow area " + format_value(a) + " m2"; });
 }
 
 double IrregularSection::depth_scale_m() const noexcept {

@@ -5,6 +5,7 @@
 
 #include <cmath>
 
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/root_finding.hpp"
 
 namespace freshet::geometry {
@@ -14,17 +15,26 @@ namespace {
 double two_thirds_power(double x) { return std::cbrt(x * x); }
 
 // Inverts a non-decreasing law with Q(0) = 0: bracket [0, hi] from `start`, then rtsafe.
+// No bracket (Q overflows before it reaches q, or q is infinite) or no convergence is a
+// NumericalError naming `element`.
 template <class Law>
-double invert_discharge(const Law& law, double q, double start) {
+double invert_discharge(const Law& law, double q, double start, const std::string& element) {
   if (!(q > 0.0)) return 0.0;
   const double hi =
       expand_upper_bracket([&](double a) { return law.discharge_m3s(a); }, q, start);
-  if (!std::isfinite(hi)) return hi;
   auto fdf = [&](double a, double& f, double& df) {
     f = law.discharge_m3s(a) - q;
     df = law.celerity_m_s(a);
   };
-  return solve_bracketed_newton(fdf, 0.0, hi).x;
+  RootResult r = std::isfinite(hi) ? solve_bracketed_newton(fdf, 0.0, hi) : RootResult{};
+  if (!r.converged && std::isfinite(hi)) {  // a tiny discharge: bracket the area closely
+    double top = hi;
+    const double lo =
+        tighten_bracket_below([&](double a) { return law.discharge_m3s(a); }, q, top);
+    r = solve_bracketed_newton(fdf, lo, top);
+  }
+  return converged_root(r, element, "area for discharge (m2)",
+                        [q] { return "discharge " + format_value(q) + " m3/s"; });
 }
 
 void require_slope(ProblemList& problems, double bed_slope) {
@@ -41,9 +51,11 @@ void throw_if_bad_slope(double bed_slope, const std::string& element) {
 
 // ---- Rectangle ----------------------------------------------------------------------------
 
-RectangularFlux::RectangularFlux(double bottom_width_m, double manning_n,
-                                 double bed_slope) noexcept
-    : b_(bottom_width_m), coefficient_(std::sqrt(bed_slope) / manning_n) {}
+RectangularFlux::RectangularFlux(double bottom_width_m, double manning_n, double bed_slope,
+                                 std::string element)
+    : b_(bottom_width_m),
+      coefficient_(std::sqrt(bed_slope) / manning_n),
+      element_(std::make_shared<const std::string>(std::move(element))) {}
 
 double RectangularFlux::discharge_m3s(double a) const noexcept {
   if (!(a > 0.0)) return 0.0;
@@ -59,21 +71,22 @@ double RectangularFlux::celerity_m_s(double a) const noexcept {
   return q * ((5.0 / 3.0) / a - (4.0 / 3.0) / (b_ * p));
 }
 
-double RectangularFlux::area_for_discharge_m2(double q) const noexcept {
+double RectangularFlux::area_for_discharge_m2(double q) const {
   // Start from the wide-channel area b (q n / (b sqrt S))^(3/5), which conveys at most q.
   const double start = b_ * std::pow(q / (coefficient_ * b_), 0.6);
-  return invert_discharge(*this, q, start > 0.0 ? start : b_);
+  return invert_discharge(*this, q, start > 0.0 ? start : b_, *element_);
 }
 
 // ---- Trapezoid ----------------------------------------------------------------------------
 
 TrapezoidalFlux::TrapezoidalFlux(double bottom_width_m, double left_side_slope,
-                                 double right_side_slope, double manning_n,
-                                 double bed_slope) noexcept
+                                 double right_side_slope, double manning_n, double bed_slope,
+                                 std::string element)
     : b_(bottom_width_m),
       z_sum_(left_side_slope + right_side_slope),
       side_length_per_depth_(std::hypot(1.0, left_side_slope) + std::hypot(1.0, right_side_slope)),
-      coefficient_(std::sqrt(bed_slope) / manning_n) {}
+      coefficient_(std::sqrt(bed_slope) / manning_n),
+      element_(std::make_shared<const std::string>(std::move(element))) {}
 
 double TrapezoidalFlux::discharge_m3s(double a) const noexcept {
   if (!(a > 0.0)) return 0.0;
@@ -92,10 +105,10 @@ double TrapezoidalFlux::celerity_m_s(double a) const noexcept {
   return q * ((5.0 / 3.0) / a - (2.0 / 3.0) * side_length_per_depth_ / (p * root));
 }
 
-double TrapezoidalFlux::area_for_discharge_m2(double q) const noexcept {
+double TrapezoidalFlux::area_for_discharge_m2(double q) const {
   const double scale = b_ > 0.0 ? b_ : 1.0;
   const double start = scale * std::pow(q / (coefficient_ * scale), 0.6);
-  return invert_discharge(*this, q, start > 0.0 ? start : scale);
+  return invert_discharge(*this, q, start > 0.0 ? start : scale, *element_);
 }
 
 // ---- Power laws ---------------------------------------------------------------------------
@@ -126,20 +139,20 @@ ManningFlux::ManningFlux(std::shared_ptr<const CrossSection> section, double bed
                              ? sqrt_slope_ * section_->conveyance_m3s(capacity_depth_m_)
                              : kNoDischargeLimit_m3s) {}
 
-double ManningFlux::discharge_m3s(double a) const noexcept {
+double ManningFlux::discharge_m3s(double a) const {
   if (!(a > 0.0)) return 0.0;
   if (a >= capacity_area_m2_) return max_discharge_m3s_;
   return sqrt_slope_ * section_->conveyance_m3s(section_->depth_from_area_m(a));
 }
 
-double ManningFlux::celerity_m_s(double a) const noexcept {
+double ManningFlux::celerity_m_s(double a) const {
   if (!(a > 0.0) || a >= capacity_area_m2_) return 0.0;
   const double h = section_->depth_from_area_m(a);
   const double t = section_->top_width_m(h);
   return t > 0.0 ? sqrt_slope_ * section_->conveyance_slope_m2s(h) / t : 0.0;
 }
 
-double ManningFlux::area_for_discharge_m2(double q) const noexcept {
+double ManningFlux::area_for_discharge_m2(double q) const {
   if (!(q > 0.0)) return 0.0;
   if (q >= max_discharge_m3s_) return capacity_area_m2_;
   const auto h = normal_depth_m(*section_, sqrt_slope_ * sqrt_slope_, q);
@@ -176,12 +189,12 @@ SectionFlux closed_form_or_table(const CrossSection& section, double s,
   switch (section.shape()) {
     case SectionShape::rectangular: {
       const auto& r = static_cast<const TrapezoidalSection&>(section);
-      return RectangularFlux(r.bottom_width_m(), r.manning_n(), s);
+      return RectangularFlux(r.bottom_width_m(), r.manning_n(), s, element);
     }
     case SectionShape::trapezoidal: {
       const auto& t = static_cast<const TrapezoidalSection&>(section);
       return TrapezoidalFlux(t.bottom_width_m(), t.left_side_slope(), t.right_side_slope(),
-                             t.manning_n(), s);
+                             t.manning_n(), s, element);
     }
     case SectionShape::triangular: {
       const auto& t = static_cast<const TrapezoidalSection&>(section);
@@ -233,7 +246,7 @@ double celerity_m_s(const SectionFlux& flux, double a) noexcept {
   return visit_flux(flux, [a](const auto& law) { return law.celerity_m_s(a); });
 }
 
-double area_for_discharge_m2(const SectionFlux& flux, double q) noexcept {
+double area_for_discharge_m2(const SectionFlux& flux, double q) {
   return visit_flux(flux, [q](const auto& law) { return law.area_for_discharge_m2(q); });
 }
 

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/root_finding.hpp"
 #include "freshet/geometry/section_flux.hpp"
 
@@ -132,6 +133,7 @@ void check_table(const Data& d, const std::vector<Sample>& samples, const std::s
 std::shared_ptr<const Data> assemble(const std::vector<Sample>& samples, bool closed,
                                      const std::string& element) {
   auto d = std::make_shared<Data>();
+  d->element = element;
   for (const Sample& s : samples) {
     d->log_area.push_back(s.log_area);
     d->log_q.push_back(s.log_q);
@@ -243,7 +245,7 @@ double TabulatedFlux::celerity_m_s(double a) const noexcept {
   return std::exp(e.log_q) / a * e.dlogq_dloga;
 }
 
-double TabulatedFlux::area_for_discharge_m2(double q) const noexcept {
+double TabulatedFlux::area_for_discharge_m2(double q) const {
   if (!(q > 0.0)) return 0.0;
   const Data& d = *data_;
   const double y = std::log(q);
@@ -269,7 +271,13 @@ double TabulatedFlux::area_for_discharge_m2(double q) const noexcept {
     f = e.log_q - y;
     df = e.dlogq_dloga;
   };
-  return std::exp(solve_bracketed_newton(fdf, d.log_area[k - 1], d.log_area[k]).x);
+  // The interval brackets the root (the table is monotone, checked when it is built), so this
+  // converges; if it ever does not, it says so instead of returning a NaN area.
+  const double log_area =
+      converged_root(solve_bracketed_newton(fdf, d.log_area[k - 1], d.log_area[k]), d.element,
+                     "area for discharge (m2)",
+                     [q] { return "discharge " + format_value(q) + " m3/s"; });
+  return std::exp(log_area);
 }
 
 }  // namespace freshet::geometry

@@ -440,5 +440,83 @@ TEST(TabulatedFlux, NanAndInfiniteAreasStayInsideTheTable) {
   for (double q : {1e-300, 1e300}) EXPECT_TRUE(std::isfinite(survey.area_for_discharge_m2(q))) << q;
 }
 
+// ---- Inversions that do not converge (error tiers: a NumericalError, never a NaN) --------
+// Robustness, no source needed. Each inversion below once returned NaN without a word for
+// these inputs (a depth or area of NaN passed on to stage and velocity output); each now
+// throws NumericalError naming the element, the quantity sought and the value it was sought
+// for (freshet/core/converged_root.hpp), which the command line turns into exit 3.
+
+// The message of the NumericalError `fn` throws, or a note that it threw none.
+template <class Fn>
+std::string numerical_error_of(Fn&& fn) {
+  try {
+    (void)fn();
+  } catch (const NumericalError& e) {
+    return e.what();
+  }
+  return "no NumericalError";
+}
+
+TEST(FailedInversion, CircularDepthForAnAreaThatIsNotANumber) {
+  const CircularSection pipe(testing::circle_spec(), "pipe 'p9'");
+  EXPECT_EQ(numerical_error_of([&] { return pipe.depth_from_area_m(std::nan("")); }),
+            "pipe 'p9': depth for area (m) did not converge for flow area nan m2 "
+            "(0 iterations, last estimate nan)");
+  EXPECT_NEAR(pipe.depth_from_area_m(pipe.area_m2(0.3)), 0.3, 1e-12);  // the ordinary path
+}
+
+TEST(FailedInversion, IrregularDepthForAnInfiniteOrNanArea) {
+  const IrregularSection survey(testing::natural_spec(), "reach 'alder'");
+  const double inf = std::numeric_limits<double>::infinity();
+  EXPECT_EQ(numerical_error_of([&] { return survey.depth_from_area_m(inf); }),
+            "reach 'alder': depth for area (m) did not converge for flow area inf m2 "
+            "(0 iterations, last estimate nan)");
+  EXPECT_EQ(numerical_error_of([&] { return survey.depth_from_area_m(std::nan("")); }),
+            "reach 'alder': depth for area (m) did not converge for flow area nan m2 "
+            "(0 iterations, last estimate nan)");
+  // Through the flow section the reach reports depths with (as station output does).
+  const FlowSection flow = make_flow_section(testing::natural_spec(), kSlope, {}, "reach 'alder'");
+  EXPECT_EQ(numerical_error_of([&] { return flow.depth_m(inf); }),
+            "reach 'alder': depth for area (m) did not converge for flow area inf m2 "
+            "(0 iterations, last estimate nan)");
+}
+
+TEST(FailedInversion, ClosedFormLawsAreaForAnInfiniteDischarge) {
+  const double inf = std::numeric_limits<double>::infinity();
+  const FlowSection rectangle =
+      make_flow_section(testing::rectangle_spec(), kSlope, {}, "reach 'upper'");
+  EXPECT_EQ(numerical_error_of([&] { return area_for_discharge_m2(rectangle.flux, inf); }),
+            "reach 'upper': area for discharge (m2) did not converge for discharge inf m3/s "
+            "(0 iterations, last estimate nan)");
+  const TrapezoidalFlux trapezoid(3.0, 1.5, 2.5, 0.035, kSlope, "reach 'lower'");
+  EXPECT_EQ(numerical_error_of([&] { return trapezoid.area_for_discharge_m2(inf); }),
+            "reach 'lower': area for discharge (m2) did not converge for discharge inf m3/s "
+            "(0 iterations, last estimate nan)");
+  // A finite discharge, however large, still inverts.
+  EXPECT_TRUE(std::isfinite(trapezoid.area_for_discharge_m2(1e300)));
+}
+
+// A nearly dry section is no failure: a depth of 1e-160 m in a 1.2 m pipe lies far below the
+// bracket [0, D], more halvings away than the solver's iteration limit, so the inversion
+// tightens the bracket and solves again (root_finding.hpp, tighten_bracket_below). Before,
+// such depths came back wrong without a word (1e-96 m for an area of 4.8e-243 m2); the round
+// trip h -> A -> h must hold to 1e-12 relative. The same for a surveyed section (its area
+// ~ h^2 near the thalweg leaves the normal double range below h ~ 1e-150) and for the area of
+// a tiny discharge (the rectangle's Q(A) underflows below A ~ 1e-154).
+TEST(FailedInversion, NearlyDrySectionsStillInvert) {
+  const CircularSection pipe(testing::circle_spec(), "pipe 'p9'");
+  const IrregularSection survey(testing::natural_spec(), "reach 'alder'");
+  for (double h : {1e-20, 1e-100, 1e-160, 1e-200}) {
+    EXPECT_NEAR(pipe.depth_from_area_m(pipe.area_m2(h)) / h, 1.0, 1e-12) << h;
+  }
+  for (double h : {1e-20, 1e-100, 1e-140}) {
+    EXPECT_NEAR(survey.depth_from_area_m(survey.area_m2(h)) / h, 1.0, 1e-12) << h;
+  }
+  const RectangularFlux rectangle(4.0, 0.03, kSlope, "reach 'upper'");
+  for (double q : {1e-100, 1e-200, 1e-250}) {
+    EXPECT_NEAR(rectangle.discharge_m3s(rectangle.area_for_discharge_m2(q)) / q, 1.0, 1e-12) << q;
+  }
+}
+
 }  // namespace
 }  // namespace freshet::geometry

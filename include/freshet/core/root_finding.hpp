@@ -80,4 +80,19 @@ double expand_upper_bracket(G&& g, double target, double start, int max_doubling
   return std::numeric_limits<double>::quiet_NaN();
 }
 
+// For increasing g with g(0) <= target <= g(hi): halves `hi` while g(hi / 2) >= target and
+// returns the lower end (hi / 2 where g < target, or 0 once hi / 2 underflows). A root far
+// below hi (the depth of a nearly dry section, 1e-160 m in a 1 m pipe) is then bracketed within
+// a factor of 2, where solve_bracketed_newton converges in a few steps; from [0, hi] it would
+// need more than its iteration limit. Inversions call it when a first solve on [0, hi] has not
+// converged, so ordinary roots keep the bracket (and the last bits) they always had.
+template <class G>
+double tighten_bracket_below(G&& g, double target, double& hi) {
+  for (double half = 0.5 * hi; half > 0.0; half = 0.5 * hi) {
+    if (!(g(half) >= target)) return half;
+    hi = half;
+  }
+  return 0.0;
+}
+
 }  // namespace freshet

@@ -48,8 +48,12 @@ std::optional<SectionShape> parse_section_shape(std::string_view text);
 
 inline constexpr double kInfiniteDepth_m = std::numeric_limits<double>::infinity();
 
-// The interface. All members are pure and noexcept; a depth <= 0 gives zero area, perimeter
-// and conveyance. Depths above the top of a closed conduit are treated as the full depth.
+// The interface. All members are pure, and all but depth_from_area_m are noexcept; a depth
+// <= 0 gives zero area, perimeter and conveyance. Depths above the top of a closed conduit are
+// treated as the full depth. depth_from_area_m is closed-form (noexcept) for the prismatic
+// shapes; where it iterates (circular, irregular) an inversion that does not converge (an area
+// that is not a number, or beyond any depth) throws NumericalError naming the element, the
+// quantity and the area (freshet/core/converged_root.hpp), never a silent NaN.
 class CrossSection {
  public:
   virtual ~CrossSection() = default;
@@ -69,7 +73,7 @@ class CrossSection {
     return conveyance_slope_m2s(depth_m);
   }
   // The depth whose area is `area_m2` (m); round trip A -> h -> A within 1e-12 relative.
-  [[nodiscard]] virtual double depth_from_area_m(double area_m2) const noexcept = 0;
+  [[nodiscard]] virtual double depth_from_area_m(double area_m2) const = 0;
 
   // Closed conduits: the crown depth (diameter). Open sections: nullopt.
   [[nodiscard]] virtual std::optional<double> full_depth_m() const noexcept { return {}; }
@@ -236,7 +240,7 @@ class CircularSection final : public CrossSection {
   [[nodiscard]] double top_width_m(double depth_m) const noexcept override;
   [[nodiscard]] double conveyance_m3s(double depth_m) const noexcept override;
   [[nodiscard]] double conveyance_slope_m2s(double depth_m) const noexcept override;
-  [[nodiscard]] double depth_from_area_m(double area_m2) const noexcept override;
+  [[nodiscard]] double depth_from_area_m(double area_m2) const override;
   [[nodiscard]] std::optional<double> full_depth_m() const noexcept override { return d_; }
   [[nodiscard]] double capacity_depth_m() const noexcept override { return capacity_depth_m_; }
   [[nodiscard]] double depth_scale_m() const noexcept override { return d_; }
@@ -248,6 +252,7 @@ class CircularSection final : public CrossSection {
  private:
   double d_, n_;
   double capacity_depth_m_;
+  std::string element_;  // for messages: "pipe 'p'"
 };
 
 // A surveyed section. Depth is measured from the lowest survey point; the water surface is
@@ -266,7 +271,7 @@ class IrregularSection final : public CrossSection {
   [[nodiscard]] double top_width_m(double depth_m) const noexcept override;
   [[nodiscard]] double conveyance_m3s(double depth_m) const noexcept override;
   [[nodiscard]] double conveyance_slope_m2s(double depth_m) const noexcept override;
-  [[nodiscard]] double depth_from_area_m(double area_m2) const noexcept override;
+  [[nodiscard]] double depth_from_area_m(double area_m2) const override;
   [[nodiscard]] double depth_scale_m() const noexcept override;
   [[nodiscard]] std::vector<double> breakpoint_depths_m() const override;
 
@@ -293,6 +298,7 @@ class IrregularSection final : public CrossSection {
   int left_wall_subsection_, right_wall_subsection_;
   double relief_m_;
   std::vector<double> breakpoints_m_;
+  std::string element_;  // for messages: "reach 'r'"
 };
 
 }  // namespace freshet::geometry

@@ -1,10 +1,14 @@
 // Manning flux laws Q(A) for kinematic-wave routing, built from a cross-section and a bed slope.
 //
-// Each law satisfies freshet::geometry::FluxLaw (flux_law.hpp): pure, const, noexcept
+// Each law satisfies freshet::geometry::FluxLaw (flux_law.hpp): pure and const
 //   discharge_m3s(A)          Q = K(h(A)) sqrt(S0)          (Manning, SI, k = 1)
 //   celerity_m_s(A)           c = dQ/dA = sqrt(S0) (dK/dh) / T   (kinematic wave speed,
 //                             Lighthill & Whitham 1955, Proc. R. Soc. A 229, eq. 8)
 //   area_for_discharge_m2(Q)  the inverse of Q(A)
+// Q(A) and c(A) of the fast laws are noexcept. An inversion that iterates and does not converge
+// (a discharge beyond the double range, for instance) throws NumericalError naming the element,
+// the quantity and the discharge (freshet/core/converged_root.hpp), never a silent NaN; so do
+// ManningFlux's Q and c, which invert the section's depth.
 // Laws:
 //   RectangularFlux, TrapezoidalFlux   closed forms (depth from area by the quadratic);
 //   PowerLawFlux (flux_law.hpp)        triangles (Q ~ A^(4/3)) and unit-width sheets (~ A^(5/3));
@@ -49,16 +53,19 @@ inline constexpr double kNoDischargeLimit_m3s = std::numeric_limits<double>::inf
 inline constexpr double kNoCapacityArea_m2 = std::numeric_limits<double>::infinity();
 
 // Q = (sqrt(S0)/n) A^(5/3) / (b + 2 A / b)^(2/3).
+// `element` names the law in messages, e.g. "reach 'upper'".
 class RectangularFlux {
  public:
-  RectangularFlux(double bottom_width_m, double manning_n, double bed_slope) noexcept;
+  RectangularFlux(double bottom_width_m, double manning_n, double bed_slope,
+                  std::string element = "rectangular channel");
   [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
   [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
-  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const;
 
  private:
   double b_;
   double coefficient_;  // sqrt(S0) / n
+  std::shared_ptr<const std::string> element_;
 };
 
 // h = 2 A / (b + sqrt(b^2 + 2 (z1 + z2) A)),  P = b + h (sqrt(1+z1^2) + sqrt(1+z2^2)),
@@ -66,14 +73,16 @@ class RectangularFlux {
 class TrapezoidalFlux {
  public:
   TrapezoidalFlux(double bottom_width_m, double left_side_slope, double right_side_slope,
-                  double manning_n, double bed_slope) noexcept;
+                  double manning_n, double bed_slope,
+                  std::string element = "trapezoidal channel");
   [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
   [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
-  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const;
 
  private:
   double b_, z_sum_, side_length_per_depth_;
   double coefficient_;  // sqrt(S0) / n
+  std::shared_ptr<const std::string> element_;
 };
 
 // Triangle of side slopes z1, z2: Q = alpha A^(4/3), alpha = (sqrt(S0)/n) ((z1+z2)/2)^(1/3) /
@@ -117,7 +126,7 @@ class TabulatedFlux {
 
   [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
   [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
-  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const;
 
   // Closed conduits: the area where Q reaches its cap, and the cap. Open: infinity.
   [[nodiscard]] double capacity_area_m2() const noexcept { return data_->capacity_area_m2; }
@@ -132,6 +141,7 @@ class TabulatedFlux {
     double capacity_area_m2 = kNoCapacityArea_m2;
     double max_discharge_m3s = kNoDischargeLimit_m3s;
     int monotone_corrections = 0;
+    std::string element = "cross-section";  // for messages
   };
 
  private:
@@ -150,9 +160,9 @@ class ManningFlux {
  public:
   ManningFlux(std::shared_ptr<const CrossSection> section, double bed_slope,
               std::string element = "cross-section");
-  [[nodiscard]] double discharge_m3s(double area_m2) const noexcept;
-  [[nodiscard]] double celerity_m_s(double area_m2) const noexcept;
-  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const noexcept;
+  [[nodiscard]] double discharge_m3s(double area_m2) const;
+  [[nodiscard]] double celerity_m_s(double area_m2) const;
+  [[nodiscard]] double area_for_discharge_m2(double discharge_m3s) const;
   [[nodiscard]] double capacity_area_m2() const noexcept { return capacity_area_m2_; }
   [[nodiscard]] double max_discharge_m3s() const noexcept { return max_discharge_m3s_; }
 
@@ -185,7 +195,7 @@ SectionFlux make_section_flux(const CrossSection& section, double bed_slope,
 // Convenience (one dispatch per call; not for inner loops).
 double discharge_m3s(const SectionFlux& flux, double area_m2) noexcept;
 double celerity_m_s(const SectionFlux& flux, double area_m2) noexcept;
-double area_for_discharge_m2(const SectionFlux& flux, double discharge_m3s) noexcept;
+double area_for_discharge_m2(const SectionFlux& flux, double discharge_m3s);
 double max_discharge_m3s(const SectionFlux& flux) noexcept;  // infinity for open sections
 double capacity_area_m2(const SectionFlux& flux) noexcept;   // infinity for open sections
 
@@ -200,10 +210,11 @@ struct FlowSection {
   SectionFlux flux;
   double bed_slope = 0.0;
 
-  [[nodiscard]] double depth_m(double area_m2) const noexcept {
+  // NumericalError when the section's inversion fails (cross_section.hpp).
+  [[nodiscard]] double depth_m(double area_m2) const {
     return section->depth_from_area_m(area_m2);
   }
-  [[nodiscard]] double top_width_m(double area_m2) const noexcept {
+  [[nodiscard]] double top_width_m(double area_m2) const {
     return section->top_width_m(depth_m(area_m2));
   }
   // Mean velocity Q / A (m/s); 0 when dry.
