@@ -40,7 +40,7 @@ BatchOptions batch_options(const RunArgs& args, bool quiet) {
   return options;
 }
 
-std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args) {
+std::vector<std::string> storm_ids(const study::Study& study, const RunArgs& args) {
   std::vector<std::string> storms = unique_in_order(args.storms);
   if (storms.empty()) {
     for (const auto& s : study.storms()) storms.push_back(s.id);
@@ -57,14 +57,14 @@ std::vector<std::string> unique_in_order(const std::vector<std::string>& items) 
   return out;
 }
 
-std::vector<io::RunOutcome> run_batch(const io::Study& study,
-                                      const std::vector<io::RunRequest>& requests,
+std::vector<study::RunOutcome> run_batch(const study::Study& study,
+                                      const std::vector<study::RunRequest>& requests,
                                       const BatchOptions& options) {
   // Lock every output folder first (another freshet process writing there stops this command
   // before anything is routed), and report what killed runs had left there.
   std::vector<io::OutputFolderLock::Handle> locks;
   for (const auto& request : requests) {
-    locks.push_back(io::OutputFolderLock::acquire(io::run_folder(request)));
+    locks.push_back(io::OutputFolderLock::acquire(study::run_folder(request)));
     for (const auto& left : locks.back()->removed_leftovers()) {
       std::cerr << "freshet: removed '" << left.string()
                 << "', left by an earlier run that was killed before it finished\n";
@@ -74,8 +74,8 @@ std::vector<io::RunOutcome> run_batch(const io::Study& study,
   // or route a storm that outlasts the run.
   std::set<std::filesystem::path> planned;
   for (const auto& request : requests) {
-    io::check_run_request(study, request);
-    for (const auto& path : io::planned_output_files(study, request)) {
+    study::check_run_request(study, request);
+    for (const auto& path : study::planned_output_files(study, request)) {
       if (!planned.insert(path).second) {
         throw UsageError("two runs of this command would both write '" + path.string() +
                          "'; route these runs in separate commands with their own --out, or "
@@ -84,7 +84,7 @@ std::vector<io::RunOutcome> run_batch(const io::Study& study,
     }
   }
   const std::size_t n = requests.size();
-  std::vector<io::RunOutcome> results(n);
+  std::vector<study::RunOutcome> results(n);
   std::vector<std::exception_ptr> errors(n);
   std::vector<double> fraction(n, 0.0);
   std::mutex fraction_mutex;
@@ -94,8 +94,8 @@ std::vector<io::RunOutcome> run_batch(const io::Study& study,
   auto worker = [&] {
     for (std::size_t k = next++; k < n; k = next++) {
       try {
-        if (stop_requested()) throw io::RunInterrupted("the run was stopped before it started");
-        results[k] = io::run_study(study, requests[k], [&, k](double f) {
+        if (stop_requested()) throw study::RunInterrupted("the run was stopped before it started");
+        results[k] = study::run_study(study, requests[k], [&, k](double f) {
           double total = 0.0;
           {
             std::lock_guard lock(fraction_mutex);
@@ -142,7 +142,7 @@ std::string cell(const std::string& text, std::size_t width, bool right) {
   return right ? pad + text : text + pad;
 }
 
-std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
+std::string format_critical_storms(const std::vector<study::RunOutcome>& runs,
                                    const std::vector<reporting::StationDescription>& stations) {
   std::ostringstream out;
   out << "Critical storm at each point (highest peak discharge, m3/s):\n";
@@ -162,13 +162,13 @@ std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
   return out.str();
 }
 
-std::string format_notes(const io::RunOutcome& run) {
+std::string format_notes(const study::RunOutcome& run) {
   std::ostringstream out;
   for (const auto& [id, note] : run.notes) out << "  " << id << ": " << note << "\n";
   return out.str();
 }
 
-std::string format_input_warnings(const io::Study& study, std::string_view indent) {
+std::string format_input_warnings(const study::Study& study, std::string_view indent) {
   std::string out;
   for (const Problem& w : study.warnings()) {
     out += std::string(indent) + "warning: " + w.to_string() + "\n";

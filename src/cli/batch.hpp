@@ -7,8 +7,8 @@
 #include <string>
 #include <vector>
 
-#include "freshet/io/study.hpp"
-#include "freshet/io/study_run.hpp"
+#include "freshet/study/study.hpp"
+#include "freshet/study/study_run.hpp"
 
 namespace freshet::cli {
 
@@ -33,7 +33,7 @@ struct RunArgs {
 void add_run_options(CLI::App* cmd, RunArgs& args);
 BatchOptions batch_options(const RunArgs& args, bool quiet);
 // The storms to run, each checked to exist (InputError names an unknown one).
-std::vector<std::string> storm_ids(const io::Study& study, const RunArgs& args);
+std::vector<std::string> storm_ids(const study::Study& study, const RunArgs& args);
 // The items without repeats, in their first order (a storm or station named twice on the
 // command line is run or exported once).
 std::vector<std::string> unique_in_order(const std::vector<std::string>& items);
@@ -41,9 +41,9 @@ std::vector<std::string> unique_in_order(const std::vector<std::string>& items);
 // Runs every request; results come back in request order. Every output folder is locked for
 // the whole batch (io::OutputFolderLock). The first failure (by request order) is rethrown
 // after all threads have stopped; outputs of completed runs stay. SIGINT/SIGTERM
-// (stop_signals.hpp) stop the runs under way and those not yet started (io::RunInterrupted).
-std::vector<io::RunOutcome> run_batch(const io::Study& study,
-                                      const std::vector<io::RunRequest>& requests,
+// (stop_signals.hpp) stop the runs under way and those not yet started (study::RunInterrupted).
+std::vector<study::RunOutcome> run_batch(const study::Study& study,
+                                      const std::vector<study::RunRequest>& requests,
                                       const BatchOptions& options);
 
 // "1:05" for 3900 s (hours:minutes), "-" for NaN.
@@ -55,15 +55,15 @@ std::string cell(const std::string& text, std::size_t width, bool right = false)
 
 // The storms giving the highest peak discharge at each station: one row per station with
 // the peak for every storm and the critical one.
-std::string format_critical_storms(const std::vector<io::RunOutcome>& runs,
+std::string format_critical_storms(const std::vector<study::RunOutcome>& runs,
                                    const std::vector<reporting::StationDescription>& stations);
 
 // Element reports (culvert crossings, detention basins, shocks, capacity) of one run.
-std::string format_notes(const io::RunOutcome& run);
+std::string format_notes(const study::RunOutcome& run);
 
-// The basin file's plausibility warnings (io::Study::warnings), one "warning: ..." line each
+// The basin file's plausibility warnings (study::Study::warnings), one "warning: ..." line each
 // after `indent`; empty when there are none.
-std::string format_input_warnings(const io::Study& study, std::string_view indent = "");
+std::string format_input_warnings(const study::Study& study, std::string_view indent = "");
 
 // The caution, wrapped for a terminal.
 std::string wrapped_caution();

@@ -10,7 +10,7 @@ namespace freshet::cli {
 namespace {
 
 int check(const std::string& basin) {
-  const io::Study study = io::Study::load(basin);  // InputError lists every problem
+  const study::Study study = study::Study::load(basin);  // InputError lists every problem
   std::map<std::string, int> counts;
   for (const auto& s : study.stations()) ++counts[std::string(network::to_string(s.kind))];
   std::cout << basin << ": no problems found.\n"

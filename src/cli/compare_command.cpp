@@ -24,7 +24,7 @@ std::string signed_number(double v, int digits) {
 }
 
 // One storm: rows per point of interest, one line per scenario (base first).
-std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
+std::string comparison_table(const std::vector<const study::RunOutcome*>& runs,
                              const std::vector<reporting::StationDescription>& stations,
                              bool all_points) {
   std::size_t w_point = 6, w_scenario = 9;
@@ -35,7 +35,7 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
       << cell("vs base", 9, true) << cell("t peak", 8, true) << cell("peak stage m", 13, true)
       << cell("vs base", 9, true) << cell("volume m3", 12, true) << cell("overtopping", 13, true)
       << "\n";
-  const io::RunOutcome& base = *runs.front();
+  const study::RunOutcome& base = *runs.front();
   for (std::size_t i = 0; i < stations.size(); ++i) {
     if (!all_points && network::is_source(stations[i].kind)) {
       continue;
@@ -63,10 +63,10 @@ std::string comparison_table(const std::vector<const io::RunOutcome*>& runs,
 // Every run's warnings, by run (storm, then base and scenarios) and within a run by element,
 // as `freshet route` prints them: the tables above show none of them, and a backwater warning
 // means a stage difference upstream of a pond is not computed.
-std::string warnings_by_run(const std::vector<io::RunOutcome>& runs) {
+std::string warnings_by_run(const std::vector<study::RunOutcome>& runs) {
   std::string out = "\nWarnings of each run (the tables above do not show them):\n";
   bool any = false;
-  for (const io::RunOutcome& r : runs) {
+  for (const study::RunOutcome& r : runs) {
     const std::string lines = io::format_warning_lines(r.summary);
     if (lines.empty()) continue;
     out += (r.scenario_id.empty() ? std::string("base") : r.scenario_id) + ", storm " +
@@ -77,7 +77,7 @@ std::string warnings_by_run(const std::vector<io::RunOutcome>& runs) {
 }
 
 int compare(const CompareArgs& a, const GlobalOptions& global) {
-  const io::Study study = io::Study::load(a.basin);
+  const study::Study study = study::Study::load(a.basin);
   const std::vector<std::string> storms = storm_ids(study, a);
   std::vector<std::string> scenarios{""};
   if (a.scenarios.empty()) {
@@ -87,7 +87,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
     scenarios.insert(scenarios.end(), a.scenarios.begin(), a.scenarios.end());
   }
   const BatchOptions options = batch_options(a, global.quiet);
-  std::vector<io::RunRequest> requests;
+  std::vector<study::RunRequest> requests;
   for (const auto& storm : storms) {
     for (const auto& scenario : scenarios) {
       requests.push_back({scenario, storm, options.out_dir, options.overwrite,
@@ -100,7 +100,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   }
   const std::string warnings = format_input_warnings(study);
   if (!warnings.empty()) std::cout << warnings << "\n";
-  const std::vector<io::RunOutcome> runs = run_batch(study, requests, options);
+  const std::vector<study::RunOutcome> runs = run_batch(study, requests, options);
   std::cout << study.settings().title << "\nComparison of the base network";
   for (std::size_t k = 1; k < scenarios.size(); ++k) std::cout << (k == 1 ? " with " : ", ") << scenarios[k];
   std::cout << "\n";
@@ -108,7 +108,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
     std::cout << "  " << scenarios[k] << ": " << study.scenario(scenarios[k]).description << "\n";
   }
   for (std::size_t j = 0; j < storms.size(); ++j) {
-    std::vector<const io::RunOutcome*> group;
+    std::vector<const study::RunOutcome*> group;
     for (std::size_t k = 0; k < scenarios.size(); ++k) group.push_back(&runs[j * scenarios.size() + k]);
     std::cout << "\nStorm " << storms[j] << " (t peak in h:min from the study start)\n"
               << comparison_table(group, study.stations(), a.all_points);

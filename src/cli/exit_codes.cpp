@@ -1,7 +1,7 @@
 #include "exit_codes.hpp"
 
 #include "freshet/core/error.hpp"
-#include "freshet/io/study_run.hpp"
+#include "freshet/study/study_run.hpp"
 
 namespace freshet::cli {
 namespace {
@@ -34,7 +34,7 @@ int report_failure(const std::exception_ptr& failure, std::ostream& err,
     err << "freshet: " << e.what() << "\n";
     library_state_unknown = true;
     return kExitIo;
-  } catch (const io::RunInterrupted&) {
+  } catch (const study::RunInterrupted&) {
     return kExitOk;  // reported by main() from the signal received
   } catch (const std::exception& e) {
     library_state_unknown = true;

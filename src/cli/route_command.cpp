@@ -20,11 +20,11 @@ struct RouteArgs : RunArgs {
 };
 
 int route(const RouteArgs& a, const GlobalOptions& global) {
-  const io::Study study = io::Study::load(a.basin);
+  const study::Study study = study::Study::load(a.basin);
   if (!a.scenario.empty()) (void)study.scenario(a.scenario);  // InputError if unknown
   const std::vector<std::string> storms = storm_ids(study, a);
   const BatchOptions options = batch_options(a, global.quiet);
-  std::vector<io::RunRequest> requests;
+  std::vector<study::RunRequest> requests;
   for (const auto& storm : storms) {
     requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, global.command_line,
                         std::string("freshet ") + FRESHET_VERSION, unique_in_order(a.exports),
@@ -34,7 +34,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)
             << ", " << storms.size() << " storm(s)\n"
             << format_input_warnings(study) << "\n";
-  const std::vector<io::RunOutcome> runs = run_batch(study, requests, options);
+  const std::vector<study::RunOutcome> runs = run_batch(study, requests, options);
   for (const auto& r : runs) {
     std::cout << io::format_summary_table(r.summary, false);
     const std::string notes = format_notes(r);

@@ -1,6 +1,6 @@
 // SIGINT and SIGTERM ask a running command to stop cleanly. The handler only records the
 // signal (an async-signal-safe store to a lock-free atomic); the runs poll stop_requested()
-// through io::CancelFn at every coupling step, unwind, and remove their temporary files on the
+// through study::CancelFn at every coupling step, unwind, and remove their temporary files on the
 // way out; main() then exits with 128 + the signal number (130 for SIGINT, 143 for SIGTERM).
 // A second SIGINT or SIGTERM ends the process at once with the default action; what it leaves
 // is recognisable by name and removed by the next run in that folder (docs/outputs.md). A
@@ -11,7 +11,7 @@
 // and is reported and cleaned up like any other write failure instead of killing the process.
 //
 //   install_stop_handlers();                 // first thing in main()
-//   io::run_study(study, request, {}, [] { return stop_requested(); });
+//   study::run_study(study, request, {}, [] { return stop_requested(); });
 //   if (const int sig = stop_signal()) return 128 + sig;
 #pragma once
 

@@ -12,7 +12,7 @@
 #include <string>
 
 #include "freshet/core/error.hpp"
-#include "freshet/io/study_run.hpp"
+#include "freshet/study/study_run.hpp"
 
 namespace freshet::cli {
 namespace {
@@ -45,7 +45,7 @@ TEST(ExitCodes, FreshetErrorsKeepTheirCodes) {
   const Reported io = report(IoError("cannot write 'out/a.nc'"));
   EXPECT_EQ(io.code, 4);
   EXPECT_TRUE(io.library_state_unknown);
-  EXPECT_EQ(report(io::RunInterrupted("stopped")).code, 0);
+  EXPECT_EQ(report(study::RunInterrupted("stopped")).code, 0);
 }
 
 // Failures freshet does not expect end with 70, the message, a request to report it and the

@@ -86,7 +86,7 @@ extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   SeriesTable t;
   bool parsed = false;
   // The parser's problems name the file; the series built afterwards are library objects
-  // whose problems the basin reader relocates to the file (src/io/basin/study.cpp).
+  // whose problems the basin reader relocates to the file (src/study/basin/study.cpp).
   freshet::fuzz::expect_documented_outcome(
       [&] {
         t = freshet::io::parse_series_csv(text, "fuzz.csv");

@@ -1,5 +1,5 @@
 // libFuzzer target: a basin file (TOML) read and checked as `freshet check` does it
-// (io::Study::load, then the summary check prints: stations, storm depths, late-storm warnings,
+// (study::Study::load, then the summary check prints: stations, storm depths, late-storm warnings,
 // scenarios). The input is written to a scratch folder laid out like the repository, so the
 // CSV files the seeds name (../hydrographs/quarry-spring.csv, triangle.csv) resolve.
 #include <unistd.h>
@@ -13,7 +13,7 @@
 #include <string>
 #include <system_error>
 
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 #include "fuzz_support.hpp"
 
 namespace {
@@ -41,7 +41,7 @@ void write_input(const uint8_t* data, size_t size) {
 
 // What `freshet check` does with a study after loading it (src/cli/check_command.cpp). A storm
 // the file accepted must have a finite, non-negative depth (check prints it).
-void summarise(const freshet::io::Study& study) {
+void summarise(const freshet::study::Study& study) {
   std::size_t text_size = study.stations().size();
   for (const auto& storm : study.storms()) {
     const double depth_m = storm.rain.total_depth_m();
@@ -77,7 +77,7 @@ extern "C" int LLVMFuzzerInitialize(int* /*argc*/, char*** /*argv*/) {
 extern "C" int LLVMFuzzerTestOneInput(const uint8_t* data, size_t size) {
   write_input(data, size);
   freshet::fuzz::expect_documented_outcome(
-      [] { summarise(freshet::io::Study::load(basin_path)); },
+      [] { summarise(freshet::study::Study::load(basin_path)); },
       /*problems_name_a_file=*/true);
   return 0;
 }

@@ -13,7 +13,7 @@
 
 #include <gtest/gtest.h>
 
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 #include "freshet/network/driver.hpp"
 
 namespace freshet {
@@ -45,7 +45,7 @@ Totals network_totals(const network::Model& model, const network::RunSummary& ru
   return t;
 }
 
-double relative_imbalance(const io::Study& study, const std::string& scenario,
+double relative_imbalance(const study::Study& study, const std::string& scenario,
                           const std::string& storm) {
   network::Model model = study.build_model(scenario, study.storm(storm));
   NullSink sink;
@@ -58,8 +58,8 @@ double relative_imbalance(const io::Study& study, const std::string& scenario,
 }
 
 TEST(NetworkBalance, DemoStudyClosesForEveryStormAndScenario) {
-  const io::Study study =
-      io::Study::load(std::filesystem::path(FRESHET_SOURCE_DIR) / "basins/tansy-brook.toml");
+  const study::Study study =
+      study::Study::load(std::filesystem::path(FRESHET_SOURCE_DIR) / "basins/tansy-brook.toml");
   for (const char* scenario : {"", "twin-1500"}) {
     for (const char* storm : {"aep1-30min", "aep1-120min"}) {
       EXPECT_LT(relative_imbalance(study, scenario, storm), 1e-9) << scenario << " " << storm;
@@ -137,7 +137,7 @@ TEST(NetworkBalance, RandomNetworksClose) {
     std::mt19937 rng(seed);
     const auto file = dir / ("random-" + std::to_string(seed) + ".toml");
     std::ofstream(file) << random_basin(rng);
-    const io::Study study = io::Study::load(file);
+    const study::Study study = study::Study::load(file);
     EXPECT_LT(relative_imbalance(study, "", "s"), 1e-9) << "seed " << seed;
   }
   std::filesystem::remove_all(dir);

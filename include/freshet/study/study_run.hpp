@@ -6,7 +6,7 @@
 // locked against other freshet processes for the run (OutputFolderLock).
 //
 //   Study study = Study::load("basins/tansy-brook.toml");
-//   RunRequest req{"", "aep1-60min", "out/tansy-brook", Overwrite::no, "freshet route ..."};
+//   RunRequest req{"", "aep1-60min", "out/tansy-brook", io::Overwrite::no, "freshet route ..."};
 //   RunOutcome r = run_study(study, req);
 //   std::cout << format_summary_table(r.summary);
 #pragma once
@@ -18,18 +18,18 @@
 #include <vector>
 
 #include "freshet/io/atomic_file.hpp"
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 #include "freshet/network/driver.hpp"
 #include "freshet/reporting/run_report.hpp"
 #include "freshet/routing/diagnostics.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 
 struct RunRequest {
   std::string scenario_id;  // empty: the base network
   std::string storm_id;
   std::filesystem::path out_dir;  // files go to out_dir/<scenario or "base">/<storm>...
-  Overwrite overwrite = Overwrite::no;
+  io::Overwrite overwrite = io::Overwrite::no;
   std::string history;      // command line, recorded in the NetCDF history attribute
   std::string source;       // "freshet <version>"
   // Hydrograph export for downstream models: these stations' discharge, resampled to
@@ -91,4 +91,4 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
 // all of its requests before starting any.
 void check_run_request(const Study& study, const RunRequest& request);
 
-}  // namespace freshet::io
+}  // namespace freshet::study

@@ -8,15 +8,15 @@
 #include <algorithm>
 #include <string>
 
-#include "freshet/io/study.hpp"
-#include "temp_dir.hpp"
+#include "freshet/study/study.hpp"
+#include "../io/temp_dir.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 namespace {
 
 using ::testing::HasSubstr;
-using testing::TempDir;
-using testing::write_text;
+using io::testing::TempDir;
+using io::testing::write_text;
 
 std::string basin(const std::string& study_extra, int reach_cells, double duration_h) {
   return "[study]\ntitle = \"budget\"\nunits = \"si\"\nduration_h = " +
@@ -76,4 +76,4 @@ TEST(RunBudget, TheDefaultsAcceptAnOrdinaryStudy) {
 }
 
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::study

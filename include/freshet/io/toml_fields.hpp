@@ -1,4 +1,6 @@
-// Reads the keys of one TOML table of a basin file with full error context.
+// io's TOML reading: the keys of one TOML table (of a basin file) with full error context.
+// What the tables mean, and the network built from them, is the study module's
+// (src/study/basin/).
 //
 // Every value read is checked (type, finiteness, range where asked) and every problem is
 // appended to a shared list with file, line, column, element and field, so a whole file is
@@ -21,7 +23,7 @@
 
 #include "freshet/core/error.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::io {
 
 class FieldReader {
  public:
@@ -96,4 +98,4 @@ bool is_safe_id(std::string_view id);
 // `arr ? *arr : toml::array{}`: that copies the array, and toml++ copies lose positions.)
 const toml::array& items_of(const toml::array* array);
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::io

@@ -1,4 +1,4 @@
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -7,7 +7,7 @@
 #include <map>
 #include <sstream>
 
-#include "field_reader.hpp"
+#include "freshet/io/toml_fields.hpp"
 #include "freshet/hydrology/design_storm.hpp"
 #include "freshet/hydrology/idf_curve.hpp"
 #include "freshet/hydrology/nrcs_distribution.hpp"
@@ -16,7 +16,7 @@
 #include "input_units.hpp"
 #include "network_reader.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 
 using detail::FieldReader;
 using detail::InputUnits;
@@ -207,13 +207,13 @@ void check_blocks(FieldReader& r, const hydrology::DesignStormOptions& o, bool w
 
 hydrology::Hyetograph read_series_storm(FieldReader& r, const std::filesystem::path& dir,
                                         const std::string& label) {
-  const SeriesTable t = read_hyetograph_csv(dir / r.text("file"));
+  const io::SeriesTable t = io::read_hyetograph_csv(dir / r.text("file"));
   std::vector<double> depth_m;
   for (std::size_t k = 1; k < t.times_s.size(); ++k) {
     const double dt = t.times_s[k] - t.times_s[k - 1];
     // Intensity rows are instants, linear between them: a block's depth is the exact
     // integral. Depth rows already give the depth of the interval ending at the row.
-    depth_m.push_back(t.quantity == SeriesQuantity::rain_depth
+    depth_m.push_back(t.quantity == io::SeriesQuantity::rain_depth
                           ? t.values_si[k]
                           : 0.5 * (t.values_si[k] + t.values_si[k - 1]) * dt);
   }
@@ -565,4 +565,4 @@ network::Model Study::build_model(std::string_view scenario_id,
   return model;
 }
 
-}  // namespace freshet::io
+}  // namespace freshet::study

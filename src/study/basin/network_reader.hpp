@@ -13,16 +13,20 @@
 
 #include <toml++/toml.h>
 
-#include "field_reader.hpp"
+#include "freshet/io/toml_fields.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
 #include "freshet/hydrology/loss_model.hpp"
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 #include "freshet/network/driver.hpp"
 #include "freshet/network/run_budget.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
 #include "input_units.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::study::detail {
+
+using io::FieldReader;
+using io::is_safe_id;
+using io::items_of;
 
 // Culvert crossings already built, shared by the runs of one study: a crossing's rating table
 // costs far more than routing a storm, and it depends only on the crossing's own fields,
@@ -111,4 +115,4 @@ void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& 
 // Reports a file named by the table at `at` that cannot be read (IoError), at its `file` key.
 void report_file_error(FieldReader& at, const IoError& e);
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::study::detail

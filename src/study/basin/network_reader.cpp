@@ -16,7 +16,7 @@
 #include "freshet/routing/make_reach.hpp"
 #include "input_ranges.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::study::detail {
 
 namespace structures = network::structures;
 using network::ElementKind;
@@ -229,7 +229,7 @@ std::unique_ptr<network::Element> NetworkReader::read_inflow(Reader& r, const st
   const std::string file = r.text("file");
   if (file.empty()) return nullptr;
   const std::filesystem::path path = base_dir_ / file;
-  return std::make_unique<network::InflowHydrograph>(id, read_hydrograph_csv(path));
+  return std::make_unique<network::InflowHydrograph>(id, io::read_hydrograph_csv(path));
 }
 
 // ---- subcatchment ------------------------------------------------------------------------
@@ -974,4 +974,4 @@ std::unique_ptr<network::Element> NetworkReader::read_detention(Reader& r, const
                                                 std::move(storage->relation), options, start_m);
 }
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::study::detail

@@ -7,7 +7,7 @@
 #include <limits>
 #include <string>
 
-namespace freshet::io::detail {
+namespace freshet::study::detail {
 
 namespace {
 
@@ -477,4 +477,4 @@ void check_storm_depth(FieldReader& r, const InputUnits& u, std::string_view key
   }
 }
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::study::detail

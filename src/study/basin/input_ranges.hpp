@@ -21,11 +21,15 @@
 #include <string_view>
 #include <vector>
 
-#include "field_reader.hpp"
+#include "freshet/io/toml_fields.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
 #include "input_units.hpp"
 
-namespace freshet::io::detail {
+namespace freshet::study::detail {
+
+using io::FieldReader;
+using io::is_safe_id;
+using io::items_of;
 
 // How a number converts from the file's units to SI (input_units.hpp).
 enum class Measure {
@@ -173,4 +177,4 @@ std::string_view unit_label(Measure m, const InputUnits& u);
 // File units to the table's units (SI, or the key's own unit for times): multiply.
 double to_table_units(Measure m, const InputUnits& u);
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::study::detail

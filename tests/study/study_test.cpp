@@ -1,10 +1,10 @@
-// Tests of the basin-file reader (io::Study) through whole files: bad input reported with
+// Tests of the basin-file reader (study::Study) through whole files: bad input reported with
 // file:line, element and field, all problems at once; SI and US customary input giving the
 // same routed study; and end-to-end physics with known answers through the basin-file path.
 //
 // Fixtures are small strings written to a fresh temporary folder per test (temp_dir.hpp), so
 // each test shows the file it reads next to what it expects.
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
@@ -19,15 +19,15 @@
 #include <string>
 #include <vector>
 
-#include "freshet/io/study_run.hpp"
+#include "freshet/study/study_run.hpp"
 #include "freshet/network/driver.hpp"
-#include "temp_dir.hpp"
+#include "../io/temp_dir.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 namespace {
 
-using testing::TempDir;
-using testing::write_text;
+using io::testing::TempDir;
+using io::testing::write_text;
 
 // ---- helpers --------------------------------------------------------------------------------
 
@@ -1155,4 +1155,4 @@ id = "out"
 }
 
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::study

@@ -1,7 +1,7 @@
-// Tests of a whole study run (io::run_study): the summaries a reviewer reads. Each fixture is
+// Tests of a whole study run (study::run_study): the summaries a reviewer reads. Each fixture is
 // a small invented basin written to a temporary folder; the expected values come from the
 // definitions of the quantities (stated beside each check), not from earlier runs.
-#include "freshet/io/study_run.hpp"
+#include "freshet/study/study_run.hpp"
 
 #include "freshet/io/csv_series.hpp"
 
@@ -13,13 +13,13 @@
 #include <string>
 
 #include "freshet/core/error.hpp"
-#include "temp_dir.hpp"
+#include "../io/temp_dir.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 namespace {
 
-using testing::TempDir;
-using testing::write_text;
+using io::testing::TempDir;
+using io::testing::write_text;
 using reporting::ApplicabilityWarning;
 using reporting::ShockRecord;
 using reporting::StationSummary;
@@ -186,7 +186,7 @@ TEST(RunExports, VolumeIsTheRoutedVolumeAndACutPeakIsPointedOut) {
     req.export_interval_s = interval_min * 60.0;
     const RunOutcome r = run_study(study, req);
     const PiecewiseLinearSeries q =
-        read_hydrograph_csv(dir / "out" / "base" / "s1_out_hydrograph.csv");
+        io::read_hydrograph_csv(dir / "out" / "base" / "s1_out_hydrograph.csv");
     const double routed = station(r, "out").runoff_volume_m3;
     EXPECT_NEAR(q.integral(q.times_s().front(), q.times_s().back()), routed, 1e-6 * routed);
     return has_warning(r, "out", "hydrograph export: the exported peak");
@@ -293,7 +293,7 @@ TEST(RunOutputs, PlannedFilesAreWrittenAndAnExistingResultStopsTheRunFirst) {
   }
   EXPECT_EQ(partial, 0u) << "no temporary file is left behind";
 
-  req.overwrite = Overwrite::yes;
+  req.overwrite = io::Overwrite::yes;
   EXPECT_NO_THROW(check_run_request(study, req));
 }
 
@@ -334,4 +334,4 @@ TEST(RunStudy, AProblemFoundWhileRoutingNamesTheFileAndTheStorm) {
 }
 
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::study

@@ -13,15 +13,15 @@
 #include <vector>
 
 #include "freshet/core/units.hpp"
-#include "freshet/io/study.hpp"
+#include "freshet/study/study.hpp"
 #include "freshet/network/elements.hpp"
-#include "temp_dir.hpp"
+#include "../io/temp_dir.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 namespace {
 
-using testing::TempDir;
-using testing::write_text;
+using io::testing::TempDir;
+using io::testing::write_text;
 
 std::string head(const std::string& units) {
   return "[study]\ntitle = \"checks\"\nunits = \"" + units +
@@ -301,4 +301,4 @@ TEST(BasinCurveNumber, RatioBasisMustMatchTheRatio) {
 }
 
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::study

@@ -1,4 +1,4 @@
-#include "freshet/io/study_run.hpp"
+#include "freshet/study/study_run.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -18,7 +18,24 @@
 #include "freshet/reporting/reported_as.hpp"
 #include "freshet/reporting/run_report.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
+
+using io::CsvWriteOptions;
+using io::InstanceInfo;
+using io::InstanceSet;
+using io::NetcdfRunMetadata;
+using io::NetcdfTimeSeriesWriter;
+using io::NetcdfWriterOptions;
+using io::OutputFolderLock;
+using io::OutputSet;
+using io::OutputVariable;
+using io::require_absent;
+using io::SeriesQuantity;
+using io::SeriesTable;
+using io::summary_csv_paths;
+using io::write_series_csv;
+using io::write_summary_csv;
+using io::write_summary_json;
 
 namespace {
 
@@ -484,4 +501,4 @@ RunOutcome run_study(const Study& study,
   return out;
 }
 
-}  // namespace freshet::io
+}  // namespace freshet::study

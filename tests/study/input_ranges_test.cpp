@@ -1,4 +1,4 @@
-// Hard and plausible ranges of the basin file's numbers (src/io/basin/input_ranges.cpp;
+// Hard and plausible ranges of the basin file's numbers (src/study/basin/input_ranges.cpp;
 // docs/basin-file.md, "Ranges"). Table-driven: each case puts one value into an otherwise
 // valid basin file and asserts
 //   - hard limit: the load fails with a problem at that value's line, naming the element, the
@@ -16,14 +16,14 @@
 #include <string>
 #include <vector>
 
-#include "freshet/io/study.hpp"
-#include "temp_dir.hpp"
+#include "freshet/study/study.hpp"
+#include "../io/temp_dir.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 namespace {
 
-using testing::TempDir;
-using testing::write_text;
+using io::testing::TempDir;
+using io::testing::write_text;
 
 // A valid basin using every numeric key once; each value a case may change ends its line with
 // a tag "#@name". Inline tables are avoided so that every value has its own line.
@@ -273,7 +273,7 @@ struct HardCase {
   const char* rule;     // a fragment of the message after the value
 };
 
-// Bounds from the table (src/io/basin/input_ranges.cpp), in the file's units (SI here).
+// Bounds from the table (src/study/basin/input_ranges.cpp), in the file's units (SI here).
 const HardCase kHardCases[] = {
     {"duration_h", "1e12", "study", "duration_h", "must be <= 8784 h"},
     {"output_interval_min", "0.001", "study", "output_interval_min", "must be >= 0.0166"},
@@ -541,4 +541,4 @@ TEST(SurveyedSection, SurveyRulesNameTheFileKeys) {
 }
 
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::study

@@ -7,14 +7,14 @@
 #include <algorithm>
 #include <string>
 
-#include "freshet/io/study_run.hpp"
-#include "temp_dir.hpp"
+#include "freshet/study/study_run.hpp"
+#include "../io/temp_dir.hpp"
 
-namespace freshet::io {
+namespace freshet::study {
 namespace {
 
-using testing::TempDir;
-using testing::write_text;
+using io::testing::TempDir;
+using io::testing::write_text;
 
 // 300 ha of pavement (3 km2, 1.16 mi2) on 30 m planes under a 30-min alternating-block storm
 // with i = a / (t + 10)^0.75 (mm/h, t in min). The envelope at 1.16 mi2 is
@@ -53,4 +53,4 @@ TEST(ResultScale, APeakAboveTheRecordFloodEnvelopeIsAWarning) {
 }
 
 }  // namespace
-}  // namespace freshet::io
+}  // namespace freshet::study

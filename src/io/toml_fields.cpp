@@ -1,9 +1,9 @@
-#include "field_reader.hpp"
+#include "freshet/io/toml_fields.hpp"
 
 #include <cmath>
 #include <limits>
 
-namespace freshet::io::detail {
+namespace freshet::io {
 
 namespace {
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
@@ -267,4 +267,4 @@ void FieldReader::finish() {
   }
 }
 
-}  // namespace freshet::io::detail
+}  // namespace freshet::io
