@@ -11,7 +11,7 @@
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
-#include "basin/input_ranges.hpp"
+#include "freshet/io/input_ranges.hpp"
 
 namespace freshet::io {
 
@@ -41,7 +41,7 @@ const std::array<UnitInfo, 9> kUnits{{
 const UnitInfo& info(ColumnUnit unit) { return kUnits[static_cast<std::size_t>(unit)]; }
 
 // Hard limits on a row's time and value, in SI: the series rows of the basin reader's range
-// table (src/io/basin/input_ranges.cpp), where every hard limit of the input lives.
+// table (src/io/input_ranges.cpp), where every hard limit of the input lives.
 const detail::InputRange& range_of_value(SeriesQuantity q) {
   switch (q) {
     case SeriesQuantity::discharge: return detail::range_of(detail::Quantity::series_discharge);

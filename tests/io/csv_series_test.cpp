@@ -243,7 +243,7 @@ TEST(CsvSeries, ValuesAndTimesBeyondHardLimitsAreRefusedWithTheirLine) {
   EXPECT_EQ(messages_of("time_h,intensity_mm_per_h\n0,0\n1,9999\n").size(), 0u);
   EXPECT_EQ(messages_of("time_s,discharge_cfs\n0,0\n1,4e7\n").size(), 1u);
   EXPECT_EQ(messages_of("time_s,discharge_m3s\n0,0\n1,9e5\n").size(), 0u);
-  // The limits are rows of the input-ranges table (src/io/basin/input_ranges.cpp): 1e6 m3/s,
+  // The limits are rows of the input-ranges table (src/io/input_ranges.cpp): 1e6 m3/s,
   // some three times the largest flood discharge measured (about 3e5 m3/s; from memory), is
   // the last value accepted, and the refusal quotes the table's reason.
   EXPECT_EQ(messages_of("time_s,discharge_m3s\n0,0\n1,1e6\n").size(), 0u);

@@ -1,4 +1,4 @@
-// Hard and plausible ranges of the basin file's numbers (src/study/basin/input_ranges.cpp;
+// Hard and plausible ranges of the basin file's numbers (src/io/input_ranges.cpp;
 // docs/basin-file.md, "Ranges"). Table-driven: each case puts one value into an otherwise
 // valid basin file and asserts
 //   - hard limit: the load fails with a problem at that value's line, naming the element, the
@@ -273,7 +273,7 @@ struct HardCase {
   const char* rule;     // a fragment of the message after the value
 };
 
-// Bounds from the table (src/study/basin/input_ranges.cpp), in the file's units (SI here).
+// Bounds from the table (src/io/input_ranges.cpp), in the file's units (SI here).
 const HardCase kHardCases[] = {
     {"duration_h", "1e12", "study", "duration_h", "must be <= 8784 h"},
     {"output_interval_min", "0.001", "study", "output_interval_min", "must be >= 0.0166"},

@@ -6,7 +6,7 @@
 // duplicate ids, cycles, CSV files named by the study, and every scenario applied to the base.
 // Problems are reported together in one InputError, each with file, line, element and field.
 // Every number is checked against a hard range (an error) and a plausible range (a warning,
-// kept in warnings()); the ranges are one table, src/study/basin/input_ranges.cpp.
+// kept in warnings()); the ranges are one table, src/io/input_ranges.cpp.
 // US customary input (units = "us") is converted to SI here, once.
 //
 //   Study study = Study::load("basins/tansy-brook.toml");

@@ -14,7 +14,7 @@
 #include "freshet/network/run_budget.hpp"
 #include "freshet/network/simple_elements.hpp"
 #include "freshet/routing/make_reach.hpp"
-#include "input_ranges.hpp"
+#include "freshet/io/input_ranges.hpp"
 
 namespace freshet::study::detail {
 

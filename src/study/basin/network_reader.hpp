@@ -20,13 +20,15 @@
 #include "freshet/network/driver.hpp"
 #include "freshet/network/run_budget.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
-#include "input_units.hpp"
+#include "freshet/io/input_units.hpp"
 
 namespace freshet::study::detail {
 
 using io::FieldReader;
 using io::is_safe_id;
 using io::items_of;
+// The input-ranges table and the file's units (freshet/io/input_ranges.hpp, input_units.hpp).
+using namespace io::detail;  // NOLINT(google-build-using-namespace): a private header
 
 // Culvert crossings already built, shared by the runs of one study: a crossing's rating table
 // costs far more than routing a storm, and it depends only on the crossing's own fields,

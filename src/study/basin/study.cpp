@@ -12,8 +12,8 @@
 #include "freshet/hydrology/idf_curve.hpp"
 #include "freshet/hydrology/nrcs_distribution.hpp"
 #include "freshet/io/csv_series.hpp"
-#include "input_ranges.hpp"
-#include "input_units.hpp"
+#include "freshet/io/input_ranges.hpp"
+#include "freshet/io/input_units.hpp"
 #include "network_reader.hpp"
 
 namespace freshet::study {

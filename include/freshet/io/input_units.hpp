@@ -14,7 +14,7 @@
 
 #include "freshet/core/units.hpp"
 
-namespace freshet::study::detail {
+namespace freshet::io::detail {
 
 struct InputUnits {
   units::System system = units::System::si;
@@ -48,4 +48,4 @@ struct InputUnits {
   [[nodiscard]] const char* discharge_unit() const { return us() ? "ft3/s" : "m3/s"; }
 };
 
-}  // namespace freshet::study::detail
+}  // namespace freshet::io::detail

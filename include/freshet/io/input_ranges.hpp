@@ -23,13 +23,9 @@
 
 #include "freshet/io/toml_fields.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
-#include "input_units.hpp"
+#include "freshet/io/input_units.hpp"
 
-namespace freshet::study::detail {
-
-using io::FieldReader;
-using io::is_safe_id;
-using io::items_of;
+namespace freshet::io::detail {
 
 // How a number converts from the file's units to SI (input_units.hpp).
 enum class Measure {
@@ -177,4 +173,4 @@ std::string_view unit_label(Measure m, const InputUnits& u);
 // File units to the table's units (SI, or the key's own unit for times): multiply.
 double to_table_units(Measure m, const InputUnits& u);
 
-}  // namespace freshet::study::detail
+}  // namespace freshet::io::detail

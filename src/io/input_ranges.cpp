@@ -1,4 +1,4 @@
-#include "input_ranges.hpp"
+#include "freshet/io/input_ranges.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -7,7 +7,7 @@
 #include <limits>
 #include <string>
 
-namespace freshet::study::detail {
+namespace freshet::io::detail {
 
 namespace {
 
@@ -477,4 +477,4 @@ void check_storm_depth(FieldReader& r, const InputUnits& u, std::string_view key
   }
 }
 
-}  // namespace freshet::study::detail
+}  // namespace freshet::io::detail
