@@ -50,10 +50,25 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
       }
       std::cout << "\n";
     }
-    char imbalance[32];
-    std::snprintf(imbalance, sizeof imbalance, "%.1e", r.numerics.worst_relative_imbalance);
-    std::cout << "Numerics: " << r.numerics.coupling_steps << " coupling steps, largest volume "
-              << "imbalance of any element " << imbalance << " of its volume, wall time "
+    // What the run's volume check measured (network::relative_imbalance): each element's
+    // |in - out - losses - storage change| over max(water in, water out + losses, 1 m3),
+    // and the limit above which the run stops (exit 3).
+    const auto sci = [](double x) {
+      char text[32];
+      std::snprintf(text, sizeof text, "%.1e", x);
+      return std::string(text);
+    };
+    const auto sci0 = [](double x) {
+      char text[32];
+      std::snprintf(text, sizeof text, "%.0e", x);
+      return std::string(text);
+    };
+    const network::BalanceTolerance limit;
+    std::cout << "Numerics: " << r.numerics.coupling_steps << " coupling steps, largest element "
+              << "volume imbalance " << sci(r.numerics.worst_relative_imbalance)
+              << " of max(water supplied, outflow + losses, " << number(limit.floor_m3, 0) << " m3)"
+              << (r.numerics.worst_element.empty() ? "" : " at " + r.numerics.worst_element)
+              << " (a run stops above " << sci0(limit.relative) << "), wall time "
               << number(r.numerics.wall_time_s, 2) << " s\n\n";
   }
   if (runs.size() > 1) std::cout << format_critical_storms(runs, study.stations(a.scenario)) << "\n";
