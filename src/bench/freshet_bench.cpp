@@ -9,6 +9,8 @@
 // machine (see docs/performance.md for measured values and how to reproduce them).
 #include <algorithm>
 #include <chrono>
+#include <cmath>
+#include <ctime>
 #include <cstdio>
 #include <cstdlib>
 #include <string>
@@ -118,6 +120,77 @@ void bench_law(const char* name, const Law& law, int cells, double base_q, int r
   }
 }
 
+// P1 (issue 15): a 20 km rectangular channel, 50 m wide, n 0.035, S0 0.001, inflow
+// 20 -> 500 -> 20 m3/s over 6 h, routed for 8 h in 60 s coupling steps (as a network driver
+// calls a reach), the outlet sampled at the end of every step. Exact outlet peak 500 m3/s at
+// 3 h + L / c(A_500) = 276.34 min (tests/routing/characteristics_test.cpp).
+struct P1Run {
+  double peak_m3s = 0.0;
+  double peak_time_s = 0.0;
+  double cpu_s = 0.0;
+  int max_fronts = 0;
+};
+
+P1Run run_p1(SchemeKind scheme, int cells, int repeats, double node_spacing = 1e-3) {
+  const geometry::RectangularFlux law(50.0, 0.035, 0.001);
+  const PiecewiseLinearSeries inflow({0.0, 10800.0, 21600.0}, {20.0, 500.0, 20.0});
+  P1Run best;
+  best.cpu_s = 1e300;
+  for (int r = 0; r < repeats; ++r) {
+    RoutingOptions opt;
+    opt.scheme = scheme;
+    opt.front_node_spacing = node_spacing;
+    opt.shock.enabled = false;  // the routing alone, for every scheme alike
+    KinematicReach<geometry::RectangularFlux> reach({"P1", 20000.0, cells}, law, opt);
+    reach.set_uniform_discharge(20.0);
+    P1Run run;
+    const std::clock_t start = std::clock();
+    for (double t = 0.0; t < 28800.0; t += 60.0) {
+      (void)reach.advance(t, t + 60.0, inflow, LateralInflow::none());
+      const double q = reach.face_flux_m3s().back();
+      if (q > run.peak_m3s) run.peak_m3s = q, run.peak_time_s = t + 60.0;
+    }
+    run.cpu_s = static_cast<double>(std::clock() - start) / CLOCKS_PER_SEC;
+    run.max_fronts = reach.diagnostics().max_fronts;
+    if (run.cpu_s < best.cpu_s) best = run;
+  }
+  return best;
+}
+
+void bench_p1(int repeats) {
+  std::printf("\nP1: 20 km rectangular 50 m, n 0.035, S0 0.001, inflow 20 -> 500 -> 20 m3/s "
+              "over 6 h, 60 s coupling;\n    exact outlet peak 500 m3/s at 276.34 min; outlet "
+              "sampled every 60 s; grid shock detection off; CPU time, best of %d\n", repeats);
+  std::printf("  %-18s %7s %11s %9s %10s %11s\n", "scheme", "cells", "peak m3/s", "error %",
+              "peak min", "CPU s");
+  double explicit_cpu = -1.0;
+  int explicit_cells = 0;
+  for (int cells : {150, 300, 600, 1200, 2400}) {
+    const P1Run e = run_p1(SchemeKind::kExplicitUpwind, cells, repeats);
+    const double error = 100.0 * (e.peak_m3s / 500.0 - 1.0);
+    std::printf("  %-18s %7d %11.3f %9.3f %10.1f %11.4g\n", "explicit-upwind", cells, e.peak_m3s,
+                error, e.peak_time_s / 60.0, e.cpu_s);
+    if (explicit_cpu < 0.0 && std::abs(error) <= 0.5) explicit_cpu = e.cpu_s, explicit_cells = cells;
+  }
+  const P1Run m = run_p1(SchemeKind::kMusclHeun, 600, repeats);
+  std::printf("  %-18s %7d %11.3f %9.3f %10.1f %11.4g\n", "muscl-heun", 600, m.peak_m3s,
+              100.0 * (m.peak_m3s / 500.0 - 1.0), m.peak_time_s / 60.0, m.cpu_s);
+  P1Run c;
+  for (double spacing : {1e-3, 3e-3}) {
+    const P1Run run = run_p1(SchemeKind::kCharacteristics, 100, repeats, spacing);
+    std::printf("  %-18s %7s %11.3f %9.3f %10.1f %11.4g   (node spacing %.0e, %d fronts at most)\n",
+                "characteristics", "100*", run.peak_m3s, 100.0 * (run.peak_m3s / 500.0 - 1.0),
+                run.peak_time_s / 60.0, run.cpu_s, spacing, run.max_fronts);
+    if (spacing == 1e-3) c = run;
+  }
+  std::printf("  * sampling cells only (exact cell averages of the fronts)\n");
+  if (explicit_cpu > 0.0) {
+    std::printf("  CPU explicit-upwind at %d cells (the first grid within 0.5 %% of the peak) / "
+                "characteristics (default node spacing): %.0fx\n", explicit_cells,
+                explicit_cpu / c.cpu_s);
+  }
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -146,5 +219,6 @@ int main(int argc, char** argv) {
   const auto pipe = geometry::make_section(geometry::CircularSpec{2.0, 0.013});
   bench_law("circular 2 m pipe (TabulatedFlux)",
             geometry::TabulatedFlux::from_section(*pipe, slope), cells, 0.5, repeats);
+  bench_p1(repeats);
   return 0;
 }

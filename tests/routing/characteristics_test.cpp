@@ -152,7 +152,8 @@ TEST(Characteristics, NonConvexPipeRiemannProblemFollowsTheConcaveEnvelope) {
   const detail::FluxNodes nodes(1e-3);
   std::vector<detail::Wave> waves;
   std::vector<double> sa, sq;
-  detail::solve_riemann(nodes, law, false, a_l, a_r, 1u << 20, waves, sa, sq);
+  detail::solve_riemann(nodes, law, false, a_l, nodes.flux(law, a_l), a_r, nodes.flux(law, a_r),
+                        1u << 20, waves, sa, sq);
   ASSERT_GE(waves.size(), 2u);
   for (std::size_t i = 1; i < waves.size(); ++i) {
     EXPECT_GE(waves[i].speed_m_s, waves[i - 1].speed_m_s);  // an admissible fan: no overtaking

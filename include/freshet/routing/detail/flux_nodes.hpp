@@ -65,7 +65,7 @@ class FluxNodes {
   // The smallest A with Q_pl(A) = q (q >= 0); NaN when no area conveys q (above the capacity
   // of a closed conduit, whose Q is held constant above its peak).
   template <geometry::FluxLaw F>
-  [[nodiscard]] double area_for_flux(const F& law, double q_m3s) const noexcept {
+  [[nodiscard]] double area_for_flux(const F& law, double q_m3s) const {
     if (!(q_m3s > 0.0)) return 0.0;
     const double guess = law.area_for_discharge_m2(q_m3s);
     long k = index_below(guess);

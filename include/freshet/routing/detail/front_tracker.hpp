@@ -37,6 +37,7 @@ namespace freshet::routing::detail {
 // One front of a Riemann solution: the area to its right (downstream) and its speed.
 struct Wave {
   double area_right_m2 = 0.0;
+  double q_right_m3s = 0.0;  // Q_pl(area_right_m2)
   double speed_m_s = 0.0;
 };
 
@@ -52,23 +53,26 @@ struct Wave {
 // its own two states, so volumes stay exact; a thinned fan's states are within 1/max_fronts
 // of the jump in Q of the exact fan's.
 template <geometry::FluxLaw F>
+// q_left and q_right are Q_pl of the two states (known to the caller, so a shock costs no
+// flux evaluation).
 void solve_riemann(const FluxNodes& nodes, const F& law, bool convex, double a_left,
-                   double a_right, std::size_t max_fronts, std::vector<Wave>& out,
-                   std::vector<double>& scratch_a, std::vector<double>& scratch_q) {
+                   double q_left, double a_right, double q_right, std::size_t max_fronts,
+                   std::vector<Wave>& out, std::vector<double>& scratch_a,
+                   std::vector<double>& scratch_q) {
   out.clear();
   if (a_left == a_right) return;
   const bool rising = a_left < a_right;  // rising in x: lower convex envelope
   const double lo = std::min(a_left, a_right), hi = std::max(a_left, a_right);
   if ((convex && !rising) || nodes.index_below(lo) == nodes.index_below(hi)) {
     // One linear piece, or the upper envelope of a convex flux (its chord): one front.
-    out.push_back({a_right, nodes.front_speed(law, a_left, a_right)});
+    out.push_back({a_right, q_right, (q_left - q_right) / (a_left - a_right)});
     return;
   }
   // Points of Q_pl on [lo, hi]: the two ends and every node strictly between.
   scratch_a.clear();
   scratch_q.clear();
   scratch_a.push_back(lo);
-  scratch_q.push_back(nodes.flux(law, lo));
+  scratch_q.push_back(rising ? q_left : q_right);
   const long k_first = nodes.index_below(lo) + 1;
   long k_last = nodes.index_below(hi);
   if (nodes.node_area(k_last) >= hi) --k_last;
@@ -82,7 +86,7 @@ void solve_riemann(const FluxNodes& nodes, const F& law, bool convex, double a_l
     // Too many nodes (a fan onto a dry bed crosses thousands): the nodes nearest below
     // 2 max_fronts discharges evenly spaced over the jump; the envelope of these points is
     // then thinned below.
-    const double q_lo = scratch_q.front(), q_hi = nodes.flux(law, hi);
+    const double q_lo = scratch_q.front(), q_hi = rising ? q_right : q_left;
     long previous = k_first - 1;
     for (long j = 1; j < samples; ++j) {
       const double q = q_lo + (q_hi - q_lo) * static_cast<double>(j) / static_cast<double>(samples);
@@ -94,7 +98,7 @@ void solve_riemann(const FluxNodes& nodes, const F& law, bool convex, double a_l
     }
   }
   scratch_a.push_back(hi);
-  scratch_q.push_back(nodes.flux(law, hi));
+  scratch_q.push_back(rising ? q_right : q_left);
   // Monotone chain (Andrew 1979, Inform. Process. Lett. 9): keep a point while the turn stays
   // convex (lower envelope) or concave (upper envelope); collinear points are dropped, so
   // the speeds of the fan strictly increase downstream.
@@ -129,9 +133,9 @@ void solve_riemann(const FluxNodes& nodes, const F& law, bool convex, double a_l
     return (scratch_q[j] - scratch_q[i]) / (scratch_a[j] - scratch_a[i]);
   };
   if (rising) {
-    for (std::size_t i = 1; i < m; ++i) out.push_back({scratch_a[i], speed(i - 1, i)});
+    for (std::size_t i = 1; i < m; ++i) out.push_back({scratch_a[i], scratch_q[i], speed(i - 1, i)});
   } else {
-    for (std::size_t i = m - 1; i-- > 0;) out.push_back({scratch_a[i], speed(i, i + 1)});
+    for (std::size_t i = m - 1; i-- > 0;) out.push_back({scratch_a[i], scratch_q[i], speed(i, i + 1)});
   }
 }
 
@@ -151,6 +155,9 @@ class FrontTracker {
   [[nodiscard]] double outlet_area_m2() const noexcept {
     return tail_ < 0 ? inlet_area_ : pool_[idx(tail_)].area_right_m2;
   }
+  [[nodiscard]] double outlet_q_m3s() const noexcept {
+    return tail_ < 0 ? inlet_q_ : pool_[idx(tail_)].q_right_m3s;
+  }
   [[nodiscard]] std::size_t memory_bytes() const noexcept {
     return pool_.capacity() * sizeof(Front) + free_.capacity() * sizeof(int) +
            heap_storage_bytes_ + (waves_.capacity() + scratch_a_.capacity() +
@@ -168,25 +175,29 @@ class FrontTracker {
     clear(t_s);
     convex_ = celerity_non_decreasing(law);
     inlet_area_ = inlet_area_m2;
+    inlet_q_ = nodes_.flux(law, inlet_area_);
     std::vector<double> e(edge_m.begin(), edge_m.end()), a(area_m2.begin(), area_m2.end());
     coalesce(e, a, merge_length_m);
-    double left = inlet_area_;
+    double left = inlet_area_, q_left = inlet_q_;
     for (std::size_t k = 0; k < a.size(); ++k) {
-      insert_fan(law, tail_, -1, e[k], left, a[k]);
-      left = a[k];
+      const double q = a[k] == left ? q_left : nodes_.flux(law, a[k]);
+      insert_fan(law, tail_, -1, e[k], left, q_left, a[k], q);
+      left = a[k], q_left = q;
     }
     for (int f = head_; f >= 0; f = pool_[idx(f)].next) schedule_after(f);
   }
 
-  // The inlet state becomes area_m2 from now on: the Riemann fan between it and the state
-  // just downstream of x = 0 starts at the inlet.
+  // The inlet state becomes area_m2 (carrying q_m3s = Q_pl(area_m2)) from now on: the
+  // Riemann fan between it and the state just downstream of x = 0 starts at the inlet.
   template <geometry::FluxLaw F>
-  void set_inlet_area(const F& law, double area_m2) {
+  void set_inlet_area(const F& law, double area_m2, double q_m3s) {
     if (area_m2 == inlet_area_) return;
-    const double right = head_ < 0 ? inlet_area_ : pool_[idx(head_)].area_left_m2;
+    const double right = inlet_area_;  // the state just downstream of x = 0
+    const double q_right = inlet_q_;
     const int old_head = head_;
     inlet_area_ = area_m2;
-    (void)insert_fan(law, -1, head_, 0.0, area_m2, right);
+    inlet_q_ = q_m3s;
+    (void)insert_fan(law, -1, head_, 0.0, area_m2, q_m3s, right, q_right);
     // Collisions among the new fronts and with the old head.
     for (int f = head_; f >= 0 && f != old_head; f = pool_[idx(f)].next) schedule_after(f);
   }
@@ -202,17 +213,17 @@ class FrontTracker {
       const double t_col = e ? e->time_s : std::numeric_limits<double>::infinity();
       if (std::min(t_exit, t_col) > t_s) break;
       if (t_exit <= t_col) {
-        pass_time(law, std::max(t_exit, t_now_));
+        pass_time(std::max(t_exit, t_now_));
         remove_tail();
       } else {
         const Event ev = *e;
         heap_.pop();
-        pass_time(law, std::max(ev.time_s, t_now_));
+        pass_time(std::max(ev.time_s, t_now_));
         collide(law, ev.left);
       }
       ++events_;
     }
-    pass_time(law, t_s);
+    pass_time(t_s);
   }
 
   // Volumes through the inlet and the outlet since the tracker was built (m3; set_profile
@@ -248,42 +259,43 @@ class FrontTracker {
     return sum + (length_m_ - x) * left;
   }
 
-  // Exact averages over `cells` equal cells (areas), and the area at each face i dx (the
+  // Exact averages over `cells` equal cells (areas), and Q_pl at each face i dx (of the
   // state just upstream of the face; face 0 the inlet state).
-  void cell_averages(std::span<double> cell_area_m2, std::span<double> face_area_m2) const {
+  void cell_averages(std::span<double> cell_area_m2, std::span<double> face_q_m3s) const {
     const std::size_t n = cell_area_m2.size();
     const double dx = length_m_ / static_cast<double>(n);
-    std::fill(cell_area_m2.begin(), cell_area_m2.end(), 0.0);
     std::size_t cell = 0;
-    double x = 0.0, left = inlet_area_;
-    face_area_m2[0] = inlet_area_;
-    auto fill_to = [&](double x_end, double area) {  // segment [x, x_end] of `area`
-      while (cell < n) {
-        const double cell_end = cell + 1 == n ? length_m_ : dx * static_cast<double>(cell + 1);
-        const double stop = std::min(x_end, cell_end);
-        cell_area_m2[cell] += (stop - x) * area;
-        x = stop;
-        if (x_end < cell_end) return;
-        face_area_m2[cell + 1] = area;
+    double cell_start = 0.0, cell_end = n == 1 ? length_m_ : dx;
+    double x = 0.0, volume = 0.0;  // volume of the current cell up to x
+    face_q_m3s[0] = inlet_q_;
+    // The segment [x, x_end] of `area`: close every cell it covers to its end, keep the rest.
+    auto segment = [&](double x_end, double area, double q) {
+      while (x_end >= cell_end && cell < n) {
+        volume += (cell_end - x) * area;
+        cell_area_m2[cell] = volume / (cell_end - cell_start);
+        face_q_m3s[cell + 1] = q;
+        volume = 0.0;
+        x = cell_start = cell_end;
         ++cell;
+        cell_end = cell + 1 >= n ? length_m_ : dx * static_cast<double>(cell + 1);
       }
+      if (x_end > x) volume += (x_end - x) * area, x = x_end;
     };
+    double left = inlet_area_, q_left = inlet_q_;
     for (int f = head_; f >= 0; f = pool_[idx(f)].next) {
       const Front& fr = pool_[idx(f)];
-      fill_to(std::max(x, clamp_x(position(fr, t_now_))), left);
-      left = fr.area_right_m2;
+      segment(clamp_x(position(fr, t_now_)), left, q_left);
+      left = fr.area_right_m2, q_left = fr.q_right_m3s;
     }
-    fill_to(length_m_, left);
-    for (std::size_t i = 0; i < n; ++i) {
-      const double width = i + 1 == n ? length_m_ - dx * static_cast<double>(i) : dx;
-      cell_area_m2[i] /= width;
-    }
+    segment(length_m_, left, q_left);
   }
+
 
  private:
   struct Front {
     double x0_m = 0.0, t0_s = 0.0, speed_m_s = 0.0;
     double area_left_m2 = 0.0, area_right_m2 = 0.0;
+    double q_left_m3s = 0.0, q_right_m3s = 0.0;  // Q_pl of the two states
     int prev = -1, next = -1;
     std::uint32_t generation = 0;
     bool alive = false;
@@ -345,9 +357,10 @@ class FrontTracker {
   // Inserts the Riemann fan (left | right) at x between fronts `prev` and `next` (-1: the
   // ends); returns the first new front (-1 when left == right).
   template <geometry::FluxLaw F>
-  int insert_fan(const F& law, int prev, int next, double x, double left, double right) {
-    solve_riemann(nodes_, law, convex_, left, right, max_fan_fronts_, waves_, scratch_a_,
-                  scratch_q_);
+  int insert_fan(const F& law, int prev, int next, double x, double left, double q_left,
+                 double right, double q_right) {
+    solve_riemann(nodes_, law, convex_, left, q_left, right, q_right, max_fan_fronts_, waves_,
+                  scratch_a_, scratch_q_);
     int first = -1;
     double a_left = left;
     for (const Wave& w : waves_) {
@@ -355,6 +368,7 @@ class FrontTracker {
       Front& fr = pool_[idx(f)];
       fr.x0_m = x, fr.t0_s = t_now_, fr.speed_m_s = w.speed_m_s;
       fr.area_left_m2 = a_left, fr.area_right_m2 = w.area_right_m2;
+      fr.q_left_m3s = q_left, fr.q_right_m3s = w.q_right_m3s;
       fr.prev = prev, fr.next = next;
       if (prev >= 0) pool_[idx(prev)].next = f;
       else head_ = f;
@@ -362,7 +376,7 @@ class FrontTracker {
       else tail_ = f;
       if (first < 0) first = f;
       prev = f;
-      a_left = w.area_right_m2;
+      a_left = w.area_right_m2, q_left = w.q_right_m3s;
     }
     return first;
   }
@@ -406,12 +420,11 @@ class FrontTracker {
   }
 
   // Books the inlet and outlet fluxes (constant between events) up to t.
-  template <geometry::FluxLaw F>
-  void pass_time(const F& law, double t) {
+  void pass_time(double t) {
     if (t <= t_now_) return;
     const double dt = t - t_now_;
-    inflow_m3_ += nodes_.flux(law, inlet_area_) * dt;
-    outflow_m3_ += nodes_.flux(law, outlet_area_m2()) * dt;
+    inflow_m3_ += inlet_q_ * dt;
+    outflow_m3_ += outlet_q_m3s() * dt;
     t_now_ = t;
   }
 
@@ -427,10 +440,11 @@ class FrontTracker {
     const Front& b = pool_[idx(g)];
     const double x = clamp_x(0.5 * (position(a, t_now_) + position(b, t_now_)));
     const double left = a.area_left_m2, right = b.area_right_m2;
+    const double q_left = a.q_left_m3s, q_right = b.q_right_m3s;
     const int prev = a.prev, next = b.next;
     unlink(f);
     unlink(g);
-    const int first = insert_fan(law, prev, next, x, left, right);
+    const int first = insert_fan(law, prev, next, x, left, q_left, right, q_right);
     // New neighbours: prev with the first new front (or with next), each new front, the last.
     schedule_after(prev);
     for (int h = first; h >= 0 && h != next; h = pool_[idx(h)].next) schedule_after(h);
@@ -471,7 +485,7 @@ class FrontTracker {
   int head_ = -1, tail_ = -1, count_ = 0;
   long events_ = 0;
   double t_now_ = 0.0;
-  double inlet_area_ = 0.0;
+  double inlet_area_ = 0.0, inlet_q_ = 0.0;
   double inflow_m3_ = 0.0, outflow_m3_ = 0.0;
   std::vector<Wave> waves_;
   std::vector<double> scratch_a_, scratch_q_;

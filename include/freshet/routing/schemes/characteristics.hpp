@@ -49,12 +49,13 @@ class Characteristics {
   static int front_cells(const RoutingOptions& /*options*/) { return 2; }
 
   Characteristics() = default;
-  Characteristics(const RoutingOptions& options, std::size_t cells)
-      : options_(options), face_area_m2_(cells + 1, 0.0) {}
+  // The fronts need no per-cell scratch; the cells are the reach's sampling arrays.
+  Characteristics(const RoutingOptions& options, std::size_t /*cells*/)
+      : options_(options) {}
 
   [[nodiscard]] std::size_t memory_bytes() const noexcept {
     return tracker_.memory_bytes() +
-           (face_area_m2_.capacity() + edge_m_.capacity() + area_m2_.capacity() +
+           (switch_q_m3s_.capacity() + edge_m_.capacity() + area_m2_.capacity() +
             switch_time_s_.capacity() + switch_area_m2_.capacity()) * sizeof(double);
   }
   [[nodiscard]] const detail::FrontTracker& tracker() const noexcept { return tracker_; }
@@ -77,7 +78,7 @@ class Characteristics {
       for (; next_switch < switch_time_s_.size() && switch_time_s_[next_switch] <= t;
            ++next_switch) {
         tracker_.advance_to(law, switch_time_s_[next_switch]);
-        tracker_.set_inlet_area(law, switch_area_m2_[next_switch]);
+        tracker_.set_inlet_area(law, switch_area_m2_[next_switch], switch_q_m3s_[next_switch]);
       }
       tracker_.advance_to(law, t);
     };
@@ -105,7 +106,7 @@ class Characteristics {
     s.ledger.inflow_m3 += r.inflow_m3;
     s.ledger.lateral_m3 += r.lateral_m3;
     s.ledger.outflow_m3 += r.outflow_m3;
-    write_cells(s, law);
+    write_cells(s);
     return r;
   }
 
@@ -143,6 +144,7 @@ class Characteristics {
     const detail::FluxNodes& nodes = tracker_.nodes();
     switch_time_s_.clear();
     switch_area_m2_.clear();
+    switch_q_m3s_.clear();
     auto area_of = [&](double q) {
       const double a = nodes.area_for_flux(law, q);
       if (std::isnan(a)) {
@@ -151,10 +153,12 @@ class Characteristics {
       }
       return a;
     };
-    const double a_start = area_of(inflow.value_at(t0));
+    const double q_start = inflow.value_at(t0);
+    const double a_start = area_of(q_start);
     if (std::isnan(a_start)) return false;
     switch_time_s_.push_back(t0);
     switch_area_m2_.push_back(a_start);
+    switch_q_m3s_.push_back(q_start);
     const std::vector<double> breaks(inflow.times_s().begin(), inflow.times_s().end());
     const std::vector<double> times = detail::segment_times(t0, t1, breaks);
     for (std::size_t p = 0; p + 1 < times.size(); ++p) {
@@ -187,6 +191,7 @@ class Characteristics {
             i + 1 == crossing_q_.size() ? tb : ta + (crossing_q_[i] - qa) / (qb - qa) * (tb - ta);
         switch_time_s_.push_back(0.5 * (t_prev + t_cross));
         switch_area_m2_.push_back(crossing_a_[i]);
+        switch_q_m3s_.push_back(crossing_q_[i]);
         t_prev = t_cross;
       }
     }
@@ -230,11 +235,8 @@ class Characteristics {
   }
 
   template <geometry::FluxLaw F>
-  void write_cells(detail::ReachState<F>& s, const F& law) {
-    tracker_.cell_averages(s.area_m2, face_area_m2_);
-    for (std::size_t i = 0; i < face_area_m2_.size(); ++i) {
-      s.face_flux_m3s[i] = tracker_.nodes().flux(law, face_area_m2_[i]);
-    }
+  void write_cells(detail::ReachState<F>& s) {
+    tracker_.cell_averages(s.area_m2, s.face_flux_m3s);
     s.diag.cell_updates += static_cast<long>(s.n());
     s.diag.max_fronts = std::max(s.diag.max_fronts, tracker_.front_count());
   }
@@ -246,8 +248,7 @@ class Characteristics {
   detail::FrontTracker tracker_;
   std::uint64_t seen_generation_ = std::numeric_limits<std::uint64_t>::max();
   double merge_length_m_ = 0.0;
-  std::vector<double> face_area_m2_;                 // N+1: state at each face
-  std::vector<double> switch_time_s_, switch_area_m2_;  // inlet states of one advance
+  std::vector<double> switch_time_s_, switch_area_m2_, switch_q_m3s_;  // inlet states
   std::vector<double> crossing_q_, crossing_a_;      // node crossings of one hydrograph piece
   std::vector<double> edge_m_, area_m2_;             // profile scratch (lateral rebuilds)
   std::vector<double> new_edge_m_, new_area_m2_;
