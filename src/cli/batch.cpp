@@ -20,8 +20,20 @@
 
 namespace freshet::cli {
 
+study::Study load_basin(const std::string& basin) {
+  std::error_code ec;
+  const std::filesystem::file_status status = std::filesystem::status(basin, ec);
+  const char* why = !std::filesystem::exists(status)       ? "it does not exist"
+                    : std::filesystem::is_directory(status) ? "it is a folder"
+                                                            : nullptr;
+  if (why != nullptr) {
+    throw InputError(Problem{basin, 0, 0, "", "", std::string("cannot open the basin file: ") + why});
+  }
+  return study::Study::load(basin);
+}
+
 void add_run_options(CLI::App* cmd, RunArgs& args) {
-  cmd->add_option("basin", args.basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("basin", args.basin, "Basin file (TOML)")->required();
   cmd->add_option("-s,--storm", args.storms, "Storm id to run (repeatable; default: all)");
   cmd->add_option("-o,--out", args.out_dir, "Output folder (default: out/<basin name>)")
       ->check(kNonEmptyPath);

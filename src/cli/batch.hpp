@@ -29,6 +29,12 @@ struct RunArgs {
   int jobs = 2;
 };
 
+// Reads the basin file named on the command line. One that does not exist or is a folder is
+// bad input (InputError, exit 2) like any input file that cannot be opened, e.g.
+// "nosuch.toml: cannot open the basin file: it does not exist"; study::Study::load reports every
+// other problem of the file.
+study::Study load_basin(const std::string& basin);
+
 // Registers basin, --storm, --out, --overwrite and --jobs on `cmd`.
 void add_run_options(CLI::App* cmd, RunArgs& args);
 BatchOptions batch_options(const RunArgs& args, bool quiet);

@@ -10,7 +10,7 @@ namespace freshet::cli {
 namespace {
 
 int check(const std::string& basin) {
-  const study::Study study = study::Study::load(basin);  // InputError lists every problem
+  const study::Study study = load_basin(basin);  // InputError lists every problem
   std::map<std::string, int> counts;
   for (const auto& s : study.stations()) ++counts[std::string(network::to_string(s.kind))];
   std::cout << basin << ": no problems found.\n"
@@ -45,7 +45,7 @@ void add_check_command(CLI::App& app, const GlobalOptions& /*global*/, Action& a
   auto* cmd = app.add_subcommand("check",
                                  "Check a basin file (and its scenarios) without running it.\n"
                                  "Example: freshet check basins/tansy-brook.toml");
-  cmd->add_option("basin", *basin, "Basin file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("basin", *basin, "Basin file (TOML)")->required();
   cmd->callback([&action, basin] { action = [basin] { return check(*basin); }; });
 }
 

@@ -77,7 +77,7 @@ std::string warnings_by_run(const std::vector<study::RunOutcome>& runs) {
 }
 
 int compare(const CompareArgs& a, const GlobalOptions& global) {
-  const study::Study study = study::Study::load(a.basin);
+  const study::Study study = load_basin(a.basin);
   const std::vector<std::string> storms = storm_ids(study, a);
   std::vector<std::string> scenarios{""};
   if (a.scenarios.empty()) {

@@ -13,9 +13,11 @@ namespace freshet::cli {
 enum ExitCode : int {
   kExitOk = 0,
   kExitUsage = 1,           // bad command line (including options that conflict)
-  kExitBadInput = 2,        // a basin, storm or hydrograph file has problems
+  kExitBadInput = 2,        // a basin, storm or hydrograph file has problems, or cannot be
+                            // opened (does not exist, is a folder, cannot be read)
   kExitNumerical = 3,       // a numerical method failed
-  kExitIo = 4,              // a file could not be read or written
+  kExitIo = 4,              // output could not be written (an existing result, a full disk,
+                            // an output folder in use or not writable)
   kExitVerifyFailed = 5,    // `freshet verify`: a case missed its published value
   kExitInternal = 70,       // a failure the program does not expect: a bug (sysexits EX_SOFTWARE)
   // 128 + the signal number: stopped by SIGINT (130) or SIGTERM (143); stop_signals.hpp.

@@ -37,14 +37,30 @@ int run_action(const Action& action, bool& library_state_unknown) {
   }
 }
 
+int run_main(int argc, char** argv);
+
 }  // namespace
 
+// Everything main() does runs inside run_main; an exception that escapes it (one thrown while
+// the command line is set up or parsed: std::bad_alloc, say) is reported and mapped like one
+// thrown by a command, so nothing ends in std::terminate without a documented exit code.
 int main(int argc, char** argv) {
+  try {
+    return run_main(argc, argv);
+  } catch (...) {
+    bool library_state_unknown = false;
+    return report_failure(std::current_exception(), std::cerr, library_state_unknown);
+  }
+}
+
+namespace {
+
+int run_main(int argc, char** argv) {
   install_stop_handlers();
   CLI::App app{
       "freshet: kinematic-wave flood routing for drainage and stormwater studies.\n"
       "Exit codes: 0 success, 1 bad command line, 2 bad input file, 3 numerical failure,\n"
-      "4 file could not be read or written, 5 verification case failed,\n"
+      "4 output could not be written, 5 verification case failed,\n"
       "70 internal error (a bug: please report it), 130 stopped by SIGINT (Ctrl-C),\n"
       "143 stopped by SIGTERM."};
   app.require_subcommand(1);
@@ -95,3 +111,5 @@ int main(int argc, char** argv) {
   }
   return code;
 }
+
+}  // namespace

@@ -20,7 +20,7 @@ struct RouteArgs : RunArgs {
 };
 
 int route(const RouteArgs& a, const GlobalOptions& global) {
-  const study::Study study = study::Study::load(a.basin);
+  const study::Study study = load_basin(a.basin);
   if (!a.scenario.empty()) (void)study.scenario(a.scenario);  // InputError if unknown
   const std::vector<std::string> storms = storm_ids(study, a);
   const BatchOptions options = batch_options(a, global.quiet);
