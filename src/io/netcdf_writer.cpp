@@ -15,6 +15,18 @@
 
 namespace freshet::io {
 
+std::string_view to_string(InstanceKind kind) {
+  switch (kind) {
+    case InstanceKind::station:
+      return "station";
+    case InstanceKind::subcatchment:
+      return "subcatchment";
+    case InstanceKind::cell:
+      return "cell";
+  }
+  return "station";  // not reached: every kind is listed above
+}
+
 namespace nc = netCDF;
 
 namespace {
@@ -100,14 +112,14 @@ void validate(const NetcdfRunMetadata& m, const InstanceSet& set,
     p.add("time_origin", "= '" + m.time_origin +
                              "': must be YYYY-MM-DD or YYYY-MM-DDThh:mm:ss[Z] (UTC)");
   }
-  if (set.kind.empty()) p.add("kind", "is empty: name the instance dimension");
   if (set.instances.empty()) p.add("instances", "is empty: at least one is required");
   if (variables.empty()) p.add("variables", "is empty: at least one is required");
   std::set<std::string> ids;
   for (std::size_t i = 0; i < set.instances.size(); ++i) {
     const std::string& id = set.instances[i].id;
-    const std::string at = set.kind + "[" + std::to_string(i + 1) + "].id";
-    if (id.empty()) p.add(at, "is empty: every " + set.kind + " needs an id");
+    const std::string kind(to_string(set.kind));
+    const std::string at = kind + "[" + std::to_string(i + 1) + "].id";
+    if (id.empty()) p.add(at, "is empty: every " + kind + " needs an id");
     else if (!ids.insert(id).second) p.add(at, "= '" + id + "': duplicate id");
   }
   std::set<OutputVariable> seen;
@@ -171,7 +183,7 @@ void NetcdfTimeSeriesWriter::Impl::put_global_attributes(const NetcdfRunMetadata
 
 std::string NetcdfTimeSeriesWriter::Impl::define_instance_variables(const InstanceSet& set,
                                                                     const nc::NcDim& dim) {
-  const std::string& k = set.kind;
+  const std::string k(to_string(set.kind));
   auto id = file->addVar(k + "_id", nc::ncString, dim);
   id.putAtt("cf_role", "timeseries_id");
   id.putAtt("long_name", k + " identifier");
@@ -238,7 +250,7 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
       var.putAtt("standard_name", "water_surface_height_above_reference_datum");
       var.putAtt("vertical_datum", set.stage_datum);
     }
-  } else if (v == OutputVariable::discharge && set.kind == "subcatchment") {
+  } else if (v == OutputVariable::discharge && set.kind == InstanceKind::subcatchment) {
     // Runoff from a subcatchment is not channel flow: no CF standard name applies.
     long_name = "surface runoff discharge leaving the subcatchment";
   } else if (!s.standard_name.empty()) {
@@ -262,7 +274,7 @@ void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const Inst
   file = std::make_unique<OwnedNcFile>(output.partial_path().string(), nc::NcFile::newFile,
                                        nc::NcFile::nc4);
   const nc::NcDim time_dim = file->addDim("time");  // no size: UNLIMITED
-  const nc::NcDim dim = file->addDim(set.kind, n_instances);
+  const nc::NcDim dim = file->addDim(std::string(to_string(set.kind)), n_instances);
   time_var = file->addVar("time", nc::ncDouble, time_dim);
   std::vector<size_t> time_chunks{1024};
   time_var.setChunking(nc::NcVar::nc_CHUNKED, time_chunks);
@@ -284,8 +296,9 @@ void NetcdfTimeSeriesWriter::Impl::write_instance_values(const InstanceSet& set)
   const auto chainage = file->getVar("chainage");
   const auto x = file->getVar("x");
   const auto y = file->getVar("y");
-  const auto id = file->getVar(set.kind + "_id");
-  const auto name = file->getVar(set.kind + "_name");
+  const std::string k(to_string(set.kind));
+  const auto id = file->getVar(k + "_id");
+  const auto name = file->getVar(k + "_name");
   for (std::size_t i = 0; i < n_instances; ++i) {
     const std::vector<size_t> at{i};
     const InstanceInfo& s = set.instances[i];

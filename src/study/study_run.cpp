@@ -145,9 +145,9 @@ NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std:
 
 InstanceSet instances(const std::vector<StationDescription>& stations,
                       const std::vector<std::size_t>& index,
-                      std::string kind) {
+                      io::InstanceKind kind) {
   InstanceSet set;
-  set.kind = std::move(kind);
+  set.kind = kind;
   for (std::size_t i : index) {
     InstanceInfo info;
     info.id = stations[i].id;
@@ -253,7 +253,7 @@ class ProfileWriter {
 
   [[nodiscard]] InstanceSet instances() const {
     InstanceSet set;
-    set.kind = "cell";
+    set.kind = io::InstanceKind::cell;
     for (const auto* r : reaches_) {
       const std::vector<network::CellSample> cells = r->cell_samples();
       for (std::size_t k = 0; k < cells.size(); ++k) {
@@ -382,7 +382,7 @@ void open_run_files(const Study& study,
   if (!sink.channel_index().empty()) {
     files.stations.emplace(RunPaths{folder, req.storm_id}.stations_nc(), nc);
     files.stations->begin(metadata(study, req, "stations"),
-                          instances(stations, sink.channel_index(), "station"),
+                          instances(stations, sink.channel_index(), io::InstanceKind::station),
                           {OutputVariable::discharge,
                            OutputVariable::stage,
                            OutputVariable::depth,
@@ -391,7 +391,7 @@ void open_run_files(const Study& study,
   if (!sink.sub_index().empty()) {
     files.subcatchments.emplace(RunPaths{folder, req.storm_id}.subcatchments_nc(), nc);
     files.subcatchments->begin(metadata(study, req, "subcatchments"),
-                               instances(stations, sink.sub_index(), "subcatchment"),
+                               instances(stations, sink.sub_index(), io::InstanceKind::subcatchment),
                                {OutputVariable::discharge,
                                 OutputVariable::rainfall_intensity,
                                 OutputVariable::rainfall_excess});

@@ -202,7 +202,7 @@ TEST(NetcdfWriter, DataAreChunkedAlongTimeAndDeflated) {
 TEST(NetcdfWriter, SubcatchmentFileConvertsRainToMillimetresPerHour) {
   TempDir dir;
   InstanceSet sub;
-  sub.kind = "subcatchment";
+  sub.kind = InstanceKind::subcatchment;
   sub.instances = {{"s1", "North slope", "", NAN, NAN, NAN}};
   {
     NetcdfTimeSeriesWriter w(dir / "sub.nc");
@@ -250,7 +250,7 @@ TEST(NetcdfWriter, StageWithAKnownDatumGetsTheStandardNameAndCrsGetsAGridMapping
 TEST(NetcdfWriter, ProfileFileHasOneInstancePerCell) {
   TempDir dir;
   InstanceSet cells;
-  cells.kind = "cell";
+  cells.kind = InstanceKind::cell;
   for (int i = 0; i < 40; ++i) {
     cells.instances.push_back({"alder:" + std::to_string(i), "", "alder", 25.0 * i + 12.5, NAN,
                                NAN});

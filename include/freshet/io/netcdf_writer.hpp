@@ -73,8 +73,13 @@ struct InstanceInfo {
   double y_m = std::numeric_limits<double>::quiet_NaN();         // projected northing
 };
 
+// What the points of a file are; the instance dimension and its variables are named after it
+// ("station", "subcatchment", "cell": station_id, subcatchment_name, ...).
+enum class InstanceKind { station, subcatchment, cell };
+[[nodiscard]] std::string_view to_string(InstanceKind kind);
+
 struct InstanceSet {
-  std::string kind = "station";  // instance dimension name: station | subcatchment | cell
+  InstanceKind kind = InstanceKind::station;
   std::vector<InstanceInfo> instances;
   // Horizontal reference of x/y. Empty: x/y are local coordinates (long_name only). Otherwise
   // a `crs` grid-mapping variable carries this WKT and x/y get the projection standard names.
