@@ -132,32 +132,32 @@ CaseValues ponce_kinematic_boundary() {
 
 // ---- hydrology ---------------------------------------------------------------------------
 
-// USDA SCS (1986) TR-55, Table 2-1 (lambda = 0.2): CN 75 and 4.0 in of rain give 1.67 in of
-// runoff (from memory, checked against eq. 2-3 by hand, as tests/hydrology).
+// TR-55 Table 2-1, its first entry: CN 75 and 4.0 in of rain give 1.67 in of runoff.
 CaseValues tr55_runoff() {
-  const double runoff_m = hydrology::curve_number_runoff_m({.curve_number = 75.0},
-                                                           4.0 * units::kMetresPerInch);
-  return {1.67, runoff_m / units::kMetresPerInch};
+  const Tr55Entry& e = kTr55Table2_1[0];
+  const double runoff_m = hydrology::curve_number_runoff_m({.curve_number = e.curve_number},
+                                                           e.rain_in * units::kMetresPerInch);
+  return {e.runoff_in, runoff_m / units::kMetresPerInch};
 }
 
 // Silt loam, Example 4.3.1: F after 1 h of ponding.
 CaseValues green_ampt_ponded_depth() {
-  return {3.17, hydrology::green_ampt_ponded_infiltration_m(silt_loam(), kHour_s) / kCm_m};
+  return {kSiltLoamPondedDepthAfter1h_cm,
+          hydrology::green_ampt_ponded_infiltration_m(silt_loam(), kHour_s) / kCm_m};
 }
 
 // Silt loam, Example 4.4.1: ponding time under 5 cm/h.
 CaseValues green_ampt_ponding_time() {
-  return {0.17, hydrology::green_ampt_ponding_time_s(silt_loam(), 5.0 * kCm_m / kHour_s) /
-                    kHour_s};
+  return {kSiltLoamPondingTimeUnder5cmh_h,
+          hydrology::green_ampt_ponding_time_s(silt_loam(), 5.0 * kCm_m / kHour_s) / kHour_s};
 }
 
-// USDA SCS (1986) TR-55, Appendix B, Type II distribution: 0.663 of the 24-hour depth has
-// fallen by 12.0 h. freshet's value: from a 15-minute design storm of 5 in.
+// The TR-55 Type II ordinate at noon; freshet's value: from a 15-minute design storm of 5 in.
 CaseValues nrcs_type_ii_noon_fraction() {
   const double depth_m = 5.0 * units::kMetresPerInch;
   const hydrology::Hyetograph storm =
       hydrology::nrcs_24h_storm(hydrology::NrcsRainType::type_ii, depth_m, 900.0, "Type II storm");
-  return {0.663, storm.cumulative_depth_m(12.0 * kHour_s) / storm.total_depth_m()};
+  return {kTypeIIFractionAtNoon, storm.cumulative_depth_m(12.0 * kHour_s) / storm.total_depth_m()};
 }
 
 // The kinematic test plane: equilibrium discharge q_e = i L, reached at

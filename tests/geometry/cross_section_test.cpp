@@ -7,6 +7,7 @@
 #include <limits>
 #include <numbers>
 
+#include "freshet/verification/problems.hpp"
 #include "test_sections.hpp"
 
 namespace freshet::geometry {
@@ -84,7 +85,10 @@ TEST(CircularSection, PartFullMaximaMatchTheHandbookValues) {
   // V is greatest at y/D = 0.81 with V/V_full = 1.14. Chow (1959) Open-Channel Hydraulics,
   // Fig. 6-? (hydraulic elements of a circular section) and ASCE/WPCF (1969) MOP 37, "Design
   // and Construction of Sanitary and Storm Sewers", hydraulic-elements chart (from memory).
-  const CircularSection s(testing::circle_spec());
+  // The pipe and the two Q ratios: freshet/verification/problems.hpp, shared with
+  // `freshet verify` (which checks capacity_depth_m() and the flux law's cap against them).
+  const verification::PartFullPipeExample ex;
+  const CircularSection s(ex.spec);
   const double d = s.diameter_m(), k_full = s.conveyance_m3s(d);
   const double r_full = s.hydraulic_radius_m(d);
   double best_q = 0.0, y_best_q = 0.0, best_v = 0.0, y_best_v = 0.0;
@@ -94,8 +98,8 @@ TEST(CircularSection, PartFullMaximaMatchTheHandbookValues) {
     const double v = std::pow(s.hydraulic_radius_m(y) / r_full, 2.0 / 3.0);
     if (v > best_v) best_v = v, y_best_v = y / d;
   }
-  EXPECT_NEAR(y_best_q, 0.938, 0.0005);
-  EXPECT_NEAR(best_q / k_full, 1.076, 0.0005);
+  EXPECT_NEAR(y_best_q, ex.capacity_depth_ratio, 0.0005);
+  EXPECT_NEAR(best_q / k_full, ex.capacity_discharge_ratio, 0.0005);
   EXPECT_NEAR(y_best_v, 0.81, 0.005);
   EXPECT_NEAR(best_v, 1.14, 0.005);
   // The analytic capacity depth (root of dK/dh = 0) agrees with the scan.

@@ -3,6 +3,8 @@
 #include <cmath>
 #include <gtest/gtest.h>
 
+#include "freshet/verification/problems.hpp"
+
 namespace freshet::hydrology {
 namespace {
 
@@ -10,16 +12,14 @@ constexpr double kInch = 0.0254;
 
 // USDA SCS (1986) TR-55, Table 2-1 "Runoff depth for selected CNs and rainfall amounts"
 // (lambda = 0.2). The table is eq. 2-3 rounded to 0.01 in; entries from memory, each checked
-// by evaluating eq. 2-3 by hand before being written here.
-struct Tr55Entry {
-  double cn, rain_in, runoff_in;
-};
+// by evaluating eq. 2-3 by hand (freshet/verification/problems.hpp, shared with
+// `freshet verify`).
 TEST(CurveNumber, RunoffEquationReproducesTr55Table2_1) {
-  const Tr55Entry entries[] = {{75, 4.0, 1.67}, {80, 5.0, 2.89}, {90, 3.0, 1.98},
-                               {98, 1.0, 0.79}, {60, 2.0, 0.06}, {40, 1.0, 0.00}};
-  for (const auto& e : entries) {
-    const double q_in = curve_number_runoff_m({.curve_number = e.cn}, e.rain_in * kInch) / kInch;
-    EXPECT_NEAR(q_in, e.runoff_in, 0.005) << "CN " << e.cn << ", P " << e.rain_in << " in";
+  for (const auto& e : verification::kTr55Table2_1) {
+    const double q_in =
+        curve_number_runoff_m({.curve_number = e.curve_number}, e.rain_in * kInch) / kInch;
+    EXPECT_NEAR(q_in, e.runoff_in, 0.005)
+        << "CN " << e.curve_number << ", P " << e.rain_in << " in";
   }
 }
 

@@ -7,6 +7,7 @@
 #include <gtest/gtest.h>
 
 #include "freshet/core/error.hpp"
+#include "freshet/verification/problems.hpp"
 
 namespace freshet::hydrology {
 namespace {
@@ -33,7 +34,8 @@ TEST(NrcsDistribution, MassCurvesRunFromZeroToOneMonotonically) {
 // TR-55 (1986) Type II: 0.663 of the depth has fallen by 12.0 h and 0.357 by 11.75 h, so its
 // steepest quarter hour is 11.75-12.0 h. Type III: 0.500 at 12.0 h.
 TEST(NrcsDistribution, KnownOrdinatesAndSteepestQuarterHour) {
-  EXPECT_DOUBLE_EQ(nrcs_cumulative_fraction(NrcsRainType::type_ii, 12.0 * kHour), 0.663);
+  EXPECT_DOUBLE_EQ(nrcs_cumulative_fraction(NrcsRainType::type_ii, 12.0 * kHour),
+                   verification::kTypeIIFractionAtNoon);  // as `freshet verify`
   EXPECT_DOUBLE_EQ(nrcs_cumulative_fraction(NrcsRainType::type_ii, 11.75 * kHour), 0.357);
   EXPECT_DOUBLE_EQ(nrcs_cumulative_fraction(NrcsRainType::type_iii, 12.0 * kHour), 0.500);
 

@@ -107,12 +107,27 @@ struct PonceReach {
 
 // ---- hydrology ---------------------------------------------------------------------------
 
+// USDA SCS (1986) TR-55, Table 2-1 "Runoff depth for selected CNs and rainfall amounts"
+// (lambda = 0.2): eq. 2-3 rounded to 0.01 in. Entries from memory, each checked by evaluating
+// eq. 2-3 by hand.
+struct Tr55Entry {
+  double curve_number, rain_in, runoff_in;
+};
+inline constexpr Tr55Entry kTr55Table2_1[] = {{75, 4.0, 1.67}, {80, 5.0, 2.89}, {90, 3.0, 1.98},
+                                              {98, 1.0, 0.79}, {60, 2.0, 0.06}, {40, 1.0, 0.00}};
+
+// USDA SCS (1986) TR-55, Appendix B, Type II distribution: 0.663 of the 24-hour depth has
+// fallen by 12.0 h.
+inline constexpr double kTypeIIFractionAtNoon = 0.663;
+
 // Silt loam of Chow, Maidment & Mays (1988), Applied Hydrology, Examples 4.3.1 and 4.4.1:
 // K = 0.65 cm/h, psi = 16.7 cm, theta_e = 0.486, S_e = 0.3 (dtheta = 0.340); porosity 0.501
 // (Rawls, Brakensiek & Miller 1983, J. Hydraulic Eng. 109(1)). Published (from memory): after
 // 1 h of ponding F = 3.17 cm (Example 4.3.1); ponding time 0.17 h under 5 cm/h
 // (Example 4.4.1).
 hydrology::GreenAmptParameters silt_loam();
+inline constexpr double kSiltLoamPondedDepthAfter1h_cm = 3.17;
+inline constexpr double kSiltLoamPondingTimeUnder5cmh_h = 0.17;
 
 // Kinematic plane under constant excess from a dry start (Wooding 1965, J. Hydrol. 3; Singh
 // 1996, Kinematic Wave Modeling in Water Resources, ch. 5). Invented plane: L = 100 m,
