@@ -488,12 +488,8 @@ RunOutcome run_study(const Study& study,
   const std::string title =
       set.title + ", storm " + req.storm_id +
       (req.scenario_id.empty() ? " (base)" : ", scenario " + req.scenario_id);
-  reporting::RunReport report =
+  static_cast<reporting::RunReport&>(out) =
       reporting::report_run(model, out.numerics, recorder, {title, req.source, clock});
-  out.summary = std::move(report.summary);
-  out.peaks = std::move(report.peaks);
-  out.reach_numerics = std::move(report.reach_numerics);
-  out.notes = std::move(report.notes);
   write_run_files(study, req, recorder, stations, exported, results, files, out);
   // The commit point: every file is complete in the staging folder.
   if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");

@@ -1,4 +1,4 @@
-// Plausibility of a run's results by their scale (src/io/result_scale.cpp): a peak per unit
+// Plausibility of a run's results by their scale (src/reporting/result_scale.cpp): a peak per unit
 // area above the envelope of the world's record floods, q = 46 C A^(0.894 A^-0.048 - 1)
 // ft3/s per mi2 with C = 100 (Creager, Justin & Hinds 1945, Engineering for Dams; from
 // memory), is a warning in the run's summary.

@@ -1,14 +1,15 @@
-// Runs one (scenario, storm) of a study end to end: builds the model, drives it, streams the
-// station series to CF NetCDF, accumulates the summaries, checks kinematic-wave
-// applicability, and writes the summary CSV and JSON files. The run's files are one result
-// set (atomic_file.hpp): written into a private staging folder and renamed into place
+// Runs one (scenario, storm) of a study end to end: builds the model, drives it into the
+// reporting layer's recorder (reporting/run_recorder.hpp) while streaming the station series
+// to CF NetCDF, has reporting::report_run make the summaries and warnings, and writes the
+// summary CSV and JSON files (io/summary_writer.hpp). The run's files are one result set
+// (io/atomic_file.hpp): written into a private staging folder and renamed into place
 // together, the summary JSON last, only when the run has completed; the output folder is
 // locked against other freshet processes for the run (OutputFolderLock).
 //
 //   Study study = Study::load("basins/tansy-brook.toml");
 //   RunRequest req{"", "aep1-60min", "out/tansy-brook", io::Overwrite::no, "freshet route ..."};
 //   RunOutcome r = run_study(study, req);
-//   std::cout << format_summary_table(r.summary);
+//   std::cout << io::format_summary_table(r.summary);
 #pragma once
 
 #include <filesystem>
@@ -42,18 +43,12 @@ struct RunRequest {
   std::vector<std::string> profile_reaches;
 };
 
-struct RunOutcome {
+// What report_run found (summary, peaks, reach numerics, element notes: run_report.hpp), with
+// the run's identity, its numerics and the files it wrote.
+struct RunOutcome : reporting::RunReport {
   std::string scenario_id;
   std::string storm_id;
-  reporting::RunSummary summary;       // peaks, pairs, shocks, mass balance, warnings
-  network::RunSummary numerics;        // steps, wall time, ledgers
-  std::vector<reporting::StationPeak> peaks;  // one per station, model order
-  // Per reach: scheme, steps taken and rejected, largest Courant number, volume balance,
-  // shocks found, wall time.
-  std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics;
-  // What each element found (shocks, conduits at capacity, culvert headwater and road
-  // overtopping, detention peaks): element id and one line of text, in network order.
-  std::vector<std::pair<std::string, std::string>> notes;
+  network::RunSummary numerics;              // steps, wall time, ledgers
   std::vector<std::filesystem::path> files;  // written and renamed into place
 };
 
