@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "freshet/core/converged_root.hpp"
 #include "freshet/core/root_finding.hpp"
 #include "freshet/routing/kinematic_reach.hpp"
 
@@ -16,7 +17,10 @@ routing::ReachSpec reach_spec(const OverlandPlaneSpec& spec) {
 
 // Recession after the rain stops at t_r (Singh 1996, ch. 5): along the characteristic leaving
 // x0 = q/i at t_r with constant depth, L = q/i + m alpha^(1/m) q^(1-1/m) (t - t_r). Solved for
-// q in (0, q_max] by safeguarded Newton; the residual increases with q.
+// q in (0, q_max] by safeguarded Newton; the residual increases with q. Called after the
+// plateau, so the root lies below q_max; one below 1e-300 q_max (long after the rain) is a
+// drained plane, 0. A solve that does not converge is a NumericalError (it once returned
+// q_max, the plateau, without a word; for a drained plane too).
 double recession_outflow_m2s(const geometry::PowerLawFlux& flux, double length_m, double i,
                              double q_max, double elapsed_s) {
   const double m = flux.exponent();
@@ -26,8 +30,14 @@ double recession_outflow_m2s(const geometry::PowerLawFlux& flux, double length_m
     f = q / i + k * p - length_m;
     df = 1.0 / i + k * (1.0 - 1.0 / m) * p / q;
   };
-  const RootResult root = solve_bracketed_newton(fdf, q_max * 1e-300, q_max);
-  return root.converged ? root.x : q_max;
+  const double lo = q_max * 1e-300;
+  double f_lo = 0.0, df_lo = 0.0;
+  fdf(lo, f_lo, df_lo);
+  if (f_lo >= 0.0) return 0.0;
+  return converged_root(solve_bracketed_newton(fdf, lo, q_max), "kinematic plane solution",
+                        "recession outflow (m2/s)", [&] {
+                          return "time since the rain " + format_value(elapsed_s) + " s";
+                        });
 }
 
 }  // namespace

@@ -78,6 +78,18 @@ TEST(KinematicPlane, AnalyticalSolutionIsSelfConsistent) {
   EXPECT_NEAR(q / kExcess + (5.0 / 3.0) * std::pow(q, 0.4) * 600.0, 100.0, 1e-9);
 }
 
+// Long after the rain the analytical recession gives a drained plane: q from
+// q/i + m alpha^(1/m) q^(1-1/m) t = L is (L / (m alpha^(1/m) t))^(m/(m-1)), about 1e-321 m2/s
+// at t = 1e130 s, below every bracket. It once returned the plateau q_max instead (its root
+// search found no bracket and fell back to q_max without a word).
+TEST(KinematicPlane, AnalyticalRecessionLongAfterTheRainIsADrainedPlane) {
+  const auto flux = test_plane().flux();
+  const double t_e = kinematic_plane_equilibrium_time_s(flux, 100.0, kExcess);
+  EXPECT_EQ(kinematic_plane_outflow_m2s(flux, 100.0, kExcess, t_e, t_e + 1e130), 0.0);
+  const double q = kinematic_plane_outflow_m2s(flux, 100.0, kExcess, t_e, t_e + 1e6);
+  EXPECT_NEAR(q, std::pow(100.0 / ((5.0 / 3.0) * 1e6), 2.5), 1e-3 * q);  // i = 50 mm/h: q/i << L
+}
+
 void report(const char* label, const Comparison& c) {
   std::printf("%s: max error %.3g of peak, time to 99%% %.1f s\n", label,
               c.max_error_m2s / c.peak_m2s, c.time_to_99_s);
