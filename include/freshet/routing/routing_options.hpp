@@ -89,8 +89,8 @@ struct RoutingOptions {
   // thousands of nodes); a thinned fan's states are within 1/front_fan_max_fronts of its
   // jump in discharge.
   int front_fan_max_fronts = 256;
-  // Characteristics: when lateral inflow rebuilds the fronts, segments shorter than this are
-  // folded into a neighbour, volume-weighted (0 = automatic: 1e-4 x the reach length).
+  // Characteristics: when lateral inflow rebuilds the fronts, neighbouring segments together
+  // shorter than this are joined, volume-weighted (0 = automatic: 1e-3 x the reach length).
   double front_merge_length_m = 0.0;
   // Characteristics: longest sub-step of the Strang splitting of lateral inflow.
   double lateral_split_step_s = 30.0;

@@ -166,8 +166,8 @@ class FrontTracker {
 
   // Starts over at time t_s from a piecewise-constant profile: areas[k] on
   // [edge_m[k], edge_m[k+1]] (edges increasing from 0 to the length), with the inlet state
-  // inlet_area_m2 at x = 0. Segments shorter than merge_length_m (other than the first) are
-  // folded into a neighbour, volume-weighted, before the Riemann problems are solved.
+  // inlet_area_m2 at x = 0. Neighbouring segments together no longer than merge_length_m are
+  // joined, volume-weighted (coalesce), before the Riemann problems are solved.
   template <geometry::FluxLaw F>
   void set_profile(const F& law, double t_s, double inlet_area_m2,
                    std::span<const double> edge_m, std::span<const double> area_m2,
@@ -450,14 +450,16 @@ class FrontTracker {
     for (int h = first; h >= 0 && h != next; h = pool_[idx(h)].next) schedule_after(h);
   }
 
-  // Folds zero-length and short segments (index >= 1, shorter than merge_length_m) into their
-  // upstream neighbour, volume-weighted, and joins equal neighbours.
+  // Folds a segment into its upstream neighbour, volume-weighted, when the two together are
+  // no longer than merge_length_m (so no state is smeared over more than that), and joins
+  // zero-length segments and equal neighbours. Any two neighbours left are together longer
+  // than merge_length_m: at most 2 length / merge_length_m + 1 segments remain.
   static void coalesce(std::vector<double>& edge, std::vector<double>& area, double merge_length_m) {
     std::size_t out = 0;
     for (std::size_t k = 1; k < area.size(); ++k) {
       const double len = edge[k + 1] - edge[k];
       const double prev_len = edge[out + 1] - edge[out];
-      if (area[k] == area[out] || len <= 0.0 || len < merge_length_m) {
+      if (area[k] == area[out] || len <= 0.0 || prev_len + len <= merge_length_m) {
         const double total = prev_len + len;
         if (total > 0.0 && area[k] != area[out]) {
           area[out] = (area[out] * prev_len + area[k] * len) / total;

@@ -16,9 +16,9 @@
 //   * lateral inflow: Strang splitting (Strang 1968, SIAM J. Numer. Anal. 5(3)): half of each
 //     sub-step's exact volume is added to the profile at its start and half at its end
 //     (sub-steps at most RoutingOptions::lateral_split_step_s long), and the fronts are
-//     rebuilt from the profile; segments shorter than the merge length are folded into a
-//     neighbour, volume-weighted, which bounds the number of fronts by length / merge length
-//     plus the fans of one rebuild. The splitting error is second order in the sub-step on
+//     rebuilt from the profile; neighbouring segments together no longer than the merge
+//     length are joined, volume-weighted, which bounds the segments by 2 length / merge
+//     length + 1 and the fronts by that plus the fans of one rebuild. The splitting error is second order in the sub-step on
 //     smooth parts of the solution (first order at fronts).
 // Sampling: after every advance the reach's cell areas are the exact cell averages of the
 // fronts and the face fluxes are Q_pl of the state at each face (face N: the outlet), so
@@ -242,7 +242,7 @@ class Characteristics {
   }
 
   // Merge length when RoutingOptions::front_merge_length_m is 0: this fraction of the reach.
-  static constexpr double kAutomaticMergeFraction = 1e-4;
+  static constexpr double kAutomaticMergeFraction = 1e-3;
 
   RoutingOptions options_;
   detail::FrontTracker tracker_;
