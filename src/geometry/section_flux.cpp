@@ -137,7 +137,8 @@ ManningFlux::ManningFlux(std::shared_ptr<const CrossSection> section, double bed
                                                          : kNoCapacityArea_m2),
       max_discharge_m3s_(std::isfinite(capacity_depth_m_)
                              ? sqrt_slope_ * section_->conveyance_m3s(capacity_depth_m_)
-                             : kNoDischargeLimit_m3s) {}
+                             : kNoDischargeLimit_m3s),
+      element_(std::move(element)) {}
 
 double ManningFlux::discharge_m3s(double a) const {
   if (!(a > 0.0)) return 0.0;
@@ -155,12 +156,12 @@ double ManningFlux::celerity_m_s(double a) const {
 double ManningFlux::area_for_discharge_m2(double q) const {
   if (!(q > 0.0)) return 0.0;
   if (q >= max_discharge_m3s_) return capacity_area_m2_;
-  const auto h = normal_depth_m(*section_, sqrt_slope_ * sqrt_slope_, q);
+  const auto h = normal_depth_m(*section_, sqrt_slope_ * sqrt_slope_, q, element_);
   return h ? section_->area_m2(*h) : capacity_area_m2_;
 }
 
 std::optional<double> normal_depth_m(const CrossSection& section, double bed_slope,
-                                     double discharge) {
+                                     double discharge, const std::string& element) {
   if (!(discharge > 0.0)) return 0.0;
   const double k_target = discharge / std::sqrt(bed_slope);
   double hi = section.capacity_depth_m();
@@ -175,9 +176,15 @@ std::optional<double> normal_depth_m(const CrossSection& section, double bed_slo
     f = section.conveyance_m3s(h) - k_target;
     df = section.conveyance_slope_m2s(h);
   };
-  const RootResult r = solve_bracketed_newton(fdf, 0.0, hi);
-  if (!r.converged) return std::nullopt;
-  return r.x;
+  RootResult r = solve_bracketed_newton(fdf, 0.0, hi);
+  if (!r.converged) {  // a tiny discharge: bracket the depth closely (root_finding.hpp)
+    const double lo = tighten_bracket_below(
+        [&](double h) { return section.conveyance_m3s(h); }, k_target, hi);
+    r = solve_bracketed_newton(fdf, lo, hi);
+  }
+  return converged_root(r, element, "normal depth (m)", [&] {
+    return "discharge " + format_value(discharge) + " m3/s";
+  });
 }
 
 // ---- Factories ----------------------------------------------------------------------------

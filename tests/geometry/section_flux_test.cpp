@@ -518,5 +518,22 @@ TEST(FailedInversion, NearlyDrySectionsStillInvert) {
   }
 }
 
+// Normal depth of a tiny discharge: the depth (about 1e-120 m for 1e-200 m3/s) lies more
+// halvings below the bracket than the solver's limit. normal_depth_m once answered nullopt
+// ("above capacity"), so the exact law gave an infinite area for it; it now tightens the
+// bracket and solves again, and a bracketed root that still does not converge is a
+// NumericalError. Manning at the returned depth must give back the discharge.
+TEST(FailedInversion, NormalDepthOfATinyDischarge) {
+  const auto s = make_section(testing::trapezoid_spec(), "reach 'lower'");
+  for (double q : {1e-100, 1e-200}) {
+    const auto y = normal_depth_m(*s, kSlope, q, "reach 'lower'");
+    ASSERT_TRUE(y.has_value()) << q;
+    EXPECT_NEAR(s->conveyance_m3s(*y) * std::sqrt(kSlope) / q, 1.0, 1e-12) << q;
+  }
+  const ManningFlux exact(s, kSlope, "reach 'lower'");
+  const double a = exact.area_for_discharge_m2(1e-200);
+  EXPECT_NEAR(exact.discharge_m3s(a) / 1e-200, 1.0, 1e-12);
+}
+
 }  // namespace
 }  // namespace freshet::geometry

@@ -170,6 +170,7 @@ class ManningFlux {
   std::shared_ptr<const CrossSection> section_;
   double sqrt_slope_;
   double capacity_depth_m_, capacity_area_m2_, max_discharge_m3s_;
+  std::string element_;
 };
 
 static_assert(FluxLaw<RectangularFlux>);
@@ -201,8 +202,10 @@ double capacity_area_m2(const SectionFlux& flux) noexcept;   // infinity for ope
 
 // Normal (uniform-flow) depth: the h with K(h) sqrt(S0) = Q (m). For a closed conduit, the
 // depth on the rising branch (h <= capacity depth); nullopt when Q exceeds the capacity.
+// A depth it brackets but cannot converge to is a NumericalError naming `element`.
 std::optional<double> normal_depth_m(const CrossSection& section, double bed_slope,
-                                     double discharge_m3s);
+                                     double discharge_m3s,
+                                     const std::string& element = "cross-section");
 
 // A reach's section and flux law together, for routing (flux) and output (depth, velocity).
 struct FlowSection {
