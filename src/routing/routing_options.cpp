@@ -57,6 +57,12 @@ SchemeKind parse_scheme_kind(std::string_view name) {
   return parse_name(kSchemeNames, name, "scheme");
 }
 
+std::vector<std::string> scheme_names() {
+  std::vector<std::string> names;
+  for (const auto& [value, text] : kSchemeNames) names.emplace_back(text);
+  return names;
+}
+
 Limiter parse_limiter(std::string_view name) { return parse_name(kLimiterNames, name, "limiter"); }
 
 std::vector<Problem> ShockDetectionOptions::validate() const {

@@ -11,6 +11,7 @@
 #pragma once
 
 #include <limits>
+#include <string>
 #include <string_view>
 #include <vector>
 
@@ -34,6 +35,8 @@ enum class Limiter { kMinmod, kVanLeer };
 [[nodiscard]] std::string_view to_string(Limiter limiter) noexcept;
 // Parse the names returned by to_string; throw InputError naming the value and the choices.
 [[nodiscard]] SchemeKind parse_scheme_kind(std::string_view name);
+// Every registered scheme's name, in the order of SchemeKind (what a study file may choose).
+[[nodiscard]] std::vector<std::string> scheme_names();
 [[nodiscard]] Limiter parse_limiter(std::string_view name);
 
 struct ShockDetectionOptions {

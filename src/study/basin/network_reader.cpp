@@ -540,9 +540,7 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
   const auto invert = optional_ranged(r, units_, "outlet_invert", Q::elevation);
   routing::RoutingOptions options = settings_.channel_routing;
   if (r.optional_node("scheme")) {
-    const std::string scheme = r.choice(
-        "scheme", {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun",
-                   "characteristics"});
+    const std::string scheme = r.choice("scheme", routing::scheme_names());
     if (!scheme.empty()) options.scheme = routing::parse_scheme_kind(scheme);
   }
   if (!spec || !clean()) return nullptr;

@@ -73,10 +73,7 @@ std::string utc_iso_of(const toml::date_time& dt) {
 }
 
 routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::SchemeKind fallback) {
-  const std::string text = r.choice(
-      key, {"explicit-upwind", "implicit-upwind", "method-of-lines", "muscl-heun",
-                          "characteristics"},
-      std::string(routing::to_string(fallback)));
+  const std::string text = r.choice(key, routing::scheme_names(), std::string(routing::to_string(fallback)));
   return text.empty() ? fallback : routing::parse_scheme_kind(text);
 }
 

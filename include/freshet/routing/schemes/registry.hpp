@@ -2,9 +2,10 @@
 // per advance() (next to its flux law, a template parameter), so no code outside the scheme
 // files branches on the scheme kind. Names, front widths and construction come from here.
 //
-// A new scheme: write its file (the contract is in scheme.hpp), include it below, add its
-// type to AnyScheme, and its enumerator to SchemeKind (routing_options.hpp); the checks at
-// the end of this file fail to compile if the two lists disagree.
+// A new scheme: write its file (the contract is in scheme.hpp; its kKind and its study-file
+// name kName), include it below, add its type to AnyScheme, and its enumerator to SchemeKind
+// (routing_options.hpp); the checks at the end of this file fail to compile if the two lists
+// disagree. Names, parsing and the study file's choices (scheme_names()) follow from here.
 #pragma once
 
 #include <cstddef>
