@@ -318,13 +318,15 @@ std::pair<double, std::size_t> export_grid(const Study& study, const RunRequest&
   const double dt_s = req.export_interval_s > 0.0 ? req.export_interval_s : set.output_interval_s;
   const auto n = static_cast<std::size_t>(std::llround(set.duration_s / dt_s));
   if (n < 1 || std::abs(static_cast<double>(n) * dt_s - set.duration_s) > 1e-9 * set.duration_s) {
+    // Only --export-interval-min can fail here: the output interval already divides the run.
     throw InputError(Problem{"",
                              0,
                              0,
-                             "hydrograph export",
-                             "interval",
-                             "= " + format_value(dt_s) + " s: must divide the run length (" +
-                                 format_value(set.duration_s) + " s) into whole intervals"});
+                             "command line",
+                             "--export-interval-min",
+                             "= " + format_value(dt_s / 60.0) + " min: must divide the run (" +
+                                 format_value(set.duration_s / 60.0) +
+                                 " min, duration_h in the basin file) into whole intervals"});
   }
   return {dt_s, n};
 }
