@@ -14,6 +14,12 @@ void Model::finalize() {
 
 void ClockOptions::validate() const {
   ProblemList p("run settings");
+  p.append(problems());
+  p.throw_if_any();
+}
+
+std::vector<Problem> ClockOptions::problems() const {
+  ProblemList p("run settings");
   p.require_finite("start", start_s);
   p.require_finite("end", end_s);
   if (std::isfinite(start_s) && std::isfinite(end_s) && !(end_s > start_s)) {
@@ -22,7 +28,7 @@ void ClockOptions::validate() const {
   p.require_positive("output_interval", output_interval_s);
   p.require_positive("coupling_step", max_coupling_step_s);
   if (p.empty()) check_counts(p);
-  p.throw_if_any();
+  return p.problems();
 }
 
 // The counts are judged as doubles, before any conversion to an integer: a count that is not

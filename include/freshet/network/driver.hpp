@@ -38,6 +38,8 @@ struct ClockOptions {
   // output interval divides the run length into at least one whole step (to 1e-9 relative),
   // and the run's coupling steps can be counted exactly (at most kMaxCouplingSteps in all).
   void validate() const;
+  // The problems validate() would throw, without throwing (empty when the clock is valid).
+  [[nodiscard]] std::vector<Problem> problems() const;
   // The coupling step actually used: the output interval divided into equal parts no
   // longer than max_coupling_step_s.
   [[nodiscard]] double coupling_step_s() const;

@@ -23,7 +23,12 @@ using network::ElementKind;
 using Q = Quantity;
 
 void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& problems) {
-  for (Problem p : e.problems()) {
+  relocate(e.problems(), at, problems);
+}
+
+void relocate(const std::vector<Problem>& found, const FieldReader& at,
+              std::vector<Problem>& problems) {
+  for (Problem p : found) {
     if (p.file.empty()) {
       p.file = at.file();
       p.line = at.line();
@@ -118,11 +123,8 @@ bool NetworkReader::admit_cells(Reader& r, int cells) {
 // The run's work, once every element is counted: refused beyond the budget, before a run is
 // started that could not finish.
 void NetworkReader::check_work() {
-  try {
-    settings_.clock().validate();
-  } catch (const InputError&) {
-    return;  // the settings' own problems are reported where they are read
-  }
+  // A clock with problems has them reported where its keys are read; no work to judge.
+  if (!settings_.clock().problems().empty()) return;
   size_.elements = static_cast<double>(model_.links.size());
   const network::RunEstimate e = network::estimate_run(size_, settings_.clock());
   if (!network::exceeds_work(e, settings_.budget)) return;

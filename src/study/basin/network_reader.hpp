@@ -112,8 +112,11 @@ class NetworkReader {
 std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits& u,
                                                 const std::string& element);
 
-// Converts an InputError raised by a library constructor into located problems.
+// Converts an InputError raised by a library constructor (or the problems a library reports
+// without throwing) into located problems.
 void relocate(const InputError& e, const FieldReader& at, std::vector<Problem>& problems);
+void relocate(const std::vector<Problem>& found, const FieldReader& at,
+              std::vector<Problem>& problems);
 // Reports a file named by the table at `at` that cannot be read (IoError), at its `file` key.
 void report_file_error(FieldReader& at, const IoError& e);
 

@@ -176,11 +176,7 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   if (problems.size() != before) return;  // the clock's own checks would repeat them
   // Every rule of the clock is said above with the file's keys; this guard stays so that a
   // rule added to the clock later is still refused (at the [study] line, in its own words).
-  try {
-    settings.clock().validate();
-  } catch (const InputError& e) {
-    detail::relocate(e, r, problems);
-  }
+  detail::relocate(settings.clock().problems(), r, problems);
 }
 
 // ---- storms --------------------------------------------------------------------------------
