@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <utility>
 
 namespace freshet::network {
 
@@ -13,9 +14,7 @@ void Model::finalize() {
 }
 
 void ClockOptions::validate() const {
-  ProblemList p("run settings");
-  p.append(problems());
-  p.throw_if_any();
+  if (auto found = problems(); !found.empty()) throw InputError(std::move(found));
 }
 
 std::vector<Problem> ClockOptions::problems() const {
