@@ -66,7 +66,7 @@ class OverlandPlane {
   // Dry plane, ledger restarted.
   void reset();
 
-  [[nodiscard]] double outflow_m2s() const;  // outlet q now
+  [[nodiscard]] double outflow_m2s() const;  // outlet q now: the flux through the outlet face
   [[nodiscard]] double storage_m2() const;   // water on the plane per metre of width
   [[nodiscard]] const routing::VolumeLedger& ledger() const { return reach_->ledger(); }
   [[nodiscard]] const OverlandPlaneSpec& spec() const noexcept { return spec_; }
