@@ -2,6 +2,7 @@
 // only evaluates the same flux law over the same cells in the same run.
 //
 //   ./freshet-bench [cells] [repeats]     (defaults 20000 cells, best of 3)
+//   ./freshet-bench --bare-update [cells]  (only the bare update loop of tools/scale_bench.py)
 //
 // Prints, per flux law: bare Q(A) evaluations per second; per scheme: cell updates per second
 // (accepted steps x cells), the ratio to the bare loop, the cost per step relative to the
@@ -90,6 +91,35 @@ double bare_rate(const Law& law, int cells, double base_q, int sweeps, int repea
     best = std::max(best, static_cast<double>(cells) * sweeps / seconds_since(start));
   }
   if (sink == 42.0) std::puts("");  // consume the result
+  return best;
+}
+
+// The bare update loop: one explicit upwind sweep (Q(A) at every cell, then the conservative
+// update at Courant 0.5) over `cells` cells of the trapezoidal channel of tools/make_network.py
+// (2 m bottom, 2:1 sides, n 0.035, S0 0.005), repeated for about 2e8 cell updates; the best of
+// three. Printed as "bare-update <rate>" for tools/scale_bench.py to read.
+double bare_update_rate(int cells) {
+  const geometry::TrapezoidalFlux law(2.0, 2.0, 2.0, 0.035, 0.005);
+  const auto n = static_cast<std::size_t>(cells);
+  std::vector<double> a(n), q(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    a[i] = law.area_for_discharge_m2(1.0 + 4.0 * static_cast<double>(i % 50) / 50.0);
+  }
+  const double dx = 20.0;
+  const double dt = 0.5 * dx / law.celerity_m_s(law.area_for_discharge_m2(5.0));
+  const double inflow = 5.0, ratio = dt / dx;
+  const int sweeps = std::max(1, static_cast<int>(2e8 / static_cast<double>(cells)));
+  double best = 0.0;
+  for (int r = 0; r < 3; ++r) {
+    const auto start = Clock::now();
+    for (int s = 0; s < sweeps; ++s) {
+      for (std::size_t i = 0; i < n; ++i) q[i] = law.discharge_m3s(a[i]);
+      a[0] -= ratio * (q[0] - inflow);
+      for (std::size_t i = 1; i < n; ++i) a[i] -= ratio * (q[i] - q[i - 1]);
+    }
+    best = std::max(best, static_cast<double>(cells) * sweeps / seconds_since(start));
+  }
+  if (a[n / 2] < 0.0) std::puts("");  // consume the result
   return best;
 }
 
@@ -199,6 +229,15 @@ int main(int argc, char** argv) {
     const long v = std::strtol(text, &end, 10);
     return (end && *end == '\0' && v > 0 && v <= 10'000'000) ? static_cast<int>(v) : -fallback;
   };
+  if (argc > 1 && std::string(argv[1]) == "--bare-update") {
+    const int n = argc > 2 ? positive(argv[2], 1) : 50000;
+    if (n < 0 || argc > 3) {
+      std::printf("usage: freshet-bench --bare-update [CELLS]   (default 50000)\n");
+      return 1;
+    }
+    std::printf("bare-update %.6g\n", bare_update_rate(n));
+    return 0;
+  }
   const int cells = argc > 1 ? positive(argv[1], 1) : 20000;
   const int repeats = argc > 2 ? positive(argv[2], 1) : 3;
   if (argc > 3 || cells < 0 || repeats < 0) {
