@@ -65,6 +65,12 @@ constexpr VariableSpec kSpecs[] = {
 
 const VariableSpec& spec(OutputVariable v) { return kSpecs[static_cast<std::size_t>(v)]; }
 
+// Chunks of about 256 KiB, a whole row wide where possible (common practice, no source): the
+// number of records in one chunk of a data variable.
+std::size_t chunk_rows(std::size_t n_instances) {
+  return std::clamp<std::size_t>(65536 / std::min<std::size_t>(n_instances, 16384), 16, 1024);
+}
+
 // netcdf-cxx4's NcFile destructor retries close() and prints a failure to std::cerr ("NetCDF:
 // HDF error" and "file: ncFile.cpp line:33"). After a failed close the handle is unusable and
 // the failure has already been reported as an IoError naming the path, so forget() marks it
@@ -148,9 +154,14 @@ struct NetcdfTimeSeriesWriter::Impl {
   nc::NcVar time_var;
   std::vector<nc::NcVar> data_vars;
   std::vector<double> from_si;
-  std::vector<float> row;  // one variable's values for one record
   std::size_t n_instances = 0;
   std::size_t records = 0;
+  // Records not yet written: block_rows rows (one chunk's length) of each variable, the rows
+  // of variable v from block[v * block_rows * n_instances]; records from block_start on.
+  std::size_t block_rows = 1;
+  std::size_t block_start = 0;
+  std::vector<float> block;
+  std::vector<double> block_times;
   double last_time_s = 0.0;
   std::chrono::steady_clock::time_point last_sync;
 
@@ -162,6 +173,7 @@ struct NetcdfTimeSeriesWriter::Impl {
                             const nc::NcDim& dim, const std::string& coordinates);
   void write_instance_values(const InstanceSet& set);
   void write_record(double time_s, std::span<const double> values);
+  void flush_block();
 };
 
 void NetcdfTimeSeriesWriter::Impl::put_global_attributes(const NetcdfRunMetadata& m) {
@@ -229,9 +241,8 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
                                                         const std::string& coordinates) {
   const VariableSpec& s = spec(v);
   auto var = file->addVar(std::string(s.name), nc::ncFloat, std::vector<nc::NcDim>{time_dim, dim});
-  // Chunks of about 256 KiB, a whole row wide where possible (common practice, no source).
   const std::size_t width = std::min<std::size_t>(n_instances, 16384);
-  const std::size_t length = std::clamp<std::size_t>(65536 / width, 16, 1024);
+  const std::size_t length = chunk_rows(n_instances);
   std::vector<size_t> chunks{length, width};
   var.setChunking(nc::NcVar::nc_CHUNKED, chunks);
   var.setCompression(true, options.deflate_level > 0, options.deflate_level);
@@ -288,44 +299,72 @@ void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const Inst
   for (const auto v : variables) define_data_variable(v, set, time_dim, dim, coordinates);
   put_global_attributes(m);
   write_instance_values(set);
-  row.assign(n_instances, 0.0f);
+  // At most 4 MiB of buffered values per variable (one chunk's rows, fewer for wide files).
+  block_rows = std::clamp<std::size_t>((std::size_t{1} << 20) / n_instances, 1,
+                                       chunk_rows(n_instances));
+  block.assign(variables.size() * block_rows * n_instances, 0.0f);
+  block_times.reserve(block_rows);
 }
 
+// Each instance variable is written whole, in one call: written one instance at a time, every
+// call of a string variable made HDF5 allocate and clear its 1 MiB type-conversion buffer
+// (H5Dwrite of variable-length strings), which took 30 s for 1000 stations (issue 16).
 void NetcdfTimeSeriesWriter::Impl::write_instance_values(const InstanceSet& set) {
-  const auto reach = file->getVar("reach_id");
-  const auto chainage = file->getVar("chainage");
-  const auto x = file->getVar("x");
-  const auto y = file->getVar("y");
+  const auto& in = set.instances;
+  const auto put_strings = [&](const nc::NcVar& var, std::string InstanceInfo::*member) {
+    std::vector<const char*> text(in.size());
+    for (std::size_t i = 0; i < in.size(); ++i) text[i] = (in[i].*member).c_str();
+    var.putVar(text.data());
+  };
+  const auto put_doubles = [&](const nc::NcVar& var, double InstanceInfo::*member, bool fill) {
+    std::vector<double> values(in.size());
+    for (std::size_t i = 0; i < in.size(); ++i) {
+      const double v = in[i].*member;
+      values[i] = fill && !std::isfinite(v) ? kFillDouble : v;
+    }
+    var.putVar(values.data());
+  };
   const std::string k(to_string(set.kind));
-  const auto id = file->getVar(k + "_id");
-  const auto name = file->getVar(k + "_name");
-  for (std::size_t i = 0; i < n_instances; ++i) {
-    const std::vector<size_t> at{i};
-    const InstanceInfo& s = set.instances[i];
-    id.putVar(at, s.id);
-    name.putVar(at, s.name);
-    if (!reach.isNull()) {
-      reach.putVar(at, s.reach_id);
-      chainage.putVar(at, std::isfinite(s.chainage_m) ? s.chainage_m : kFillDouble);
-    }
-    if (!x.isNull()) {
-      x.putVar(at, s.x_m);
-      y.putVar(at, s.y_m);
-    }
+  put_strings(file->getVar(k + "_id"), &InstanceInfo::id);
+  put_strings(file->getVar(k + "_name"), &InstanceInfo::name);
+  if (const auto reach = file->getVar("reach_id"); !reach.isNull()) {
+    put_strings(reach, &InstanceInfo::reach_id);
+    put_doubles(file->getVar("chainage"), &InstanceInfo::chainage_m, true);
+  }
+  if (const auto x = file->getVar("x"); !x.isNull()) {
+    put_doubles(x, &InstanceInfo::x_m, false);
+    put_doubles(file->getVar("y"), &InstanceInfo::y_m, false);
   }
 }
 
+// Records are kept in memory and written a block of chunk rows at a time (and at every sync
+// and at the end), so each HDF5 write fills whole chunks instead of rewriting one chunk per
+// record.
 void NetcdfTimeSeriesWriter::Impl::write_record(double time_s, std::span<const double> values) {
-  time_var.putVar(std::vector<size_t>{records}, time_s);
+  const std::size_t row_in_block = records - block_start;
+  block_times.push_back(time_s);
   for (std::size_t v = 0; v < data_vars.size(); ++v) {
+    float* row = &block[(v * block_rows + row_in_block) * n_instances];
     for (std::size_t i = 0; i < n_instances; ++i) {
       const double value = values[v * n_instances + i];
       row[i] = std::isfinite(value) ? static_cast<float>(value * from_si[v]) : kFillFloat;
     }
-    data_vars[v].putVar({records, 0}, {1, n_instances}, row.data());
   }
   ++records;
   last_time_s = time_s;
+  if (records - block_start == block_rows) flush_block();
+}
+
+void NetcdfTimeSeriesWriter::Impl::flush_block() {
+  const std::size_t rows = records - block_start;
+  if (rows == 0) return;
+  time_var.putVar({block_start}, {rows}, block_times.data());
+  for (std::size_t v = 0; v < data_vars.size(); ++v) {
+    data_vars[v].putVar({block_start, 0}, {rows, n_instances},
+                        &block[v * block_rows * n_instances]);
+  }
+  block_start = records;
+  block_times.clear();
 }
 
 NetcdfTimeSeriesWriter::NetcdfTimeSeriesWriter(std::filesystem::path path,
@@ -385,6 +424,7 @@ void NetcdfTimeSeriesWriter::sync() {
   FRESHET_ASSERT(impl_->file, "NetcdfTimeSeriesWriter::sync before begin or after commit");
   std::lock_guard lock(netcdf_global_mutex());
   try {
+    impl_->flush_block();
     impl_->file->sync();
   } catch (const nc::exceptions::NcException& e) {
     rethrow_as_io_error(impl_->output.final_path(), e);
@@ -397,8 +437,13 @@ void NetcdfTimeSeriesWriter::commit() {
   {
     std::lock_guard lock(netcdf_global_mutex());
     try {
+      impl_->flush_block();
       impl_->file->close();
     } catch (const nc::exceptions::NcException& e) {
+      try {  // a failed last block leaves the file open: close it, ignoring a second failure
+        impl_->file->close();
+      } catch (...) {
+      }
       impl_->file->forget();
       impl_->file.reset();
       rethrow_as_io_error(impl_->output.final_path(), e);

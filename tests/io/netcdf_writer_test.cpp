@@ -175,6 +175,70 @@ TEST(NetcdfWriter, WritesRecordsThatReadBackWithCfStructure) {
   EXPECT_EQ(chainage, 850.5);
 }
 
+// The writer keeps records in memory and writes them a block of chunk rows at a time (issue 16):
+// with 1000 stations a chunk holds 65 records, so 150 records with a sync() after record 30
+// cross full blocks, a block cut short by the sync and a partial last block. Every value,
+// time and id must read back exactly as given (the float of the value; CF 1.11 sec. 2.5.1 for
+// the fill value of a missing one), as when each record was written alone.
+TEST(NetcdfWriter, RecordsWrittenInBlocksReadBackExactly) {
+  TempDir dir;
+  const auto path = dir / "wide.nc";
+  const std::size_t n = 1000, records = 150;
+  InstanceSet set;
+  for (std::size_t i = 0; i < n; ++i) {
+    set.instances.push_back({"st-" + std::to_string(i), "station " + std::to_string(i), "r" +
+                             std::to_string(i / 10), 10.0 * static_cast<double>(i), NAN, NAN});
+  }
+  const std::vector<OutputVariable> vars{OutputVariable::discharge, OutputVariable::depth};
+  {
+    NetcdfTimeSeriesWriter w(path);
+    w.begin(metadata(), set, vars);
+    std::vector<double> row(vars.size() * n);
+    for (std::size_t k = 0; k < records; ++k) {
+      for (std::size_t v = 0; v < vars.size(); ++v) {
+        for (std::size_t i = 0; i < n; ++i) row[v * n + i] = value(v, k, i);
+      }
+      if (k == 64) row[999] = std::nan("");  // last of the first block -> _FillValue
+      w.record(30.0 * static_cast<double>(k), row);
+      if (k == 30) w.sync();
+    }
+    w.commit();
+    EXPECT_EQ(w.records_written(), records);
+  }
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f(path.string(), nc::NcFile::read);
+  ASSERT_EQ(f.getDim("time").getSize(), records);
+  std::vector<double> t(records);
+  f.getVar("time").getVar(t.data());
+  for (std::size_t k = 0; k < records; ++k) EXPECT_EQ(t[k], 30.0 * static_cast<double>(k)) << k;
+  for (std::size_t v = 0; v < vars.size(); ++v) {
+    std::vector<float> data(records * n);
+    f.getVar(std::string(to_string(vars[v]))).getVar(data.data());
+    std::size_t wrong = 0;
+    for (std::size_t k = 0; k < records; ++k) {
+      for (std::size_t i = 0; i < n; ++i) {
+        const float expected = (v == 0 && k == 64 && i == 999) ? NC_FILL_FLOAT
+                                                               : static_cast<float>(value(v, k, i));
+        wrong += data[k * n + i] != expected;
+      }
+    }
+    EXPECT_EQ(wrong, 0u) << to_string(vars[v]);
+  }
+  std::vector<char*> ids(n), reaches(n);
+  f.getVar("station_id").getVar(ids.data());
+  f.getVar("reach_id").getVar(reaches.data());
+  std::vector<double> chainage(n);
+  f.getVar("chainage").getVar(chainage.data());
+  for (std::size_t i = 0; i < n; ++i) {
+    EXPECT_STREQ(ids[i], ("st-" + std::to_string(i)).c_str());
+    EXPECT_STREQ(reaches[i], ("r" + std::to_string(i / 10)).c_str());
+    EXPECT_EQ(chainage[i], 10.0 * static_cast<double>(i));
+  }
+  nc_free_string(n, ids.data());
+  nc_free_string(n, reaches.data());
+  EXPECT_TRUE(f.getVars().count("x") == 0);  // no coordinates given, none written
+}
+
 TEST(NetcdfWriter, DataAreChunkedAlongTimeAndDeflated) {
   TempDir dir;
   {
