@@ -25,6 +25,7 @@
 #include "freshet/hydrology/idf_curve.hpp"
 #include "freshet/hydrology/nrcs_distribution.hpp"
 #include "freshet/io/csv_series.hpp"
+#include "freshet_version.hpp"
 
 namespace freshet::cli {
 namespace {
@@ -239,6 +240,7 @@ void write_csv(const hydrology::Hyetograph& storm, const StormArgs& a, const std
   options.value_unit = a.units == "us" ? io::ColumnUnit::depth_in : io::ColumnUnit::depth_mm;
   options.title = "freshet hyetograph (design storm)";
   options.time_base = "storm start";
+  options.source = std::string("freshet ") + FRESHET_VERSION;
   options.overwrite = a.overwrite ? io::Overwrite::yes : io::Overwrite::no;
   io::write_series_csv(a.out, table, options);
 }

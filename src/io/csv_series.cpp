@@ -21,21 +21,22 @@ struct UnitInfo {
   ColumnUnit unit;
   std::string_view name;
   double to_si;
+  std::string_view udunits;  // the unit as UDUNITS text, for the CSV's metadata sidecar
 };
 
 // Factors: NIST SP 811 (2008), Appendix B (foot = 0.3048 m and inch = 0.0254 m exactly).
 constexpr double kMmPerHourToMs = 1e-3 / units::kSecondsPerHour;
 const std::array<UnitInfo, 9> kUnits{{
-    {ColumnUnit::time_s, "time_s", 1.0},
-    {ColumnUnit::time_min, "time_min", units::kSecondsPerMinute},
-    {ColumnUnit::time_h, "time_h", units::kSecondsPerHour},
-    {ColumnUnit::discharge_m3s, "discharge_m3s", 1.0},
-    {ColumnUnit::discharge_cfs, "discharge_cfs", units::kCubicMetresPerCubicFoot},
-    {ColumnUnit::intensity_mm_per_h, "intensity_mm_per_h", kMmPerHourToMs},
+    {ColumnUnit::time_s, "time_s", 1.0, "s"},
+    {ColumnUnit::time_min, "time_min", units::kSecondsPerMinute, "min"},
+    {ColumnUnit::time_h, "time_h", units::kSecondsPerHour, "h"},
+    {ColumnUnit::discharge_m3s, "discharge_m3s", 1.0, "m3 s-1"},
+    {ColumnUnit::discharge_cfs, "discharge_cfs", units::kCubicMetresPerCubicFoot, "ft3 s-1"},
+    {ColumnUnit::intensity_mm_per_h, "intensity_mm_per_h", kMmPerHourToMs, "mm h-1"},
     {ColumnUnit::intensity_in_per_h, "intensity_in_per_h",
-     units::kMetresPerInch / units::kSecondsPerHour},
-    {ColumnUnit::depth_mm, "depth_mm", 1e-3},
-    {ColumnUnit::depth_in, "depth_in", units::kMetresPerInch},
+     units::kMetresPerInch / units::kSecondsPerHour, "in h-1"},
+    {ColumnUnit::depth_mm, "depth_mm", 1e-3, "mm"},
+    {ColumnUnit::depth_in, "depth_in", units::kMetresPerInch, "in"},
 }};
 
 const UnitInfo& info(ColumnUnit unit) { return kUnits[static_cast<std::size_t>(unit)]; }
@@ -391,18 +392,8 @@ std::string format_series_csv(const SeriesTable& table, const CsvWriteOptions& o
   const ColumnUnit value_unit = options.value_unit.value_or(default_value_unit(table.quantity));
   FRESHET_ASSERT(!is_time_unit(value_unit) && quantity_of(value_unit) == table.quantity,
                  "value_unit does not match the table's quantity");
-  std::string out;
-  const bool flow = table.quantity == SeriesQuantity::discharge;
-  out += "# " + (options.title.empty() ? std::string(flow ? "freshet hydrograph"
-                                                          : "freshet hyetograph")
-                                       : options.title) + "\n";
-  if (!options.time_base.empty()) out += "# time base: " + options.time_base + "\n";
-  for (const auto& line : table.metadata) {
-    if (line != kCautionText) out += "# " + line + "\n";  // written once, below
-  }
-  out += "# " + std::string(kCautionText) + "\n";
-  out += std::string(to_string(options.time_unit)) + "," + std::string(to_string(value_unit)) +
-         "\n";
+  std::string out = std::string(to_string(options.time_unit)) + "," +
+                    std::string(to_string(value_unit)) + "\n";
   const double time_factor = to_si_factor(options.time_unit);
   const double value_factor = to_si_factor(value_unit);
   for (std::size_t k = 0; k < table.times_s.size(); ++k) {
@@ -412,9 +403,40 @@ std::string format_series_csv(const SeriesTable& table, const CsvWriteOptions& o
   return out;
 }
 
+CsvDescription describe_series_csv(const SeriesTable& table, const CsvWriteOptions& options) {
+  const ColumnUnit value_unit = options.value_unit.value_or(default_value_unit(table.quantity));
+  const bool flow = table.quantity == SeriesQuantity::discharge;
+  CsvDescription d;
+  d.title = options.title.empty() ? std::string(flow ? "freshet hydrograph" : "freshet hyetograph")
+                                  : options.title;
+  d.source = options.source;
+  d.time_origin_iso = options.time_origin_iso;
+  if (!options.time_base.empty()) d.notes.push_back("time base: " + options.time_base);
+  for (const auto& line : table.metadata) {
+    if (line != kCautionText) d.notes.push_back(line);  // the caution has its own member
+  }
+  std::string time_unit(info(options.time_unit).udunits);
+  if (!options.time_origin_iso.empty()) time_unit += " since " + options.time_origin_iso;
+  const char* value_description = "";
+  switch (table.quantity) {
+    case SeriesQuantity::discharge: value_description = "discharge at the stated time"; break;
+    case SeriesQuantity::rain_intensity:
+      value_description = "rain intensity at the stated time";
+      break;
+    case SeriesQuantity::rain_depth:
+      value_description = "rain depth that fell from the previous row's time to this row's time";
+      break;
+  }
+  d.columns = {{std::string(to_string(options.time_unit)), time_unit, "time", "double"},
+               {std::string(to_string(value_unit)), std::string(info(value_unit).udunits),
+                value_description, "double"}};
+  return d;
+}
+
 void write_series_csv(const std::filesystem::path& path, const SeriesTable& table,
                       const CsvWriteOptions& options) {
-  write_file_atomically(path, format_series_csv(table, options), options.overwrite, options.set);
+  write_csv_with_metadata(path, format_series_csv(table, options),
+                          describe_series_csv(table, options), options.overwrite, options.set);
 }
 
 }  // namespace freshet::io

@@ -9,6 +9,7 @@
 
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
+#include "freshet/io/csv_table.hpp"
 
 namespace freshet::io {
 
@@ -122,23 +123,65 @@ std::string csv_number(double v) {
   return format_value(v);  // shortest round-trip form
 }
 
-std::string csv_text(const std::string& s) {
-  if (s.find_first_of(",\"\r\n") == std::string::npos) return s;
-  std::string out = "\"";
-  for (const char c : s) out += (c == '"') ? std::string("\"\"") : std::string(1, c);
-  return out + "\"";
+std::string csv_text(const std::string& s) { return csv_field(s); }
+
+// The sidecar description shared by the three summary CSVs: what, the run's title, the time
+// origin of the *_time_s columns, the caution (added by the sidecar writer).
+CsvDescription summary_description(const RunSummary& s, const std::string& what,
+                                   std::vector<CsvColumn> columns) {
+  CsvDescription d;
+  d.title = "freshet " + what + (s.title.empty() ? "" : ": " + s.title);
+  d.source = s.source;
+  d.time_origin_iso = s.time_origin_iso;
+  const std::string since = s.time_origin_iso.empty() ? "" : " since " + s.time_origin_iso;
+  for (auto& c : columns) {
+    if (c.unit == "s" && c.name.ends_with("time_s")) c.unit += since;
+  }
+  d.columns = std::move(columns);
+  return d;
 }
 
-std::string csv_preamble(const RunSummary& s, const std::string& what) {
-  std::string out = "# freshet " + what + "\n";
-  if (!s.title.empty()) out += "# title: " + s.title + "\n";
-  if (!s.source.empty()) out += "# source: " + s.source + "\n";
-  return out + "# " + std::string(kCautionText) + "\n";
+CsvDescription stations_description(const RunSummary& s) {
+  return summary_description(
+      s, "station summary",
+      {{"station_id", "", "station (element) id", "string"},
+       {"name", "", "station name", "string"},
+       {"peak_discharge_m3s", "m3 s-1", "peak discharge"},
+       {"peak_time_s", "s", "time of the peak discharge"},
+       {"peak_stage_m", "m", "peak water level (stage) where the element has one; empty otherwise"},
+       {"runoff_volume_m3", "m3", "volume that passed the station"},
+       {"centroid_time_s", "s", "time of the hydrograph's centroid"},
+       {"centroid_lag_s", "s", "centroid lag from the centroid of the rainfall excess upstream"}});
+}
+
+CsvDescription pairs_description(const RunSummary& s) {
+  return summary_description(
+      s, "station pair summary",
+      {{"upstream_id", "", "upstream station id", "string"},
+       {"downstream_id", "", "downstream station id", "string"},
+       {"peak_attenuation_m3s", "m3 s-1", "upstream peak minus downstream peak"},
+       {"peak_attenuation_percent", "%", "attenuation as a share of the upstream peak"},
+       {"peak_time_shift_s", "s", "downstream peak time minus upstream peak time"},
+       {"volume_change_m3", "m3", "downstream volume minus upstream volume"}});
+}
+
+CsvDescription checks_description(const RunSummary& s) {
+  return summary_description(
+      s, "run checks",
+      {{"kind", "", "shock, mass_balance, wave_numbers or applicability", "string"},
+       {"element", "", "element id", "string"},
+       {"time_s", "s", "time of the finding"},
+       {"chainage_m", "m", "distance from the element's upstream end"},
+       {"inflow_volume_m3", "m3", "volume in"},
+       {"outflow_volume_m3", "m3", "volume out plus losses"},
+       {"storage_change_m3", "m3", "storage at the end minus storage at the start"},
+       {"error_m3", "m3", "volume balance error"},
+       {"relative_error", "1", "error over the larger of the volumes that passed"},
+       {"message", "", "the finding in words", "string"}});
 }
 
 std::string stations_csv(const RunSummary& s) {
-  std::string out = csv_preamble(s, "station summary") +
-                    "station_id,name,peak_discharge_m3s,peak_time_s,peak_stage_m,"
+  std::string out = "station_id,name,peak_discharge_m3s,peak_time_s,peak_stage_m,"
                     "runoff_volume_m3,centroid_time_s,centroid_lag_s\n";
   for (const auto& r : s.stations) {
     out += csv_text(r.station_id) + "," + csv_text(r.name) + "," +
@@ -150,8 +193,7 @@ std::string stations_csv(const RunSummary& s) {
 }
 
 std::string pairs_csv(const RunSummary& s) {
-  std::string out = csv_preamble(s, "station pair summary") +
-                    "upstream_id,downstream_id,peak_attenuation_m3s,peak_attenuation_percent,"
+  std::string out = "upstream_id,downstream_id,peak_attenuation_m3s,peak_attenuation_percent,"
                     "peak_time_shift_s,volume_change_m3\n";
   for (const auto& r : s.pairs) {
     out += csv_text(r.upstream_id) + "," + csv_text(r.downstream_id) + "," +
@@ -162,8 +204,7 @@ std::string pairs_csv(const RunSummary& s) {
 }
 
 std::string checks_csv(const RunSummary& s) {
-  std::string out = csv_preamble(s, "run checks") +
-                    "kind,element,time_s,chainage_m,inflow_volume_m3,outflow_volume_m3,"
+  std::string out = "kind,element,time_s,chainage_m,inflow_volume_m3,outflow_volume_m3,"
                     "storage_change_m3,error_m3,relative_error,message\n";
   for (const auto& r : s.shocks) {
     out += "shock," + csv_text(r.element) + "," + csv_number(r.time_s) + "," +
@@ -272,11 +313,19 @@ std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path
                                                      Overwrite overwrite,
                                                      OutputSet* set) {
   const std::string texts[] = {stations_csv(summary), pairs_csv(summary), checks_csv(summary)};
+  const CsvDescription descriptions[] = {stations_description(summary),
+                                         pairs_description(summary), checks_description(summary)};
   const std::vector<std::filesystem::path> paths = summary_csv_paths(prefix);
   // Open all first, so an existing file stops the whole set before anything is written.
   std::vector<std::unique_ptr<AtomicFile>> files;
-  for (const auto& path : paths) files.push_back(std::make_unique<AtomicFile>(path, overwrite, set));
-  for (std::size_t i = 0; i < paths.size(); ++i) files[i]->write(texts[i]);
+  for (const auto& path : paths) {
+    files.push_back(std::make_unique<AtomicFile>(path, overwrite, set));
+    files.push_back(std::make_unique<AtomicFile>(csv_metadata_path(path), overwrite, set));
+  }
+  for (std::size_t i = 0; i < paths.size(); ++i) {
+    files[2 * i]->write(texts[i]);
+    files[2 * i + 1]->write(format_csv_metadata(paths[i].filename().string(), descriptions[i]));
+  }
   for (auto& f : files) f->commit();
   return paths;
 }
@@ -284,8 +333,11 @@ std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path
 std::string format_summary_json(const RunSummary& summary) {
   nlohmann::json j;
   j["format"] = "freshet run summary";
+  j["format_version"] = kOutputFormatVersion;
   j["title"] = summary.title;
   j["source"] = summary.source;
+  j["time_origin"] = summary.time_origin_iso.empty() ? nlohmann::json(nullptr)
+                                                     : nlohmann::json(summary.time_origin_iso);
   j["caution"] = std::string(kCautionText);
   j["units"] = {{"discharge", "m3 s-1"}, {"time", "s"},       {"stage", "m"},
                 {"volume", "m3"},        {"chainage", "m"},   {"percent", "%"}};

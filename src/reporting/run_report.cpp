@@ -320,6 +320,7 @@ RunReport report_run(const network::Model& model, const network::RunSummary& num
   RunSummary& s = out.summary;
   s.title = context.title;
   s.source = context.source;
+  s.time_origin_iso = context.time_origin_iso;
   for (std::size_t i = 0; i < stations.size(); ++i) {
     // Centroid lag: from the centroid of the rainfall excess upstream of the station.
     StationSummary st = recorder.accumulator(i).station_summary(

@@ -208,6 +208,10 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
   if (channel) files.push_back(at.stations_nc());
   if (subcatchment) files.push_back(at.subcatchments_nc());
   if (!request.profile_reaches.empty()) files.push_back(at.profiles_nc());
+  const std::size_t n = files.size();
+  for (std::size_t k = 0; k < n; ++k) {
+    if (files[k].extension() == ".csv") files.push_back(io::csv_metadata_path(files[k]));
+  }
   return files;
 }
 
@@ -355,7 +359,9 @@ std::filesystem::path write_export(const Study& study,
   }
   CsvWriteOptions options;
   options.title = "freshet hydrograph";
-  options.time_base = set.start_iso + " (study start)";
+  options.time_base = "study start";
+  options.time_origin_iso = set.start_iso;
+  options.source = req.source;
   options.overwrite = req.overwrite;
   options.set = &results;
   const auto path = RunPaths{results.folder(), req.storm_id}.export_csv(station.id);
@@ -491,7 +497,8 @@ RunOutcome run_study(const Study& study,
       set.title + ", storm " + req.storm_id +
       (req.scenario_id.empty() ? " (base)" : ", scenario " + req.scenario_id);
   static_cast<reporting::RunReport&>(out) =
-      reporting::report_run(model, out.numerics, recorder, {title, req.source, clock});
+      reporting::report_run(model, out.numerics, recorder,
+                            {title, req.source, clock, study.settings().start_iso});
   write_run_files(study, req, recorder, stations, exported, results, files, out);
   // The commit point: every file is complete in the staging folder.
   if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");

@@ -13,8 +13,12 @@ csv="$dir/storm.csv"
 "$freshet" storm --method nrcs-24h --type II --depth-mm 100 --step-min 30 --out "$csv" >/dev/null ||
   fail "export exited $?"
 [ -f "$csv" ] || fail "no file $csv"
-grep -q '^time_min,depth_mm$' "$csv" || fail "header row time_min,depth_mm missing"
-grep -q '^# CAUTION: ' "$csv" || fail "caution comment missing"
+head -n 1 "$csv" | grep -q '^time_min,depth_mm$' || fail "first line is not the header time_min,depth_mm"
+grep -q '^#' "$csv" && fail "comment line in the CSV (metadata belongs in the sidecar)"
+meta="$csv-metadata.json"
+[ -f "$meta" ] || fail "no metadata sidecar $meta"
+grep -q '"rdfs:comment": "CAUTION: ' "$meta" || fail "caution missing from the sidecar"
+grep -q '"schema:unitText": "mm"' "$meta" || fail "depth unit missing from the sidecar"
 # Rows after the header: time, depth fallen since the previous row (first row 0,0).
 awk -F, 'body { n++; sum += $2; last = $1; if (n == 1 && ($1 != 0 || $2 != 0)) bad = 1 }
          /^time_min,/ { body = 1 }
@@ -24,13 +28,14 @@ awk -F, 'body { n++; sum += $2; last = $1; if (n == 1 && ($1 != 0 || $2 != 0)) b
   "$csv" || fail "rows or total depth wrong (expected 49 rows to 1440 min, 100 mm)"
 
 # A second export to the same name without --overwrite: exit 4, the file is unchanged.
-cp "$csv" "$dir/first.csv"
+cp "$csv" "$dir/first.csv" && cp "$meta" "$dir/first.meta"
 "$freshet" storm --method nrcs-24h --type III --depth-mm 50 --step-min 60 --out "$csv" \
   > "$dir/second.log" 2>&1
 status=$?
 [ "$status" -eq 4 ] || fail "export over an existing file exited $status, expected 4"
 grep -q 'exists' "$dir/second.log" || fail "message does not say the file exists"
 cmp -s "$csv" "$dir/first.csv" || fail "existing file was modified"
+cmp -s "$meta" "$dir/first.meta" || fail "existing sidecar was modified"
 
 # With --overwrite and US units: replaced, depth in inches (100 mm = 100/25.4 in).
 "$freshet" storm --method nrcs-24h --type II --depth-mm 100 --step-min 30 --units us \

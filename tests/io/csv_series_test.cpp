@@ -10,6 +10,7 @@
 #include <bit>
 #include <cmath>
 #include <cstdint>
+#include <nlohmann/json.hpp>
 
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
@@ -21,6 +22,7 @@ namespace {
 
 using ::testing::HasSubstr;
 using testing::TempDir;
+using testing::read_text;
 using testing::write_text;
 
 std::vector<std::string> messages_of(std::string_view text) {
@@ -152,18 +154,42 @@ TEST(CsvSeries, WrittenInUsUnitsReadsBackWithinOneUlp) {
   }
 }
 
-TEST(CsvSeries, WriterHeaderCarriesUnitsTimeBaseAndCaution) {
+// The header row first and no comment lines, so a plain CSV reader loads the file; the time
+// base, caution and units in the CSVW sidecar (W3C 2015, Metadata Vocabulary for Tabular Data,
+// sec. 5.1 for the `-metadata.json` name).
+TEST(CsvSeries, WriterPutsTheHeaderFirstAndTimeBaseCautionUnitsInTheSidecar) {
+  TempDir dir;
   SeriesTable t;
   t.times_s = {0.0, 3600.0};
   t.values_si = {0.0, 1.0};
+  t.metadata = {"station mill-lane"};
   CsvWriteOptions options;
   options.time_unit = ColumnUnit::time_h;
-  options.time_base = "storm start, 2000-01-01T00:00:00Z";
-  const std::string text = format_series_csv(t, options);
-  EXPECT_THAT(text, HasSubstr("# freshet hydrograph\n"));
-  EXPECT_THAT(text, HasSubstr("# time base: storm start, 2000-01-01T00:00:00Z\n"));
-  EXPECT_THAT(text, HasSubstr("# " + std::string(kCautionText) + "\n"));
-  EXPECT_THAT(text, HasSubstr("\ntime_h,discharge_m3s\n0,0\n1,1\n"));
+  options.time_base = "storm start";
+  options.time_origin_iso = "2000-01-01T00:00:00Z";
+  EXPECT_EQ(format_series_csv(t, options), "time_h,discharge_m3s\n0,0\n1,1\n");
+  write_series_csv(dir / "q.csv", t, options);
+  EXPECT_EQ(read_text(dir / "q.csv"), "time_h,discharge_m3s\n0,0\n1,1\n");
+  const auto meta = nlohmann::json::parse(read_text(dir / "q.csv-metadata.json"));
+  EXPECT_EQ(meta.at("dc:title").get<std::string>(), "freshet hydrograph");
+  EXPECT_EQ(meta.at("rdfs:comment").get<std::string>(), std::string(kCautionText));
+  const auto notes = meta.at("dc:description").dump();
+  EXPECT_THAT(notes, HasSubstr("time base: storm start"));
+  EXPECT_THAT(notes, HasSubstr("station mill-lane"));
+  const auto& columns = meta.at("tableSchema").at("columns");
+  EXPECT_EQ(columns[0].at("schema:unitText").get<std::string>(), "h since 2000-01-01T00:00:00Z");
+  EXPECT_EQ(columns[1].at("schema:unitText").get<std::string>(), "m3 s-1");
+}
+
+TEST(CsvSeries, AnExistingSidecarStopsTheWriteBeforeAnythingIsWritten) {
+  TempDir dir;
+  SeriesTable t;
+  t.times_s = {0.0, 60.0};
+  t.values_si = {0.0, 1.0};
+  write_text(dir / "q.csv-metadata.json", "keep");
+  EXPECT_THROW(write_series_csv(dir / "q.csv", t, {}), IoError);
+  EXPECT_FALSE(std::filesystem::exists(dir / "q.csv"));
+  EXPECT_EQ(read_text(dir / "q.csv-metadata.json"), "keep");
 }
 
 TEST(CsvSeries, HydrographReaderReturnsASeriesAndRejectsRainFiles) {

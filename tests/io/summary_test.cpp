@@ -8,6 +8,7 @@
 #include "freshet/core/caution.hpp"
 #include "freshet/core/error.hpp"
 #include "freshet/reporting/summary.hpp"
+#include "freshet/io/csv_table.hpp"
 #include "freshet/io/summary_writer.hpp"
 #include "temp_dir.hpp"
 
@@ -54,14 +55,38 @@ TEST(SummaryWriter, TableIsAlignedAndEndsWithTheCaution) {
   EXPECT_EQ((header + 1)->find("Mill Lane"), header->find("name"));  // names left-aligned
 }
 
-TEST(SummaryWriter, CsvFilesCarryCautionQuoteTextAndRoundTripNumbers) {
+// Files that load as they are: header row first, no comment lines, RFC 4180 quoting (RFC 4180,
+// 2005, Common Format and MIME Type for CSV Files, sec. 2), with '#' quoted too; the caution,
+// time origin and units in the CSVW sidecar (W3C 2015, Metadata Vocabulary for Tabular Data).
+TEST(SummaryWriter, CsvFilesStartWithTheHeaderQuoteTextAndRoundTripNumbers) {
   TempDir dir;
-  const auto paths = write_summary_csv(dir / "run1", example());
+  RunSummary s = example();
+  s.time_origin_iso = "2026-03-01T00:00:00Z";
+  s.stations[1].name = "Mill Lane culvert #2";
+  const auto paths = write_summary_csv(dir / "run1", s);
   ASSERT_EQ(paths.size(), 3u);
   const std::string stations = read_text(dir / "run1_stations.csv");
-  EXPECT_THAT(stations, HasSubstr("# " + std::string(kCautionText)));
-  EXPECT_THAT(stations, HasSubstr("\nstation_id,name,peak_discharge_m3s,peak_time_s,"));
-  EXPECT_THAT(stations, HasSubstr("alder-2,Lower weir,0.3333333333333333,7200,,47500,"));
+  EXPECT_EQ(stations.rfind("station_id,name,peak_discharge_m3s,peak_time_s,", 0), 0u);
+  EXPECT_THAT(stations, ::testing::Not(HasSubstr(std::string(kCautionText))));
+  EXPECT_THAT(stations, HasSubstr("alder-2,\"Mill Lane culvert #2\",0.3333333333333333,7200,,"));
+  for (const auto& path : paths) {
+    EXPECT_NE(read_text(path).front(), '#') << path;
+    const auto meta = nlohmann::json::parse(read_text(csv_metadata_path(path)));
+    EXPECT_EQ(meta.at("url").get<std::string>(), path.filename().string());
+    EXPECT_EQ(meta.at("rdfs:comment").get<std::string>(), std::string(kCautionText));
+    EXPECT_EQ(meta.at("dc:temporal").get<std::string>(), "2026-03-01T00:00:00Z");
+    EXPECT_EQ(meta.at("schema:version").get<int>(), kOutputFormatVersion);
+  }
+  const auto meta = nlohmann::json::parse(read_text(dir / "run1_stations.csv-metadata.json"));
+  const auto& columns = meta.at("tableSchema").at("columns");
+  ASSERT_EQ(columns.size(), 8u);  // one per header field
+  EXPECT_EQ(columns[2].at("name").get<std::string>(), "peak_discharge_m3s");
+  EXPECT_EQ(columns[2].at("schema:unitText").get<std::string>(), "m3 s-1");
+  EXPECT_EQ(columns[3].at("schema:unitText").get<std::string>(), "s since 2026-03-01T00:00:00Z");
+  s.stations[1].name = "Lower weir";
+  write_summary_csv(dir / "run2", s);
+  EXPECT_THAT(read_text(dir / "run2_stations.csv"),
+              HasSubstr("alder-2,Lower weir,0.3333333333333333,7200,,47500,"));
   const std::string checks = read_text(dir / "run1_checks.csv");
   EXPECT_THAT(checks, HasSubstr("applicability,alder-reach,,,,,,,,\"Froude number 1.4 at peak: "
                                 "\"\"kinematic\"\" assumption marginal\""));
@@ -91,6 +116,17 @@ TEST(SummaryWriter, JsonHoldsEveryRecordWithNullForNotApplicable) {
   EXPECT_THAT(j.at("applicability_warnings")[0].at("message").get<std::string>(),
               HasSubstr("\"kinematic\""));
   EXPECT_EQ(j.at("units").at("discharge").get<std::string>(), "m3 s-1");
+  EXPECT_EQ(j.at("format_version").get<int>(), kOutputFormatVersion);
+  EXPECT_TRUE(j.at("time_origin").is_null());  // the example states none
+}
+
+TEST(SummaryWriter, CsvFieldQuotesPerRfc4180AndHash) {
+  EXPECT_EQ(csv_field("mill-lane"), "mill-lane");
+  EXPECT_EQ(csv_field("a,b"), "\"a,b\"");
+  EXPECT_EQ(csv_field("say \"hi\""), "\"say \"\"hi\"\"\"");
+  EXPECT_EQ(csv_field("culvert #2"), "\"culvert #2\"");
+  EXPECT_EQ(csv_field(" padded"), "\" padded\"");
+  EXPECT_EQ(csv_field("two\nlines"), "\"two\nlines\"");
 }
 
 }  // namespace

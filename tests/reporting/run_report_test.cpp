@@ -73,7 +73,7 @@ RunReport run(Network& n, const network::ClockOptions& clock, RunRecorder** kept
   recorder = std::make_unique<RunRecorder>(n.model, n.stations);
   const network::RunSummary numerics = network::simulate(n.model, clock, *recorder);
   if (kept) *kept = recorder.get();
-  return report_run(n.model, numerics, *recorder, {"in memory", "freshet test", clock});
+  return report_run(n.model, numerics, *recorder, {"in memory", "freshet test", clock, "2000-01-01T00:00:00Z"});
 }
 
 std::vector<std::string> warnings_of(const RunReport& r, const std::string& element) {

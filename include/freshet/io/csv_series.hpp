@@ -1,14 +1,15 @@
 // CSV time series: hydrographs (time, discharge) and hyetographs (time, rain intensity or
 // rain depth), read and written in freshet's own small format (docs/outputs.md):
 //
-//   # freshet hydrograph
-//   # time base: 2000-01-01T00:00:00Z
-//   # CAUTION: ...
 //   time_min,discharge_cfs
 //   0,0
 //   15,120.5
 //
-// '#' lines are metadata; the first other line is the header naming two columns with units:
+// freshet writes the header first and no comment lines, so any CSV reader loads the file as
+// it is; the title, time base, caution and units go in a `<file>-metadata.json` sidecar
+// (csv_table.hpp). On reading, '#' lines before the header and between rows are metadata, so
+// older files and hand-written notes still load.
+// The first line that is not a '#' line is the header naming two columns with units:
 // time_s | time_min | time_h, then discharge_m3s | discharge_cfs | intensity_mm_per_h |
 // intensity_in_per_h | depth_mm | depth_in. Values are converted to SI once, on reading
 // (seconds, m3 s-1, m s-1, m). Numbers are parsed with std::from_chars (locale independent);
@@ -32,6 +33,7 @@
 
 #include "freshet/core/time_series.hpp"
 #include "freshet/io/atomic_file.hpp"
+#include "freshet/io/csv_table.hpp"
 
 namespace freshet::io {
 
@@ -87,16 +89,21 @@ struct CsvWriteOptions {
   // Value column; empty: the SI column of the table's quantity (discharge_m3s, or for rain
   // intensity_mm_per_h / depth_mm, which are exact decimal scalings of SI).
   std::optional<ColumnUnit> value_unit;
-  std::string title;      // first comment line; empty: "freshet hydrograph" / "freshet hyetograph"
-  std::string time_base;  // what time 0 is, e.g. "2000-01-01T00:00:00Z (storm start)"
+  std::string title;      // the sidecar's title; empty: "freshet hydrograph" / "freshet hyetograph"
+  std::string time_base;  // what time 0 is, in words, e.g. "study start" or "storm start"
+  std::string time_origin_iso;  // time 0 as ISO 8601 ("2000-01-01T00:00:00Z"); "" if none
+  std::string source;           // e.g. "freshet 0.1.0"
   Overwrite overwrite = Overwrite::no;
   OutputSet* set = nullptr;  // the run's result set (atomic_file.hpp); nullptr: on its own
 };
 
-// Formats the table as CSV text: comments (title, time base, metadata, caution), header,
-// rows with the shortest decimal form that reads back to the same double (std::to_chars).
+// Formats the table as CSV text: the header first, then rows with the shortest decimal form
+// that reads back to the same double (std::to_chars). No comment lines: the title, time base,
+// metadata and caution go in the sidecar (csv_table.hpp).
 std::string format_series_csv(const SeriesTable& table, const CsvWriteOptions& options);
-// Writes format_series_csv() through an AtomicFile.
+// The sidecar's content: title, time base and origin, the table's metadata lines, units.
+CsvDescription describe_series_csv(const SeriesTable& table, const CsvWriteOptions& options);
+// Writes format_series_csv() and its `-metadata.json` sidecar through atomic files.
 void write_series_csv(const std::filesystem::path& path, const SeriesTable& table,
                       const CsvWriteOptions& options = {});
 

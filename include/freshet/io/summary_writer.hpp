@@ -28,9 +28,10 @@ std::string format_summary_table(const reporting::RunSummary& summary, bool with
 std::string format_warning_lines(const reporting::RunSummary& summary);
 
 // Writes `<prefix>_stations.csv`, `<prefix>_pairs.csv` and `<prefix>_checks.csv` (shocks,
-// mass-balance records and applicability warnings, one row each); returns the paths written.
-// SI values with full round-trip precision; NaN as an empty field; text fields quoted per
-// RFC 4180 when they hold a comma, quote or line break.
+// mass-balance records and applicability warnings, one row each), each with its
+// `-metadata.json` sidecar (csv_table.hpp: title, time origin, caution, units); returns the
+// CSV paths. The header row comes first; SI values with full round-trip precision; NaN as an
+// empty field; text fields quoted per RFC 4180 (csv_field: comma, quote, line break, '#').
 // The three paths write_summary_csv() writes for `prefix`, in order.
 std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix);
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,

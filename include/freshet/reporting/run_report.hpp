@@ -44,6 +44,7 @@ struct ReportContext {
   std::string title;   // the summary's title
   std::string source;  // freshet version string
   network::ClockOptions clock;  // the run's clock (its coupling step judges rises)
+  std::string time_origin_iso;  // time 0 of the run as ISO 8601, e.g. "2000-01-01T00:00:00Z"
 };
 
 struct RunReport {

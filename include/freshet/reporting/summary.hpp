@@ -77,6 +77,7 @@ struct WaveNumberRecord {
 struct RunSummary {
   std::string title;   // e.g. "freshet run of basin 'Alder Brook', storm 100-year 6-hour"
   std::string source;  // freshet version string
+  std::string time_origin_iso;  // what every time in seconds counts from (ISO 8601); "" unknown
   std::vector<StationSummary> stations;
   std::vector<PairSummary> pairs;
   std::vector<ShockRecord> shocks;
