@@ -7,6 +7,7 @@
 #include "batch.hpp"
 #include "commands.hpp"
 #include "freshet/io/summary_writer.hpp"
+#include "freshet/study/study_report.hpp"
 #include "freshet_version.hpp"
 
 namespace freshet::cli {
@@ -100,7 +101,12 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   }
   const std::string warnings = format_input_warnings(study);
   if (!warnings.empty()) std::cout << warnings << "\n";
+  const study::ReportRequest report{study::report_path(options.out_dir, "", false), "compare",
+                                    global.command_line, std::string("freshet ") + FRESHET_VERSION,
+                                    options.overwrite};
+  io::require_absent(report.path, report.overwrite);  // refused before anything is routed
   const std::vector<study::RunOutcome> runs = run_batch(study, requests, options);
+  study::write_study_report(study, runs, report);
   std::cout << study.settings().title << "\nComparison of the base network";
   for (std::size_t k = 1; k < scenarios.size(); ++k) std::cout << (k == 1 ? " with " : ", ") << scenarios[k];
   std::cout << "\n";
@@ -115,7 +121,8 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   }
   std::cout << warnings_by_run(runs);
   std::cout << "\nEach run's full results: " << options.out_dir.string()
-            << "/<base or scenario>/<storm>.nc and <storm>_summary.*\n\n"
+            << "/<base or scenario>/<storm>.nc and <storm>_summary.*\n"
+            << "The study report (open it in a browser): " << report.path.string() << "\n\n"
             << wrapped_caution();
   return kExitOk;
 }

@@ -6,6 +6,7 @@
 #include "batch.hpp"
 #include "commands.hpp"
 #include "freshet/io/summary_writer.hpp"
+#include "freshet/study/study_report.hpp"
 #include "freshet_version.hpp"
 
 namespace freshet::cli {
@@ -34,7 +35,12 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)
             << ", " << storms.size() << " storm(s)\n"
             << format_input_warnings(study) << "\n";
+  const study::ReportRequest report{study::report_path(options.out_dir, a.scenario), "route",
+                                    global.command_line, std::string("freshet ") + FRESHET_VERSION,
+                                    options.overwrite};
+  io::require_absent(report.path, report.overwrite);  // refused before anything is routed
   const std::vector<study::RunOutcome> runs = run_batch(study, requests, options);
+  study::write_study_report(study, runs, report);
   for (const auto& r : runs) {
     std::cout << io::format_summary_table(r.summary, false);
     const std::string notes = format_notes(r);
@@ -76,6 +82,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   for (const auto& r : runs) {
     for (const auto& f : r.files) std::cout << "  " << f.string() << "\n";
   }
+  std::cout << "  " << report.path.string() << "  (the study report: open it in a browser)\n";
   std::cout << "\n" << wrapped_caution();
   return kExitOk;
 }

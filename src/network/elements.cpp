@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <variant>
 
 namespace freshet::network {
 
@@ -104,6 +105,7 @@ ElementReport ReachElement::report() const {
   ReachFacts f;
   f.bed_slope = section_.bed_slope;
   f.length_m = reach_->spec().length_m;
+  f.outlet_invert_m = outlet_invert_m_;
   f.cell_count = reach_->spec().cell_count;
   f.cell_width_m = reach_->cell_width_m();
   for (const routing::ShockReport* shock : significant_shocks()) {
@@ -235,6 +237,30 @@ StationSample PoolElement::sample() const {
 
 VolumeLedger PoolElement::ledger() const { return pool_->ledger(); }
 
+std::vector<MarkedStage> PoolElement::marked_stages() const {
+  std::vector<MarkedStage> out;
+  if (crossing_) {
+    const structures::CulvertSpec& spec = crossing_->culvert().spec();
+    out.push_back({"culvert inlet invert", spec.inlet_invert_stage_m});
+    out.push_back({"barrel crown", spec.inlet_invert_stage_m + spec.rise_m});
+    if (crossing_->road()) out.push_back({"road crest (lowest)", crossing_->road()->lowest_crest_stage_m()});
+  }
+  if (riser_) {
+    for (const structures::Outlet& o : riser_->outlets()) {
+      if (const auto* w = std::get_if<structures::RectangularWeir>(&o)) {
+        out.push_back({"weir crest", w->crest_stage_m});
+      } else if (const auto* v = std::get_if<structures::VNotchWeir>(&o)) {
+        out.push_back({"notch vertex", v->vertex_stage_m});
+      } else if (const auto* h = std::get_if<structures::Orifice>(&o)) {
+        out.push_back({"orifice invert", h->invert_stage_m});
+      }
+    }
+  }
+  std::stable_sort(out.begin(), out.end(),
+                   [](const MarkedStage& a, const MarkedStage& b) { return a.stage_m < b.stage_m; });
+  return out;
+}
+
 ElementReport PoolElement::report() const {
   PoolFacts f;
   f.peak_inflow_m3s = peak_inflow_m3s_;
@@ -243,6 +269,7 @@ ElementReport PoolElement::report() const {
   } else {
     f.detention = structures::detention_report(*pool_);
   }
+  f.marked_stages = marked_stages();
   return {kind(), std::move(f)};
 }
 

@@ -1,5 +1,8 @@
 #include "freshet/reporting/run_recorder.hpp"
 
+#include <algorithm>
+
+#include "freshet/reporting/reported_as.hpp"
 #include "run_watch.hpp"
 
 namespace freshet::reporting {
@@ -8,11 +11,75 @@ RunRecorder::RunRecorder(const network::Model& model, std::vector<StationDescrip
     : stations_(std::move(stations)),
       acc_(stations_.size()),
       at_peak_(stations_.size()),
-      watch_(std::make_unique<detail::RunWatch>(model, stations_)) {}
+      watch_(std::make_unique<detail::RunWatch>(model, stations_)),
+      model_(&model) {}
 
 RunRecorder::~RunRecorder() = default;
 
+void RunRecorder::record(double time_s, std::span<const network::StationSample> samples) {
+  observe(time_s, samples);
+  if (keep_output_) keep_output_sample(time_s, samples);
+}
+
+void RunRecorder::keep_output_series() {
+  keep_output_ = true;
+  series_ = {};
+  series_.stations.resize(stations_.size());
+  rain_depth_m_.assign(stations_.size(), 0.0);
+  excess_depth_m_.assign(stations_.size(), 0.0);
+  for (std::size_t i = 0; i < stations_.size(); ++i) {
+    if (!is_reach(stations_[i].kind)) continue;
+    ReachPeakProfile p;
+    p.station = i;
+    for (const network::CellSample& c : model_->elements[i]->cell_samples()) {
+      p.chainage_m.push_back(c.chainage_m);
+      p.peak_depth_m.push_back(0.0);
+    }
+    series_.reach_profiles.push_back(std::move(p));
+  }
+}
+
+// Each coupling step's mean rain and excess rates, times the step: the depths that fell
+// since the last output time.
+void RunRecorder::add_rain_depths(double time_s,
+                                  std::span<const network::StationSample> samples) {
+  if (observed_) {
+    const double dt_s = time_s - last_observed_s_;
+    for (std::size_t i = 0; i < samples.size(); ++i) {
+      if (!is_subcatchment(stations_[i].kind)) continue;
+      rain_depth_m_[i] += samples[i].rain_m_s * dt_s;
+      excess_depth_m_[i] += samples[i].excess_m_s * dt_s;
+    }
+  }
+  observed_ = true;
+  last_observed_s_ = time_s;
+}
+
+void RunRecorder::keep_output_sample(double time_s,
+                                     std::span<const network::StationSample> samples) {
+  const double interval_s = series_.times_s.empty() ? 0.0 : time_s - series_.times_s.back();
+  series_.times_s.push_back(time_s);
+  for (std::size_t i = 0; i < samples.size(); ++i) {
+    StationSeries& s = series_.stations[i];
+    s.discharge_m3s.push_back(samples[i].discharge_m3s);
+    s.stage_m.push_back(samples[i].stage_m);
+    if (!is_subcatchment(stations_[i].kind)) continue;
+    // No interval ends at the first output time.
+    const double nan = kNotApplicable;
+    s.rain_m_s.push_back(interval_s > 0.0 ? rain_depth_m_[i] / interval_s : nan);
+    s.excess_m_s.push_back(interval_s > 0.0 ? excess_depth_m_[i] / interval_s : nan);
+    rain_depth_m_[i] = excess_depth_m_[i] = 0.0;
+  }
+  for (ReachPeakProfile& p : series_.reach_profiles) {
+    const std::vector<network::CellSample> cells = model_->elements[p.station]->cell_samples();
+    for (std::size_t k = 0; k < cells.size() && k < p.peak_depth_m.size(); ++k) {
+      p.peak_depth_m[k] = std::max(p.peak_depth_m[k], cells[k].depth_m);
+    }
+  }
+}
+
 void RunRecorder::observe(double time_s, std::span<const network::StationSample> samples) {
+  if (keep_output_) add_rain_depths(time_s, samples);
   watch_->observe(time_s, samples);
   for (auto& [i, kept] : kept_) {
     kept.times_s.push_back(time_s);

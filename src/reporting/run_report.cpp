@@ -348,6 +348,8 @@ RunReport report_run(const network::Model& model, const network::RunSummary& num
   out.peaks = station_peaks(reports, s, stations);
   out.reach_numerics = reach_numerics(model, reports);
   out.notes = element_notes(model, reports);
+  out.elements = std::move(reports);
+  out.series = recorder.output_series();
   return out;
 }
 

@@ -58,7 +58,8 @@ class StudySink final : public network::RecordSink {
   }
 
   void record(double time_s, std::span<const StationSample> samples) override {
-    observe(time_s, samples);
+    if (cancel_ && cancel_()) throw RunInterrupted("the run was stopped before it finished");
+    recorder_.record(time_s, samples);
     if (channel_) write_channel(time_s, samples);
     if (sub_) write_sub(time_s, samples);
     if (after_record) after_record(time_s);
@@ -465,6 +466,17 @@ network::RunSummary simulate_located(const Study& study,
   }
 }
 
+// The study report's series (reporting/run_series.hpp) are kept while they need no more than
+// kReportSeriesBudget values (32 MiB at 4 values a station and output time, plus the cells);
+// beyond that the report refers to the NetCDF files instead. Our choice, no source.
+constexpr double kReportSeriesBudget = 4.0e6;
+
+bool report_series_fit(const Study& study, const std::vector<StationDescription>& stations) {
+  const network::ClockOptions clock = study.settings().clock();
+  const double values = 4.0 * static_cast<double>(stations.size()) * (clock.output_count() + 1.0);
+  return values <= kReportSeriesBudget;
+}
+
 }  // namespace
 
 RunOutcome run_study(const Study& study,
@@ -486,6 +498,7 @@ RunOutcome run_study(const Study& study,
   RunFiles files;
   open_run_files(study, req, model, stations, results, sink, files);
   for (std::size_t i : exported) recorder.keep_series(i);
+  if (report_series_fit(study, stations)) recorder.keep_output_series();
 
   const StudySettings& set = study.settings();
   const network::ClockOptions clock = run_clock(set);

@@ -20,3 +20,7 @@ assert peak > 1.0, peak
 assert culvert["stage"].attrs["units"] == "m"
 print(f"demo: mill-lane selected by id, peak discharge {peak:.3f} m3/s")
 PY
+
+# The study report's culvert figure shows the discharge and headwater the NetCDF file holds.
+/usr/bin/python3 "$src/report_readback.py" "$scratch/demo/base/report.html" \
+  "$scratch/demo/base/aep1-30min.nc" mill-lane base aep1-30min

@@ -14,6 +14,7 @@
 #pragma once
 
 #include <optional>
+#include <string>
 #include <variant>
 #include <vector>
 
@@ -28,6 +29,7 @@ namespace freshet::network {
 struct ReachFacts {
   double bed_slope = 0.0;  // m/m
   double length_m = 0.0;
+  std::optional<double> outlet_invert_m;  // bed elevation at the downstream end, when given
   int cell_count = 0;
   double cell_width_m = 0.0;
   // The kinematic shocks that matter to the flood, in order of formation (each one's largest
@@ -50,9 +52,17 @@ struct SubcatchmentFacts {
   double area_m2 = 0.0;
 };
 
+// A level the reports mark on a pool's stage axis and on long sections: a culvert's inlet
+// invert and barrel crown, the lowest road crest, a spillway crest, an orifice invert.
+struct MarkedStage {
+  std::string what;  // e.g. "road crest (lowest)"
+  double stage_m = 0.0;
+};
+
 // A level pool: the ponding upstream of a culvert crossing, or a detention basin.
 struct PoolFacts {
   double peak_inflow_m3s = 0.0;  // at coupling-step ends
+  std::vector<MarkedStage> marked_stages;  // lowest first
   std::optional<structures::CrossingReport> crossing;    // culvert crossings: headwater, road
   std::optional<structures::DetentionReport> detention;  // detention basins: stage, storage
 };

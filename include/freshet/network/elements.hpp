@@ -107,6 +107,7 @@ class PoolElement final : public Element {
   [[nodiscard]] const structures::CulvertCrossing* crossing() const { return crossing_.get(); }
 
  private:
+  [[nodiscard]] std::vector<MarkedStage> marked_stages() const;
   std::shared_ptr<const structures::CulvertCrossing> crossing_;  // may be shared between runs
   std::unique_ptr<structures::Riser> riser_;
   std::unique_ptr<structures::LevelPool> pool_;

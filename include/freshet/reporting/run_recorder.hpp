@@ -23,6 +23,7 @@
 
 #include "freshet/core/time_series.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/reporting/run_series.hpp"
 #include "freshet/reporting/station.hpp"
 #include "freshet/reporting/summary.hpp"
 
@@ -42,9 +43,7 @@ class RunRecorder final : public network::RecordSink {
 
   // Output times and coupling-step ends feed the same accumulators (peaks between output
   // times are not missed).
-  void record(double time_s, std::span<const network::StationSample> samples) override {
-    observe(time_s, samples);
-  }
+  void record(double time_s, std::span<const network::StationSample> samples) override;
   [[nodiscard]] bool observes_every_step() const override { return true; }
   void observe(double time_s, std::span<const network::StationSample> samples) override;
 
@@ -71,6 +70,13 @@ class RunRecorder final : public network::RecordSink {
   [[nodiscard]] PiecewiseLinearSeries series(std::size_t i, const std::string& what) const;
   [[nodiscard]] PiecewiseLinearSeries volume_series(std::size_t i, const std::string& what) const;
 
+  // Keeps every station's samples at the output times, and each reach cell's largest depth
+  // at those times, for the run's report (run_series.hpp); call before the run. Rain and
+  // excess are kept as their means over each output interval (exact: every coupling step's
+  // mean is added in).
+  void keep_output_series();
+  [[nodiscard]] const RunSeries& output_series() const { return series_; }
+
  private:
   struct KeptSeries {
     std::vector<double> times_s, discharge_m3s, volume_m3;
@@ -80,6 +86,14 @@ class RunRecorder final : public network::RecordSink {
   std::vector<network::StationSample> at_peak_;
   std::unique_ptr<detail::RunWatch> watch_;
   std::map<std::size_t, KeptSeries> kept_;
+  void keep_output_sample(double time_s, std::span<const network::StationSample> samples);
+  void add_rain_depths(double time_s, std::span<const network::StationSample> samples);
+  const network::Model* model_ = nullptr;
+  bool keep_output_ = false;
+  RunSeries series_;
+  double last_observed_s_ = 0.0;
+  bool observed_ = false;
+  std::vector<double> rain_depth_m_, excess_depth_m_;  // since the last output time
 };
 
 }  // namespace freshet::reporting

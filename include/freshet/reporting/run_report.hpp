@@ -18,6 +18,7 @@
 
 #include "freshet/network/driver.hpp"
 #include "freshet/reporting/run_recorder.hpp"
+#include "freshet/reporting/run_series.hpp"
 #include "freshet/reporting/station.hpp"
 #include "freshet/reporting/summary.hpp"
 #include "freshet/routing/diagnostics.hpp"
@@ -56,6 +57,10 @@ struct RunReport {
   // What each element found (shocks, conduits at capacity, culvert headwater and road
   // overtopping, detention peaks): element id and one line of text, in network order.
   std::vector<std::pair<std::string, std::string>> notes;
+  // Each element's typed report (model order): the HTML report's marks and profiles.
+  std::vector<network::ElementReport> elements;
+  // The output-time series, when the recorder kept them (RunRecorder::keep_output_series).
+  RunSeries series;
 };
 
 // `numerics` is what network::simulate returned for `model`; `recorder` recorded that run.
