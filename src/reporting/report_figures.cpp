@@ -361,24 +361,19 @@ std::string long_section_section(ReportPage& c) {
       const std::size_t j = ReportPage::index_in(*facts, c.stations()[path[p]].id);
       route += (route.empty() ? "" : " → ") + c.stations()[path[p]].id;
       if (j >= facts->elements.size() || !is_pool(facts->elements[j].kind)) continue;
-      double invert = NAN, crown = NAN;
+      MarkedPlace place{c.stations()[path[p]].id, g.start_m[p], 0.0, 0.0, {}};
       for (const network::MarkedStage& m : facts->elements[j].pool().marked_stages) {
-        if (m.what == "culvert inlet invert") invert = m.stage_m;
-        if (m.what == "barrel crown") crown = m.stage_m;
+        if (m.what == "culvert inlet invert") place.y0 = m.stage_m;
+        if (m.what == "barrel crown") place.y1 = m.stage_m;
         if (m.what == "road crest (lowest)" || m.what == "weir crest") {
-          chart.series.push_back({m.what + " at " + c.stations()[path[p]].id,
-                                  {g.start_m[p] - 0.02 * g.total_m, g.start_m[p] + 0.02 * g.total_m},
-                                  {m.stage_m, m.stage_m}, 6, false,
-                                  "crest|" + c.stations()[path[p]].id, false});
+          place.crests.push_back({m.what, m.stage_m, false});
         }
       }
-      chart.places.push_back({c.stations()[path[p]].id, g.start_m[p],
-                              std::isfinite(invert) ? invert : 0.0,
-                              std::isfinite(crown) ? crown : 0.0});
+      chart.places.push_back(std::move(place));
     }
     chart.description = "Line chart of elevation in metres against distance in metres along the "
                         "path " + route + ": the bed, the peak water surface of each run, and "
-                        "each structure's barrel (box) and crest (short line).";
+                        "each structure's barrel (box) and crest (short heavy line).";
     s += figure(render_line_chart(chart), escape_html(chart.title + ": " + route + "."));
     any = true;
   }

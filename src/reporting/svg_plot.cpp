@@ -247,6 +247,13 @@ std::string levels_svg(const Frame& f, const LineChart& c) {
       s += "<rect x=\"" + px(x - 4) + "\" y=\"" + px(f.sy(p.y1)) + "\" width=\"8\" height=\"" +
            px(f.sy(p.y0) - f.sy(p.y1)) + "\" fill=\"white\" stroke=\"#222\" stroke-width=\"1.5\"/>";
     }
+    for (const MarkedLevel& crest : p.crests) {
+      const double y = f.sy(crest.value);
+      s += "<line x1=\"" + px(x - 14) + "\" y1=\"" + px(y) + "\" x2=\"" + px(x + 14) + "\" y2=\"" +
+           px(y) + "\" stroke=\"#1b1b1b\" stroke-width=\"3\"/><text x=\"" + px(x + 18) +
+           "\" y=\"" + px(y + 4) + "\">" + escape_html(crest.label) + " " + fixed(crest.value, 2) +
+           "</text>";
+    }
     s += "<text x=\"" + px(x + 4) + "\" y=\"" + px(f.top + 12) + "\">" + escape_html(p.label) +
          "</text></g>\n";
   }
@@ -329,6 +336,7 @@ std::string render_line_chart(const LineChart& c) {
       ry.add(p.y0);
       ry.add(p.y1);
     }
+    for (const MarkedLevel& crest : p.crests) ry.add(crest.value);
   }
   if (!rx.empty() && rx.hi > rx.lo) {
     f.x = nice_ticks(rx.lo, rx.hi, 8);

@@ -60,6 +60,7 @@ struct MarkedPlace {
   std::string label;
   double x = 0.0;
   double y0 = 0.0, y1 = 0.0;  // box from y0 to y1 when y1 > y0
+  std::vector<MarkedLevel> crests;  // short heavy ticks across the place (a road crest)
 };
 
 struct LineChart {
