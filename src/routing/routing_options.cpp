@@ -88,6 +88,8 @@ ShockDetectionOptions resolved_shock_options(const RoutingOptions& routing) {
       s.front_cells = S::front_cells(routing);
       return true;
     });
+    // A scheme whose waves do not break (a diffusion wave) has no front width: no detection.
+    if (s.front_cells == 0) s.enabled = false;
   }
   if (s.plateau_cells == 0) s.plateau_cells = 3 * s.front_cells;
   return s;
@@ -122,6 +124,8 @@ std::vector<Problem> RoutingOptions::validate() const {
             "front_merge_length_m", front_merge_length_m, "must be >= 0 (0 = automatic)");
   p.require(std::isfinite(lateral_split_step_s) && lateral_split_step_s > 0.0,
             "lateral_split_step_s", lateral_split_step_s, "must be > 0");
+  p.require(std::isfinite(diffusion_courant_target) && diffusion_courant_target > 0.0,
+            "diffusion_courant_target", diffusion_courant_target, "must be finite and > 0");
   p.append(shock.validate());
   return p.problems();
 }

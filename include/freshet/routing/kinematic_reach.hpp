@@ -48,10 +48,13 @@ template <geometry::FluxLaw F>
 class KinematicReach final : public ReachModel {
  public:
   // One flux law for the whole reach. Throws InputError listing every bad spec/option value.
-  KinematicReach(ReachSpec spec, F law, RoutingOptions options = {})
-      : KinematicReach(std::move(spec), std::vector<F>{std::move(law)}, std::move(options)) {}
+  // `shape` (the section and bed slope) is read only by the diffusion-wave scheme.
+  KinematicReach(ReachSpec spec, F law, RoutingOptions options = {}, ChannelShape shape = {})
+      : KinematicReach(std::move(spec), std::vector<F>{std::move(law)}, std::move(options),
+                       std::move(shape)) {}
   // One law per cell (size cell_count), or a single law.
-  KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOptions options = {});
+  KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOptions options = {},
+                 ChannelShape shape = {});
 
   using ReachModel::advance;
   AdvanceResult advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s,
@@ -108,13 +111,15 @@ class KinematicReach final : public ReachModel {
   double time_s_ = std::numeric_limits<double>::quiet_NaN();
   double dt_cap_ = std::numeric_limits<double>::infinity();  // shrinks after rejections
   ShockDetector detector_;
+  bool detect_shocks_ = true;  // the options' choice, off for a scheme whose waves do not break
 };
 
 // ---------------------------------------------------------------------------------------------
 // Implementation (templates).
 
 template <geometry::FluxLaw F>
-KinematicReach<F>::KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOptions options)
+KinematicReach<F>::KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOptions options,
+                                  ChannelShape shape)
     : spec_(std::move(spec)), opt_(std::move(options)) {
   ProblemList problems(detail::reach_label(spec_));
   problems.append(spec_.validate());
@@ -123,8 +128,11 @@ KinematicReach<F>::KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOp
   problems.throw_if_any();
   const auto cells = static_cast<std::size_t>(spec_.cell_count);
   state_ = detail::ReachState<F>(std::move(laws), spec_.length_m / spec_.cell_count, cells);
+  state_.shape = std::move(shape);
   scheme_ = schemes::make_scheme(opt_.scheme, opt_, cells);
-  detector_ = ShockDetector(resolved_shock_options(opt_), state_.dx_m, spec_.cell_count);
+  const ShockDetectionOptions shock = resolved_shock_options(opt_);
+  detect_shocks_ = shock.enabled;
+  detector_ = ShockDetector(shock, state_.dx_m, spec_.cell_count);
   state_.diag.scheme = std::string(to_string(opt_.scheme));
   restart_ledger();
 }
@@ -312,7 +320,7 @@ void KinematicReach<F>::finish_advance(double t0, AdvanceResult& r) {
 // The detector reads Q and c per cell on demand (no arrays kept for it).
 template <geometry::FluxLaw F>
 void KinematicReach<F>::observe_shock(double t) {
-  if (!opt_.shock.enabled) return;
+  if (!detect_shocks_) return;
   detector_.observe(t, state_.area_m2, [this](std::size_t i, double& q, double& c) {
     detail::flux_and_celerity(law(i), state_.area_m2[i], q, c);
   });

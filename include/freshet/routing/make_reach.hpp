@@ -19,5 +19,10 @@ namespace freshet::routing {
 [[nodiscard]] std::unique_ptr<ReachModel> make_reach(ReachSpec spec,
                                                      const geometry::SectionFlux& flux,
                                                      RoutingOptions options = {});
+// The same from a reach's section, flux law and bed slope together: the reach also knows its
+// top width and slope, which the diffusion-wave scheme (muskingum-cunge) needs.
+[[nodiscard]] std::unique_ptr<ReachModel> make_reach(ReachSpec spec,
+                                                     const geometry::FlowSection& section,
+                                                     RoutingOptions options = {});
 
 }  // namespace freshet::routing

@@ -15,12 +15,14 @@
 // Units: metres, seconds, m2 (areas), m3/s (fluxes), m2/s (lateral inflow per unit length).
 #pragma once
 
+#include <memory>
 #include <span>
 #include <string>
 #include <vector>
 
 #include "freshet/core/error.hpp"
 #include "freshet/core/time_series.hpp"
+#include "freshet/geometry/cross_section.hpp"
 #include "freshet/routing/diagnostics.hpp"
 #include "freshet/routing/lateral_inflow.hpp"
 #include "freshet/routing/routing_options.hpp"
@@ -33,6 +35,14 @@ struct ReachSpec {
   double length_m = 0.0;
   int cell_count = 0;
   [[nodiscard]] std::vector<Problem> validate() const;
+};
+
+// What a diffusion-wave scheme needs beyond the flux law Q(A): the reach's cross-section (its
+// top width B at each area) and its bed slope S0, for the hydraulic diffusivity Q / (2 B S0).
+// The kinematic schemes do not read it. make_reach from a geometry::FlowSection fills it.
+struct ChannelShape {
+  std::shared_ptr<const geometry::CrossSection> section;  // null: not known
+  double bed_slope = 0.0;                                  // m/m; 0: not known
 };
 
 // Run-time interface: one virtual call per advance(), never inside the cell loops.

@@ -27,6 +27,7 @@ enum class SchemeKind {
   kMethodOfLines,   // upwind semi-discretisation integrated by an adaptive Runge-Kutta (Odeint)
   kMusclHeun,       // MUSCL limited reconstruction + SSP-RK2 (Heun), second order where smooth
   kCharacteristics, // grid-free front tracking on a piecewise-linear flux (no cells, no dt)
+  kMuskingumCunge,  // diffusion wave: variable-parameter Muskingum-Cunge, volume by continuity
 };
 
 enum class Limiter { kMinmod, kVanLeer };
@@ -44,7 +45,8 @@ struct ShockDetectionOptions {
   // A front is "steep" when this fraction of the jump (A_left - A_right) happens across
   // `front_cells` consecutive cells. 0 = automatic: the width over which the scheme smears a
   // captured shock (4 explicit upwind and MUSCL-Heun, 8 method of lines, 8 (1 + Courant)
-  // implicit upwind; see docs/methods-routing.md).
+  // implicit upwind; see docs/methods-routing.md). A scheme whose waves do not break
+  // (muskingum-cunge, a diffusion wave) gives 0, and detection is then off.
   double steep_fraction = 0.9;
   int front_cells = 0;
   // Cells either side of the steepest drop searched for the plateau states A_left, A_right.
@@ -97,6 +99,10 @@ struct RoutingOptions {
   double front_merge_length_m = 0.0;
   // Characteristics: longest sub-step of the Strang splitting of lateral inflow.
   double lateral_split_step_s = 30.0;
+  // Muskingum-Cunge: dt = diffusion_courant_target * dx / c_max (the recursion is stable at
+  // any Courant number; its coefficients stay non-negative while C <= 1 + R and C + R >= 1,
+  // R the cell Reynolds number; docs/methods-routing.md).
+  double diffusion_courant_target = 1.0;
   // Every scheme: upper bound on an internal step, and the smallest step tried after
   // rejections before advance() gives up.
   double max_dt_s = std::numeric_limits<double>::infinity();

@@ -571,7 +571,7 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
   }
   if (!admit_cells(r, cell_count)) return nullptr;
   geometry::FlowSection section = geometry::make_flow_section(*spec, slope, {}, r.element());
-  auto reach = routing::make_reach({id, length_m, cell_count}, section.flux, options);
+  auto reach = routing::make_reach({id, length_m, cell_count}, section, options);
   std::optional<double> invert_m;
   if (invert) invert_m = units_.length_m(*invert);
   return std::make_unique<network::ReachElement>(id, std::move(section), std::move(reach),

@@ -72,9 +72,18 @@ std::string utc_iso_of(const toml::date_time& dt) {
   return buf;
 }
 
-routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::SchemeKind fallback) {
-  const std::string text = r.choice(key, routing::scheme_names(), std::string(routing::to_string(fallback)));
+routing::SchemeKind read_scheme(FieldReader& r, std::string_view key, routing::SchemeKind fallback,
+                                std::vector<std::string> names = routing::scheme_names()) {
+  const std::string text = r.choice(key, names, std::string(routing::to_string(fallback)));
   return text.empty() ? fallback : routing::parse_scheme_kind(text);
+}
+
+// Overland planes route the kinematic wave only: the diffusion-wave scheme needs a channel's
+// section and is not offered for them.
+std::vector<std::string> plane_scheme_names() {
+  std::vector<std::string> names = routing::scheme_names();
+  std::erase(names, std::string(routing::to_string(routing::SchemeKind::kMuskingumCunge)));
+  return names;
 }
 
 // The clock's rules on its counts (network::ClockOptions::count_fault), said with the file's
@@ -158,7 +167,8 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
       read_scheme(r, "channel_scheme", routing::SchemeKind::kMusclHeun);
   // Overland planes: MUSCL-Heun by default, the scheme that meets the analytical plane
   // solution within 1% on modest grids (tests/hydrology).
-  settings.plane_routing.scheme = read_scheme(r, "plane_scheme", routing::SchemeKind::kMusclHeun);
+  settings.plane_routing.scheme =
+      read_scheme(r, "plane_scheme", routing::SchemeKind::kMusclHeun, plane_scheme_names());
   // Implicit upwind is stable at any Courant number but smears a wave by about
   // c dx (1 + C) / 2 (its modified equation; LeVeque 2002, Finite Volume Methods for
   // Hyperbolic Problems, sec. 8.6, from memory), so basin files default to C = 2, not the

@@ -15,6 +15,7 @@
 #include "freshet/routing/detail/flux_eval.hpp"
 #include "freshet/routing/diagnostics.hpp"
 #include "freshet/routing/lateral_inflow.hpp"
+#include "freshet/routing/reach_model.hpp"
 
 namespace freshet::routing::detail {
 
@@ -71,6 +72,7 @@ struct ReachState {
   std::vector<double> lateral_m3;       // N: lateral volume per cell over a step (if any)
   CellLateralMap lateral_map;           // where the lateral inflow enters (none: empty)
   double c_max_m_s = 0.0;               // celerity bound of the current state
+  ChannelShape shape;                   // section and bed slope (diffusion-wave schemes)
   VolumeLedger ledger;
   RunDiagnostics diag;
   // Counts restarts (new initial state): a scheme with a state of its own rebuilds it.

@@ -20,12 +20,13 @@
 #include "freshet/routing/schemes/implicit_upwind.hpp"
 #include "freshet/routing/schemes/method_of_lines.hpp"
 #include "freshet/routing/schemes/muscl_heun.hpp"
+#include "freshet/routing/schemes/muskingum_cunge.hpp"
 
 namespace freshet::routing::schemes {
 
 // In the order of SchemeKind.
 using AnyScheme = std::variant<ExplicitUpwind, ImplicitUpwind, MethodOfLines, MusclHeun,
-                               Characteristics>;
+                               Characteristics, MuskingumCunge>;
 
 inline constexpr std::size_t kSchemeCount = std::variant_size_v<AnyScheme>;
 
