@@ -12,8 +12,6 @@ namespace freshet::geometry {
 
 namespace {
 
-double two_thirds_power(double x) { return std::cbrt(x * x); }
-
 // Inverts a non-decreasing law with Q(0) = 0: bracket [0, hi] from `start`, then rtsafe.
 // No bracket (Q overflows before it reaches q, or q is infinite) or no convergence is a
 // NumericalError naming `element`.
@@ -57,20 +55,6 @@ RectangularFlux::RectangularFlux(double bottom_width_m, double manning_n, double
       coefficient_(std::sqrt(bed_slope) / manning_n),
       element_(std::make_shared<const std::string>(std::move(element))) {}
 
-double RectangularFlux::discharge_m3s(double a) const noexcept {
-  if (!(a > 0.0)) return 0.0;
-  const double p = b_ + 2.0 * a / b_;
-  return coefficient_ * a * two_thirds_power(a / p);
-}
-
-// c = Q ((5/3)/A - (2/3) (dP/dA) / P), dP/dA = 2 / b.
-double RectangularFlux::celerity_m_s(double a) const noexcept {
-  if (!(a > 0.0)) return 0.0;
-  const double p = b_ + 2.0 * a / b_;
-  const double q = coefficient_ * a * two_thirds_power(a / p);
-  return q * ((5.0 / 3.0) / a - (4.0 / 3.0) / (b_ * p));
-}
-
 double RectangularFlux::area_for_discharge_m2(double q) const {
   // Start from the wide-channel area b (q n / (b sqrt S))^(3/5), which conveys at most q.
   const double start = b_ * std::pow(q / (coefficient_ * b_), 0.6);
@@ -88,23 +72,6 @@ TrapezoidalFlux::TrapezoidalFlux(double bottom_width_m, double left_side_slope,
       coefficient_(std::sqrt(bed_slope) / manning_n),
       element_(std::make_shared<const std::string>(std::move(element))) {}
 
-double TrapezoidalFlux::discharge_m3s(double a) const noexcept {
-  if (!(a > 0.0)) return 0.0;
-  const double h = 2.0 * a / (b_ + std::sqrt(b_ * b_ + 2.0 * z_sum_ * a));
-  const double p = b_ + side_length_per_depth_ * h;
-  return coefficient_ * a * two_thirds_power(a / p);
-}
-
-// c = Q ((5/3)/A - (2/3) (dP/dh) / (P T)), T = b + (z1 + z2) h.
-double TrapezoidalFlux::celerity_m_s(double a) const noexcept {
-  if (!(a > 0.0)) return 0.0;
-  const double root = std::sqrt(b_ * b_ + 2.0 * z_sum_ * a);  // = T
-  const double h = 2.0 * a / (b_ + root);
-  const double p = b_ + side_length_per_depth_ * h;
-  const double q = coefficient_ * a * two_thirds_power(a / p);
-  return q * ((5.0 / 3.0) / a - (2.0 / 3.0) * side_length_per_depth_ / (p * root));
-}
-
 double TrapezoidalFlux::area_for_discharge_m2(double q) const {
   const double scale = b_ > 0.0 ? b_ : 1.0;
   const double start = scale * std::pow(q / (coefficient_ * scale), 0.6);
@@ -118,7 +85,7 @@ PowerLawFlux make_triangular_flux(double left_side_slope, double right_side_slop
   const double z_sum = left_side_slope + right_side_slope;
   const double s = std::hypot(1.0, left_side_slope) + std::hypot(1.0, right_side_slope);
   const double alpha = std::sqrt(bed_slope) / manning_n * std::cbrt(0.5 * z_sum) /
-                       two_thirds_power(s);
+                       std::cbrt(s * s);
   return PowerLawFlux(alpha, 4.0 / 3.0);
 }
 
