@@ -33,5 +33,8 @@ void add_compare_command(CLI::App& app, const GlobalOptions& global, Action& act
 void add_storm_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_verify_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_version_command(CLI::App& app, const GlobalOptions& global, Action& action);
+// What `freshet version`, `freshet --version` and `freshet -V` print: version, build, caution
+// (no trailing line break).
+std::string version_text();
 
 }  // namespace freshet::cli

@@ -6,8 +6,10 @@
 
 #include "batch.hpp"
 #include "commands.hpp"
+#include "freshet/io/comparison_writer.hpp"
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/study/study_report.hpp"
+#include "freshet/reporting/comparison.hpp"
 #include "freshet_version.hpp"
 
 namespace freshet::cli {
@@ -105,6 +107,12 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
                                     global.command_line, std::string("freshet ") + FRESHET_VERSION,
                                     options.overwrite};
   io::require_absent(report.path, report.overwrite);  // refused before anything is routed
+  // The difference table's files: a clash stops the command before anything is routed.
+  const io::ComparisonFiles files = io::comparison_files(options.out_dir);
+  const io::Overwrite overwrite = options.overwrite;
+  for (const auto& path : {files.csv, files.csv_metadata, files.json}) {
+    io::require_absent(path, overwrite);
+  }
   const std::vector<study::RunOutcome> runs = run_batch(study, requests, options);
   study::write_study_report(study, runs, report);
   std::cout << study.settings().title << "\nComparison of the base network";
@@ -113,16 +121,29 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
   for (std::size_t k = 1; k < scenarios.size(); ++k) {
     std::cout << "  " << scenarios[k] << ": " << study.scenario(scenarios[k]).description << "\n";
   }
+  std::vector<reporting::ComparisonRow> rows;
   for (std::size_t j = 0; j < storms.size(); ++j) {
     std::vector<const study::RunOutcome*> group;
-    for (std::size_t k = 0; k < scenarios.size(); ++k) group.push_back(&runs[j * scenarios.size() + k]);
+    std::vector<reporting::ScenarioPeaks> peaks;
+    for (std::size_t k = 0; k < scenarios.size(); ++k) {
+      group.push_back(&runs[j * scenarios.size() + k]);
+      peaks.push_back({group.back()->scenario_id, &group.back()->peaks});
+    }
     std::cout << "\nStorm " << storms[j] << " (t peak in h:min from the study start)\n"
               << comparison_table(group, study.stations(), a.all_points);
+    const auto storm_rows = reporting::compare_scenarios(storms[j], peaks);
+    rows.insert(rows.end(), storm_rows.begin(), storm_rows.end());
   }
+  io::write_comparison(files, rows,
+                       {study.settings().title, std::string("freshet ") + FRESHET_VERSION,
+                        study.settings().start_iso},
+                       overwrite);
   std::cout << warnings_by_run(runs);
   std::cout << "\nEach run's full results: " << options.out_dir.string()
             << "/<base or scenario>/<storm>.nc and <storm>_summary.*\n"
-            << "The study report (open it in a browser): " << report.path.string() << "\n\n"
+            << "The study report (open it in a browser): " << report.path.string() << "\n"
+            << "Difference table (every point, storm and scenario): " << files.csv.string()
+            << " and " << files.json.filename().string() << "\n\n"
             << wrapped_caution();
   return kExitOk;
 }

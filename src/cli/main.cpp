@@ -78,6 +78,8 @@ int run_main(int argc, char** argv) {
     global.command_line += " " + quoted + "'";
   }
   app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
+  app.set_version_flag("-V,--version", version_text,
+                       "Print version and build information and exit (as freshet version)");
   Action action;
   add_route_command(app, global, action);
   add_check_command(app, global, action);

@@ -6,15 +6,18 @@
 
 namespace freshet::cli {
 
+std::string version_text() {
+  return std::string("freshet ") + FRESHET_VERSION + "\nbuild: " + FRESHET_BUILD_TYPE + ", " +
+         FRESHET_COMPILER + ", C++20, CPU only\n\n" + std::string(kCautionText);
+}
+
 void add_version_command(CLI::App& app, const GlobalOptions& /*global*/, Action& action) {
-  auto* cmd = app.add_subcommand("version", "Print version and build information\n"
+  auto* cmd = app.add_subcommand("version", "Print version and build information (also\n"
+                                            "freshet --version or -V)\n"
                                             "Example: freshet version");
   cmd->callback([&action] {
     action = [] {
-      std::cout << "freshet " << FRESHET_VERSION << "\n"
-                << "build: " << FRESHET_BUILD_TYPE << ", " << FRESHET_COMPILER
-                << ", C++20, CPU only\n\n"
-                << kCautionText << "\n";
+      std::cout << version_text() << "\n";
       return kExitOk;
     };
   });

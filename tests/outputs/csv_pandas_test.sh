@@ -42,3 +42,27 @@ assert summary["format_version"] >= 2 and summary["time_origin"].endswith("Z"), 
 print(f"{len(paths)} CSV files load in pandas with no options; mill-lane peak "
       f"{expected['peak_discharge_m3s']:.3f} m3/s matches the JSON")
 PY
+
+# `freshet compare` writes its difference table as CSV (with sidecar) and JSON; every change
+# column is the scenario minus the base of the same storm and point.
+"$freshet" compare "$scratch/basins/tansy-brook.toml" --storm aep1-30min --out "$scratch/cmp" \
+  --quiet > "$scratch/compare.log"
+/usr/bin/python3 - "$scratch/cmp" <<'PY'
+import json, os, sys
+import pandas as pd
+folder = sys.argv[1]
+df = pd.read_csv(os.path.join(folder, "comparison.csv"))
+meta = json.load(open(os.path.join(folder, "comparison.csv-metadata.json")))
+assert list(df.columns) == [c["name"] for c in meta["tableSchema"]["columns"]]
+doc = json.load(open(os.path.join(folder, "comparison.json")))
+assert len(doc["rows"]) == len(df) and doc["caution"].startswith("CAUTION:")
+scenarios = set(df.scenario)
+assert "base" in scenarios and len(scenarios) >= 2, scenarios
+base = df[df.scenario == "base"].set_index("station_id")
+for _, row in df[df.scenario != "base"].iterrows():
+    b = base.loc[row.station_id]
+    assert abs(row.peak_discharge_change_m3s - (row.peak_discharge_m3s - b.peak_discharge_m3s)) <= 1e-12 * max(1.0, b.peak_discharge_m3s)
+mill = df[(df.station_id == "mill-lane")]
+assert mill.station_name.iloc[0] == "Mill Lane culvert #2, west"
+print(f"comparison.csv: {len(df)} rows, scenarios {sorted(scenarios)}")
+PY
