@@ -30,11 +30,13 @@ const RunReport* ReportPage::run(const std::string& scenario, const std::string&
   return it == runs_.end() ? nullptr : it->second;
 }
 
-std::size_t ReportPage::index_in(const RunReport& r, const std::string& id) {
-  for (std::size_t k = 0; k < r.peaks.size(); ++k) {
-    if (r.peaks[k].id == id) return k;
+std::size_t ReportPage::index_in(const RunReport& r, const std::string& id) const {
+  auto [it, added] = index_.try_emplace(&r);
+  if (added) {
+    for (std::size_t k = 0; k < r.peaks.size(); ++k) it->second.emplace(r.peaks[k].id, k);
   }
-  return static_cast<std::size_t>(-1);
+  const auto found = it->second.find(id);
+  return found == it->second.end() ? static_cast<std::size_t>(-1) : found->second;
 }
 
 std::string ReportPage::run_label(const ReportedRun& r) const {
@@ -248,7 +250,7 @@ std::string answer_table(const ReportPage& c) {
       if (c.multiple_scenarios()) s += "<td>" + escape_html(scenario_name(scenario)) + "</td>";
       for (std::size_t k = 0; k < in.storms.size(); ++k) {
         const RunReport* r = c.run(scenario, in.storms[k].first);
-        const std::size_t j = r ? ReportPage::index_in(*r, in.stations[i].id) : 0;
+        const std::size_t j = r ? c.index_in(*r, in.stations[i].id) : 0;
         if (!r || j >= r->peaks.size()) {
           s += "<td class=\"n\">-</td><td class=\"n\">-</td><td class=\"n\">-</td>";
           continue;
@@ -303,8 +305,8 @@ std::string change_table(const ReportPage& c) {
       for (const auto& [storm, d] : in.storms) {
         const RunReport* r = c.run(scenario, storm);
         const RunReport* b = c.run(in.scenarios[0].first, storm);
-        const std::size_t j = r ? ReportPage::index_in(*r, in.stations[i].id) : 0;
-        const std::size_t jb = b ? ReportPage::index_in(*b, in.stations[i].id) : 0;
+        const std::size_t j = r ? c.index_in(*r, in.stations[i].id) : 0;
+        const std::size_t jb = b ? c.index_in(*b, in.stations[i].id) : 0;
         if (!r || !b || j >= r->peaks.size() || jb >= b->peaks.size()) {
           s += "<td class=\"n\">-</td><td class=\"n\">-</td><td class=\"n\">-</td>";
           continue;
@@ -430,9 +432,10 @@ std::string checks_section(const ReportPage& c) {
     for (const ReportedRun& r : in.runs) {
       double e = NAN;
       if (r.report) {
-        for (const MassBalanceRecord& m : r.report->summary.mass_balance) {
-          if (m.element == st.id) e = m.relative_error;
-        }
+        // One record per element, in model order.
+        const std::size_t j = c.index_in(*r.report, st.id);
+        const auto& balance = r.report->summary.mass_balance;
+        if (j < balance.size() && balance[j].element == st.id) e = balance[j].relative_error;
       }
       s += "<td class=\"n\">" + sci(e) + "</td>";
     }

@@ -17,6 +17,7 @@ constexpr double kSecondsPerHour = 3600.0;
 constexpr double kMmPerHourPerMs = 3.6e6;  // m/s -> mm/h
 // Drawn at most: more hydrographs than this are left to the NetCDF files (the report says so).
 constexpr int kMaxHydrographFigures = 150;
+constexpr int kMaxHyetographFigures = 60;
 
 std::vector<double> hours(const std::vector<double>& times_s) {
   std::vector<double> h(times_s.size());
@@ -43,7 +44,7 @@ std::string station_title(const StationDescription& s) { return s.name + " (" + 
 std::vector<double> inflow_series(const ReportPage& c, const RunReport& r, std::size_t i) {
   std::vector<double> sum(r.series.times_s.size(), 0.0);
   for (std::size_t u : c.upstream(i)) {
-    const std::size_t j = ReportPage::index_in(r, c.stations()[u].id);
+    const std::size_t j = c.index_in(r, c.stations()[u].id);
     if (j >= r.series.stations.size()) continue;
     const std::vector<double>& q = r.series.stations[j].discharge_m3s;
     for (std::size_t k = 0; k < sum.size() && k < q.size(); ++k) sum[k] += q[k];
@@ -65,7 +66,7 @@ std::string storms_overlaid(ReportPage& c, std::size_t i, const std::string& sce
     const std::string& storm = c.in().storms[k].first;
     const RunReport* r = c.run(scenario, storm);
     if (!r || !r->series.kept()) continue;
-    const std::size_t j = ReportPage::index_in(*r, st.id);
+    const std::size_t j = c.index_in(*r, st.id);
     if (j >= r->series.stations.size()) continue;
     chart.series.push_back({storm, hours(r->series.times_s), r->series.stations[j].discharge_m3s,
                             static_cast<int>(k), false, series_key("discharge", st.id, scenario, storm)});
@@ -86,7 +87,7 @@ std::string pool_figure(ReportPage& c, std::size_t i, const std::string& scenari
   const std::string& storm = c.in().storms[storm_index].first;
   const RunReport* r = c.run(scenario, storm);
   if (!r || !r->series.kept()) return {};
-  const std::size_t j = ReportPage::index_in(*r, st.id);
+  const std::size_t j = c.index_in(*r, st.id);
   if (j >= r->series.stations.size()) return {};
   LineChart chart;
   chart.id = c.next_figure_id();
@@ -172,16 +173,21 @@ std::string hyetograph_section(ReportPage& c) {
                   "depression storage), as means over the interval (drawn over the interval they "
                   "belong to).</p>\n";
   bool any = false;
+  int drawn = 0, skipped = 0;
   for (std::size_t i = 0; i < c.stations().size(); ++i) {
     const StationDescription& st = c.stations()[i];
     if (!is_subcatchment(st.kind)) continue;
     std::string figures;
     for (std::size_t k = 0; k < c.in().storms.size(); ++k) {
+      if (drawn >= kMaxHyetographFigures) {
+        ++skipped;
+        continue;
+      }
       const std::string& storm = c.in().storms[k].first;
       const std::string& scenario = c.in().scenarios.front().first;
       const RunReport* r = c.run(scenario, storm);
       if (!r || !r->series.kept()) continue;
-      const std::size_t j = ReportPage::index_in(*r, st.id);
+      const std::size_t j = c.index_in(*r, st.id);
       if (j >= r->series.stations.size() || r->series.stations[j].rain_m_s.empty()) continue;
       const StationSeries& ss = r->series.stations[j];
       BarChart chart;
@@ -210,11 +216,16 @@ std::string hyetograph_section(ReportPage& c) {
                           "each output interval on " + station_title(st) + " for storm " + storm +
                           ", split into excess (solid) and losses (hatched): " + totals + ".";
       figures += figure(render_bar_chart(chart), escape_html(chart.title + ": " + totals + "."));
+      ++drawn;
     }
     if (!figures.empty()) {
       s += "<h3>" + escape_html(station_title(st)) + "</h3>\n" + figures;
       any = true;
     }
+  }
+  if (skipped > 0) {
+    s += "<p class=\"none\">" + std::to_string(skipped) + " further hyetograph figures are left "
+         "out to keep the report readable; the subcatchment NetCDF files hold every series.</p>\n";
   }
   if (!any) s += "<p class=\"none\">No subcatchment with kept series in these runs.</p>\n";
   return s + "</section>\n";
@@ -227,7 +238,7 @@ namespace {
 std::vector<std::size_t> main_path(const ReportPage& c, const RunReport& facts,
                                    std::size_t outlet) {
   const auto length_of = [&](std::size_t i) {
-    const std::size_t j = ReportPage::index_in(facts, c.stations()[i].id);
+    const std::size_t j = c.index_in(facts, c.stations()[i].id);
     if (j >= facts.elements.size() || !is_reach(facts.elements[j].kind)) return 0.0;
     return facts.elements[j].reach().length_m;
   };
@@ -271,7 +282,7 @@ PathGeometry path_geometry(const ReportPage& c, const RunReport& facts,
   PathGeometry g;
   for (std::size_t i : path) {
     g.start_m.push_back(g.total_m);
-    const std::size_t j = ReportPage::index_in(facts, c.stations()[i].id);
+    const std::size_t j = c.index_in(facts, c.stations()[i].id);
     std::optional<double> bed;
     if (j < facts.elements.size() && is_reach(facts.elements[j].kind)) {
       const network::ReachFacts& reach = facts.elements[j].reach();
@@ -292,7 +303,7 @@ void add_path_series(const ReportPage& c, const std::vector<std::size_t>& path,
   PlotSeries wse{label, {}, {}, style, false, "peak-water-surface|" + key};
   for (std::size_t p = 0; p < path.size(); ++p) {
     const StationDescription& st = c.stations()[path[p]];
-    const std::size_t j = ReportPage::index_in(r, st.id);
+    const std::size_t j = c.index_in(r, st.id);
     if (j >= r.elements.size()) continue;
     if (is_reach(r.elements[j].kind) && g.bed_outlet_m[p]) {
       const network::ReachFacts& reach = r.elements[j].reach();
@@ -358,7 +369,7 @@ std::string long_section_section(ReportPage& c) {
     }
     std::string route;
     for (std::size_t p = 0; p < path.size(); ++p) {
-      const std::size_t j = ReportPage::index_in(*facts, c.stations()[path[p]].id);
+      const std::size_t j = c.index_in(*facts, c.stations()[path[p]].id);
       route += (route.empty() ? "" : " → ") + c.stations()[path[p]].id;
       if (j >= facts->elements.size() || !is_pool(facts->elements[j].kind)) continue;
       MarkedPlace place{c.stations()[path[p]].id, g.start_m[p], 0.0, 0.0, {}};
@@ -386,7 +397,7 @@ namespace {
 // Attenuation of station i in one run: 100 (1 - peak outflow / peak total inflow), from the
 // output-time series; NaN where nothing flows in or the series were not kept.
 double attenuation_percent(const ReportPage& c, const RunReport& r, std::size_t i) {
-  const std::size_t j = ReportPage::index_in(r, c.stations()[i].id);
+  const std::size_t j = c.index_in(r, c.stations()[i].id);
   if (j >= r.series.stations.size() || c.upstream(i).empty()) return NAN;
   const std::vector<double> in = inflow_series(c, r, i);
   const double peak_in = in.empty() ? 0.0 : *std::max_element(in.begin(), in.end());

@@ -6,6 +6,7 @@
 #include <cstddef>
 #include <map>
 #include <string>
+#include <unordered_map>
 #include <vector>
 
 #include "freshet/reporting/html_report.hpp"
@@ -22,8 +23,9 @@ class ReportPage {
   [[nodiscard]] const std::vector<StationDescription>& stations() const { return in_.stations; }
   // The run of (scenario, storm), or nullptr.
   [[nodiscard]] const RunReport* run(const std::string& scenario, const std::string& storm) const;
-  // Station `id`'s index in `r`'s records (its peaks, series, elements), or npos.
-  [[nodiscard]] static std::size_t index_in(const RunReport& r, const std::string& id);
+  // Station `id`'s index in `r`'s records (its peaks, series, elements), or npos. Each
+  // run's index is built once (the pages of large networks look up every station).
+  [[nodiscard]] std::size_t index_in(const RunReport& r, const std::string& id) const;
   // Elements whose `to` is station i (its feeders, subcatchments along a reach included).
   [[nodiscard]] const std::vector<std::size_t>& upstream(std::size_t i) const { return up_[i]; }
   // "base" or the scenario id; "storm s, scenario c" for captions.
@@ -49,6 +51,7 @@ class ReportPage {
   const HtmlReportInput& in_;
   std::map<std::pair<std::string, std::string>, const RunReport*> runs_;
   std::vector<std::vector<std::size_t>> up_;
+  mutable std::map<const RunReport*, std::unordered_map<std::string, std::size_t>> index_;
   int figures_ = 0;
 };
 
