@@ -1,5 +1,6 @@
 #include "freshet/hydrology/overland_plane.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include "freshet/core/converged_root.hpp"
@@ -85,24 +86,36 @@ OverlandPlane::OverlandPlane(OverlandPlaneSpec spec, routing::RoutingOptions opt
   problems.throw_if_any();
   reach_ = std::make_unique<routing::KinematicReach<geometry::PowerLawFlux>>(
       reach_spec(spec_), spec_.flux(), std::move(options));
+  watch_ = routing::BreakingWatch(geometry::SectionFlux{spec_.flux()}, spec_.length_m);
 }
 
 routing::AdvanceResult OverlandPlane::advance(double t0_s, double t1_s, double excess_m_s,
-                                              double inflow_m2s) {
+                                              double inflow_m2s, double inflow_end_m2s) {
   ProblemList problems(plane_label(spec_));
   problems.require_non_negative("excess_m_s", excess_m_s);
   problems.require_non_negative("inflow_m2s", inflow_m2s);
   problems.throw_if_any();
   const auto inflow = PiecewiseLinearSeries::constant(inflow_m2s);
-  if (excess_m_s <= 0.0) return reach_->advance(t0_s, t1_s, inflow, routing::LateralInflow::none());
-  const auto lateral = routing::LateralInflow::uniform(
-      spec_.length_m, PiecewiseLinearSeries::constant(excess_m_s));  // m/s x 1 m = m2/s
-  return reach_->advance(t0_s, t1_s, inflow, lateral);
+  const routing::AdvanceResult r =
+      excess_m_s <= 0.0
+          ? reach_->advance(t0_s, t1_s, inflow, routing::LateralInflow::none())
+          : reach_->advance(t0_s, t1_s, inflow,
+                            routing::LateralInflow::uniform(
+                                spec_.length_m,
+                                PiecewiseLinearSeries::constant(excess_m_s)));  // m/s x 1 m = m2/s
+  const double end_m2s = std::isnan(inflow_end_m2s) ? inflow_m2s : inflow_end_m2s;
+  watch_.advance(t0_s, t1_s, inflow_end_m2s_, end_m2s, excess_m_s);
+  inflow_end_m2s_ = end_m2s;
+  peak_outflow_m2s_ = std::max(peak_outflow_m2s_, outflow_m2s());
+  return r;
 }
 
 void OverlandPlane::reset() {
   std::vector<double> dry(static_cast<std::size_t>(spec_.cell_count), 0.0);
   reach_->set_initial_areas(dry);
+  watch_.reset();
+  inflow_end_m2s_ = 0.0;
+  peak_outflow_m2s_ = 0.0;
 }
 
 // The flux through the outlet face, not Q of the last cell's average: with the
@@ -144,9 +157,10 @@ double PlaneCascade::advance(double t0_s, double t1_s, double excess_m_s) {
 }
 
 double PlaneCascade::advance_once(double t0_s, double t1_s, double excess_m_s) {
-  double inflow_m2s = 0.0;
+  double inflow_m2s = 0.0, inflow_end_m2s = 0.0;
   for (auto& plane : planes_) {
-    inflow_m2s = plane.advance(t0_s, t1_s, excess_m_s, inflow_m2s).mean_outflow_m3s;
+    inflow_m2s = plane.advance(t0_s, t1_s, excess_m_s, inflow_m2s, inflow_end_m2s).mean_outflow_m3s;
+    inflow_end_m2s = plane.outflow_m2s();
   }
   return inflow_m2s;
 }

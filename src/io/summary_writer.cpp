@@ -14,6 +14,8 @@
 namespace freshet::io {
 
 using reporting::ApplicabilityWarning;
+using reporting::BreakingRecord;
+using reporting::ShockPathPoint;
 using reporting::kNotApplicable;
 using reporting::MassBalanceRecord;
 using reporting::PairSummary;
@@ -92,6 +94,12 @@ std::string wrapped(std::string_view text, std::size_t width) {
   return out + line + "\n";
 }
 
+// "reach" or "subcatchment, plane P".
+template <class Record>
+std::string element_name(const Record& r) {
+  return r.plane.empty() ? r.element : r.element + ", plane " + r.plane;
+}
+
 std::string check_lines(const RunSummary& s) {
   std::string out;
   if (!s.mass_balance.empty()) {
@@ -107,10 +115,12 @@ std::string check_lines(const RunSummary& s) {
     }
     out += "\nMass balance\n" + aligned(rows, 1);
   }
+  if (!s.breaking.empty()) out += "\nBreaking (from the characteristics of each inflow)\n";
+  for (const auto& r : s.breaking) out += "  " + element_name(r) + ": " + r.message + "\n";
   if (!s.shocks.empty()) out += "\nShocks\n";
   for (const auto& r : s.shocks) {
-    out += "  " + r.element + " at t = " + fixed(r.time_s / 3600.0, 3) + " h, chainage " +
-           fixed(r.chainage_m, 1) + " m: " + r.message + "\n";
+    out += "  " + element_name(r) + " formed at t = " + fixed(r.time_s / 3600.0, 3) +
+           " h, chainage " + fixed(r.chainage_m, 1) + " m: " + r.message + "\n";
   }
   if (!s.warnings.empty()) out += "\nApplicability warnings\n" + format_warning_lines(s);
   return out;
@@ -168,7 +178,8 @@ CsvDescription pairs_description(const RunSummary& s) {
 CsvDescription checks_description(const RunSummary& s) {
   return summary_description(
       s, "run checks",
-      {{"kind", "", "shock, mass_balance, wave_numbers or applicability", "string"},
+      {{"kind", "",
+        "breaking, shock, shock_path, mass_balance, wave_numbers or applicability", "string"},
        {"element", "", "element id", "string"},
        {"time_s", "s", "time of the finding"},
        {"chainage_m", "m", "distance from the element's upstream end"},
@@ -177,7 +188,19 @@ CsvDescription checks_description(const RunSummary& s) {
        {"storage_change_m3", "m3", "storage at the end minus storage at the start"},
        {"error_m3", "m3", "volume balance error"},
        {"relative_error", "1", "error over the larger of the volumes that passed"},
-       {"message", "", "the finding in words", "string"}});
+       {"message", "", "the finding in words", "string"},
+       {"plane", "", "overland plane of a subcatchment; empty for a reach", "string"},
+       {"breaks", "", "breaking rows: true when the wave breaks inside the element during the run",
+        "string"},
+       {"length_m", "m", "length of the reach or plane"},
+       {"speed_m_s", "m s-1", "shock rows: least-squares speed of the shock's path"},
+       {"rankine_hugoniot_m_s", "m s-1", "mean (Q_L - Q_R)/(A_L - A_R) along the path"},
+       {"discharge_jump_m3s", "m3 s-1",
+        "largest Q_L - Q_R along the path (m2 s-1 per metre of width on a plane)"},
+       {"depth_jump_m", "m", "depth jump at the largest discharge jump"},
+       {"fate", "", "outlet, merged, decayed, faded or merged, or in reach", "string"},
+       {"end_time_s", "s", "when the shock reached the outlet or ended"},
+       {"found_by", "", "fronts (characteristics scheme) or grid detector", "string"}});
 }
 
 std::string stations_csv(const RunSummary& s) {
@@ -203,27 +226,77 @@ std::string pairs_csv(const RunSummary& s) {
   return out;
 }
 
+// The columns after `message` (breaking, shock and shock_path rows), in order.
+struct WaveColumns {
+  std::string plane;
+  std::string breaks;  // "true", "false" or empty
+  double length_m = kNotApplicable;
+  double speed_m_s = kNotApplicable;
+  double rankine_hugoniot_m_s = kNotApplicable;
+  double discharge_jump_m3s = kNotApplicable;
+  double depth_jump_m = kNotApplicable;
+  std::string fate;
+  double end_time_s = kNotApplicable;
+  std::string found_by;
+};
+constexpr const char* kWaveColumnNames =
+    ",plane,breaks,length_m,speed_m_s,rankine_hugoniot_m_s,discharge_jump_m3s,depth_jump_m,"
+    "fate,end_time_s,found_by";
+std::string csv_wave_columns(const WaveColumns& w) {
+  return "," + csv_text(w.plane) + "," + w.breaks + "," + csv_number(w.length_m) + "," +
+         csv_number(w.speed_m_s) + "," + csv_number(w.rankine_hugoniot_m_s) + "," +
+         csv_number(w.discharge_jump_m3s) + "," + csv_number(w.depth_jump_m) + "," +
+         csv_text(w.fate) + "," + csv_number(w.end_time_s) + "," + csv_text(w.found_by);
+}
+const std::string kNoWaveColumns = csv_wave_columns({});
+
 std::string checks_csv(const RunSummary& s) {
-  std::string out = "kind,element,time_s,chainage_m,inflow_volume_m3,outflow_volume_m3,"
-                    "storage_change_m3,error_m3,relative_error,message\n";
+  std::string out = std::string("kind,element,time_s,chainage_m,inflow_volume_m3,outflow_volume_m3,"
+                                "storage_change_m3,error_m3,relative_error,message") +
+                    kWaveColumnNames + "\n";
+  for (const auto& r : s.breaking) {
+    WaveColumns w;
+    w.plane = r.plane;
+    w.breaks = r.breaks ? "true" : "false";
+    w.length_m = r.length_m;
+    out += "breaking," + csv_text(r.element) + "," + csv_number(r.time_s) + "," +
+           csv_number(r.chainage_m) + ",,,,,," + csv_text(r.message) + csv_wave_columns(w) +
+           "\n";
+  }
   for (const auto& r : s.shocks) {
+    const WaveColumns w{r.plane,           "",          kNotApplicable,
+                        r.speed_m_s,       r.rankine_hugoniot_m_s, r.discharge_jump_m3s,
+                        r.depth_jump_m,    r.fate,      r.end_time_s,
+                        r.found_by};
     out += "shock," + csv_text(r.element) + "," + csv_number(r.time_s) + "," +
-           csv_number(r.chainage_m) + ",,,,,," + csv_text(r.message) + "\n";
+           csv_number(r.chainage_m) + ",,,,,," + csv_text(r.message) + csv_wave_columns(w) +
+           "\n";
+    for (const auto& p : r.path) {
+      WaveColumns pw;
+      pw.plane = r.plane;
+      pw.rankine_hugoniot_m_s = p.rankine_hugoniot_m_s;
+      pw.discharge_jump_m3s = p.discharge_jump_m3s;
+      pw.found_by = r.found_by;
+      out += "shock_path," + csv_text(r.element) + "," + csv_number(p.time_s) + "," +
+             csv_number(p.chainage_m) + ",,,,,," + csv_wave_columns(pw) + "\n";
+    }
   }
   for (const auto& r : s.mass_balance) {
     out += "mass_balance," + csv_text(r.element) + ",,," + csv_number(r.inflow_volume_m3) + "," +
            csv_number(r.outflow_volume_m3) + "," + csv_number(r.storage_change_m3) + "," +
-           csv_number(r.error_m3) + "," + csv_number(r.relative_error) + ",\n";
+           csv_number(r.error_m3) + "," + csv_number(r.relative_error) + "," + kNoWaveColumns +
+           "\n";
   }
   for (const auto& r : s.wave_numbers) {
     out += "wave_numbers," + csv_text(r.element) + ",,,,,,,," +
            csv_text("time_of_rise_s=" + csv_number(r.time_of_rise_s) +
                     "; kinematic_number=" + csv_number(r.kinematic_number) +
                     "; diffusion_number=" + csv_number(r.diffusion_number)) +
-           "\n";
+           kNoWaveColumns + "\n";
   }
   for (const auto& r : s.warnings) {
-    out += "applicability," + csv_text(r.element) + ",,,,,,,," + csv_text(r.message) + "\n";
+    out += "applicability," + csv_text(r.element) + ",,,,,,,," + csv_text(r.message) +
+           kNoWaveColumns + "\n";
   }
   return out;
 }
@@ -252,10 +325,38 @@ nlohmann::json to_json(const PairSummary& r) {
           {"volume_change_m3", number(r.volume_change_m3)}};
 }
 
-nlohmann::json to_json(const ShockRecord& r) {
+nlohmann::json to_json(const BreakingRecord& r) {
   return {{"element", r.element},
+          {"plane", r.plane},
+          {"breaks", r.breaks},
           {"time_s", number(r.time_s)},
           {"chainage_m", number(r.chainage_m)},
+          {"length_m", number(r.length_m)},
+          {"message", r.message}};
+}
+
+nlohmann::json to_json(const ShockPathPoint& p) {
+  return {{"time_s", number(p.time_s)},
+          {"chainage_m", number(p.chainage_m)},
+          {"rankine_hugoniot_m_s", number(p.rankine_hugoniot_m_s)},
+          {"discharge_jump_m3s", number(p.discharge_jump_m3s)}};
+}
+
+nlohmann::json to_json(const ShockRecord& r) {
+  nlohmann::json path = nlohmann::json::array();
+  for (const auto& p : r.path) path.push_back(to_json(p));
+  return {{"element", r.element},
+          {"plane", r.plane},
+          {"time_s", number(r.time_s)},
+          {"chainage_m", number(r.chainage_m)},
+          {"speed_m_s", number(r.speed_m_s)},
+          {"rankine_hugoniot_m_s", number(r.rankine_hugoniot_m_s)},
+          {"discharge_jump_m3s", number(r.discharge_jump_m3s)},
+          {"depth_jump_m", number(r.depth_jump_m)},
+          {"fate", r.fate},
+          {"end_time_s", number(r.end_time_s)},
+          {"found_by", r.found_by},
+          {"path", std::move(path)},
           {"message", r.message}};
 }
 
@@ -343,6 +444,7 @@ std::string format_summary_json(const RunSummary& summary) {
                 {"volume", "m3"},        {"chainage", "m"},   {"percent", "%"}};
   j["stations"] = array_of(summary.stations);
   j["pairs"] = array_of(summary.pairs);
+  j["breaking"] = array_of(summary.breaking);
   j["shocks"] = array_of(summary.shocks);
   j["mass_balance"] = array_of(summary.mass_balance);
   j["wave_numbers"] = array_of(summary.wave_numbers);

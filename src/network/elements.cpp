@@ -7,6 +7,41 @@
 
 namespace freshet::network {
 
+// The breaking prediction and the significant shocks of one kinematic-wave element: each
+// shock's largest discharge jump along its path (a kinematic shock is born with no jump and
+// grows as characteristics run into it: its largest jump is what the flood sees) against
+// kSignificantShockFraction of the element's peak outflow.
+template <class DepthOf>
+WaveFacts make_wave_facts(const routing::ReachModel& reach, const geometry::SectionFlux& flux,
+                          DepthOf depth_of, double peak_outflow, const routing::PredictedBreaking& breaking) {
+  WaveFacts w;
+  w.length_m = reach.spec().length_m;
+  w.cell_count = reach.spec().cell_count;
+  w.cell_width_m = reach.cell_width_m();
+  w.scheme = std::string(routing::to_string(reach.options().scheme));
+  w.grid_free = reach.options().scheme == routing::SchemeKind::kCharacteristics;
+  w.front_cells = routing::resolved_shock_options(reach.options()).front_cells;
+  w.breaking = breaking;
+  for (const routing::ShockReport& shock : reach.shock_reports()) {
+    if (!shock.formed || shock.path.empty()) continue;
+    ShockFacts f{shock, 0.0, 0.0, shock.formation_time_s, {}};
+    for (const routing::ShockSample& at : shock.path) {
+      const double jump = geometry::discharge_m3s(flux, at.area_left_m2) -
+                          geometry::discharge_m3s(flux, at.area_right_m2);
+      f.path_discharge_jump_m3s.push_back(jump);
+      if (jump > f.discharge_jump_m3s) {
+        f.discharge_jump_m3s = jump;
+        f.depth_jump_m = depth_of(at.area_left_m2) - depth_of(at.area_right_m2);
+        f.jump_time_s = at.time_s;
+      }
+    }
+    if (f.discharge_jump_m3s > 0.0 && f.discharge_jump_m3s >= kSignificantShockFraction * peak_outflow) {
+      w.significant_shocks.push_back(std::move(f));
+    }
+  }
+  return w;
+}
+
 // ---- ReachElement ------------------------------------------------------------------------
 
 ReachElement::ReachElement(std::string id,
@@ -16,15 +51,19 @@ ReachElement::ReachElement(std::string id,
     : Element(std::move(id), ElementKind::reach),
       section_(std::move(section)),
       reach_(std::move(reach)),
-      outlet_invert_m_(outlet_invert_m) {
+      outlet_invert_m_(outlet_invert_m),
+      watch_(section_.flux, reach_->spec().length_m) {
   if (const auto crown = section_.section->full_depth_m()) {
     full_area_m2_ = section_.section->area_m2(*crown);
     full_volume_m3_ = full_area_m2_ * reach_->spec().length_m;
   }
 }
 
-void ReachElement::reset(double /*start_s*/) {
+void ReachElement::reset(double start_s) {
   reach_->set_uniform_discharge(0.0);  // dry; restarts the reach's clock and ledger
+  start_s_ = start_s;
+  inflow_end_m3s_ = 0.0;
+  watch_.start(start_s, 0.0, 0.0);
   capacity_steps_ = 0;
   peak_outflow_m3s_ = 0.0;
   peak_above_full_m3_ = 0.0;
@@ -32,7 +71,10 @@ void ReachElement::reset(double /*start_s*/) {
 }
 
 void ReachElement::prime(double inflow_m3s) {
-  if (inflow_m3s > 0.0) reach_->set_uniform_discharge(inflow_m3s);
+  if (!(inflow_m3s > 0.0)) return;
+  reach_->set_uniform_discharge(inflow_m3s);
+  inflow_end_m3s_ = inflow_m3s;
+  watch_.start(start_s_, inflow_m3s, reach_->cell_area_m2().front());
 }
 
 StepOutflow ReachElement::advance(const StepInflow& in) {
@@ -53,6 +95,11 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
     throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) +
                          " s: " + r.message);
   }
+  // The breaking prediction reads the inflow linear between the upstream rates at step ends
+  // (a staircase of step means would break at every step) and the mean lateral inflow.
+  watch_.advance(in.t0_s, in.t1_s, inflow_end_m3s_, in.inflow_end_m3s,
+                 in.lateral_mean_m3s / length_m);
+  inflow_end_m3s_ = in.inflow_end_m3s;
   const int last = reach_->spec().cell_count - 1;
   const auto areas = reach_->cell_area_m2();
   if (section_.at_capacity(*std::max_element(areas.begin(), areas.end()))) ++capacity_steps_;
@@ -83,22 +130,10 @@ StationSample ReachElement::sample() const {
 
 VolumeLedger ReachElement::ledger() const { return reach_->ledger(); }
 
-std::vector<const routing::ShockReport*> ReachElement::significant_shocks() const {
-  std::vector<const routing::ShockReport*> out;
-  for (const routing::ShockReport& shock : reach_->shock_reports()) {
-    if (!shock.formed || shock.path.empty()) continue;
-    // A kinematic shock is born with no jump and grows as characteristics run into it: its
-    // largest jump along its path is what the flood sees.
-    double jump_m3s = 0.0;
-    for (const routing::ShockSample& at : shock.path) {
-      jump_m3s = std::max(jump_m3s, geometry::discharge_m3s(section_.flux, at.area_left_m2) -
-                                        geometry::discharge_m3s(section_.flux, at.area_right_m2));
-    }
-    if (jump_m3s > 0.0 && jump_m3s >= kSignificantShockFraction * peak_outflow_m3s_) {
-      out.push_back(&shock);
-    }
-  }
-  return out;
+WaveFacts ReachElement::wave_facts() const {
+  return make_wave_facts(
+      *reach_, section_.flux, [this](double a) { return section_.depth_m(a); },
+      peak_outflow_m3s_, watch_.result());
 }
 
 ElementReport ReachElement::report() const {
@@ -108,9 +143,7 @@ ElementReport ReachElement::report() const {
   f.outlet_invert_m = outlet_invert_m_;
   f.cell_count = reach_->spec().cell_count;
   f.cell_width_m = reach_->cell_width_m();
-  for (const routing::ShockReport* shock : significant_shocks()) {
-    f.significant_shocks.push_back(*shock);
-  }
+  f.wave = wave_facts();
   f.capacity_steps = capacity_steps_;
   f.full_volume_m3 = full_volume_m3_;
   f.peak_volume_above_full_m3 = peak_above_full_m3_;
@@ -165,7 +198,16 @@ VolumeLedger SubcatchmentElement::ledger() const {
 }
 
 ElementReport SubcatchmentElement::report() const {
-  return {kind(), SubcatchmentFacts{model_->spec().area_m2}};
+  SubcatchmentFacts f;
+  f.area_m2 = model_->spec().area_m2;
+  for (const hydrology::OverlandPlane& plane : model_->cascade().planes()) {
+    // Unit width: the area is the depth.
+    f.planes.push_back({plane.spec().name,
+                        make_wave_facts(plane.reach(), geometry::SectionFlux{plane.spec().flux()},
+                                        [](double a) { return a; }, plane.peak_outflow_m2s(),
+                                        plane.breaking())});
+  }
+  return {kind(), std::move(f)};
 }
 
 // ---- PoolElement -------------------------------------------------------------------------

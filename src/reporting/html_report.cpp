@@ -354,21 +354,31 @@ std::string run_heading(const ReportPage& c, const ReportedRun& r) {
 }
 
 std::string findings_section(const ReportPage& c) {
-  std::string s = "<section id=\"findings\">\n<h2>Shocks and element findings</h2>\n<p>Kinematic "
-                  "shocks (steep fronts) that matter to the flood, and what each element "
-                  "reported (culvert headwater and road overtopping, detention peaks, conduits "
-                  "at capacity).</p>\n";
+  std::string s = "<section id=\"findings\">\n<h2>Shocks and element findings</h2>\n<p>Where "
+                  "each reach's and overland plane's wave breaks (from the characteristics of "
+                  "its inflow), the kinematic shocks (steep fronts) that matter to the flood, "
+                  "and what each element reported (culvert headwater and road overtopping, "
+                  "detention peaks, conduits at capacity).</p>\n";
   for (const ReportedRun& r : c.in().runs) {
     if (!r.report) continue;
     s += run_heading(c, r);
     const RunSummary& sum = r.report->summary;
+    if (!sum.breaking.empty()) {
+      s += "<ul>\n";
+      for (const BreakingRecord& b : sum.breaking) {
+        const std::string who = b.plane.empty() ? b.element : b.element + ", plane " + b.plane;
+        s += "<li><b>" + escape_html(who) + "</b>: " + escape_html(b.message) + "</li>\n";
+      }
+      s += "</ul>\n";
+    }
     if (sum.shocks.empty()) {
       s += "<p class=\"none\">No significant shock.</p>\n";
     } else {
       s += "<table><thead><tr><th>reach</th><th>formed at (h:mm)</th><th>chainage (m)</th>"
            "<th>finding</th></tr></thead><tbody>\n";
       for (const ShockRecord& k : sum.shocks) {
-        s += "<tr><td>" + escape_html(k.element) + "</td><td class=\"n\">" + clock_hm(k.time_s) +
+        const std::string who = k.plane.empty() ? k.element : k.element + ", plane " + k.plane;
+        s += "<tr><td>" + escape_html(who) + "</td><td class=\"n\">" + clock_hm(k.time_s) +
              "</td><td class=\"n\">" + fixed(k.chainage_m, 0) + "</td><td>" +
              escape_html(k.message) + "</td></tr>\n";
       }

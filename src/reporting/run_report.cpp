@@ -48,29 +48,162 @@ void add_balances(const network::RunSummary& numerics, RunSummary& summary) {
   }
 }
 
-std::string shock_fate(const routing::ShockReport& s) {
-  if (s.reached_outlet) {
-    return "reached the outlet at t = " + format_fixed(s.outlet_arrival_time_s / 60.0, 1) + " min";
-  }
-  if (s.ended) {
-    return "faded or merged in the reach after t = " + format_fixed(s.end_time_s / 60.0, 1) +
-           " min";
-  }
-  return "did not reach the outlet";
+std::string minutes(double t_s) { return format_fixed(t_s / 60.0, 1) + " min"; }
+
+std::string shock_fate(const routing::ShockReport& s, bool grid_free) {
+  if (s.reached_outlet) return "reached the outlet at t = " + minutes(s.outlet_arrival_time_s);
+  if (s.ended && s.merged) return "merged into a later shock at t = " + minutes(s.end_time_s);
+  if (s.ended && grid_free) return "decayed in the reach at t = " + minutes(s.end_time_s);
+  if (s.ended) return "faded or merged in the reach after t = " + minutes(s.end_time_s);
+  return "still in the reach at the end of the run";
 }
 
-void add_shocks(const network::Model& model, const std::vector<network::ElementReport>& reports,
-                RunSummary& summary) {
+std::string fate_key(const routing::ShockReport& s, bool grid_free) {
+  if (s.reached_outlet) return "outlet";
+  if (s.ended && s.merged) return "merged";
+  if (s.ended) return grid_free ? "decayed" : "faded or merged";
+  return "in reach";
+}
+
+// The kinematic-wave elements of the run: every reach, and every overland plane of every
+// subcatchment, with the id and plane name the reports give them.
+struct WaveElement {
+  std::size_t index = 0;
+  std::string plane;  // empty for a reach
+  const network::WaveFacts* wave = nullptr;
+};
+std::vector<WaveElement> wave_elements(const std::vector<network::ElementReport>& reports) {
+  std::vector<WaveElement> out;
   for (std::size_t i = 0; i < reports.size(); ++i) {
-    if (!is_reach(reports[i].kind)) continue;
-    for (const routing::ShockReport& s : reports[i].reach().significant_shocks) {
+    switch (reported_as(reports[i].kind)) {
+      case ReportedAs::reach:
+        out.push_back({i, "", &reports[i].reach().wave});
+        break;
+      case ReportedAs::subcatchment:
+        for (const network::PlaneFacts& p : reports[i].subcatchment().planes) {
+          out.push_back({i, p.name, &p.wave});
+        }
+        break;
+      case ReportedAs::pool:
+      case ReportedAs::passage:
+        break;
+    }
+  }
+  return out;
+}
+
+std::string where(const WaveElement& e) { return e.plane.empty() ? "reach" : "plane"; }
+
+std::string breaking_message(const WaveElement& e) {
+  const routing::PredictedBreaking& b = e.wave->breaking;
+  const std::string length = format_fixed(e.wave->length_m, 0) + " m";
+  if (!b.breaks) {
+    return "the wave does not break within the " + where(e) + " (" + length +
+           ") during the run: the characteristics of its inflow" +
+           (e.plane.empty() ? " and lateral inflow" : " and rainfall excess") +
+           " do not cross before the outlet by t = " + minutes(b.watched_to_s);
+  }
+  std::string text = "the wave breaks at t = " + minutes(b.time_s) + ", " +
+                     format_fixed(b.chainage_m, 0) + " m below the upstream end (of " + length +
+                     "), where the characteristics of its inflow first cross";
+  if (b.onto_dry_bed || b.from_zero_inflow) {
+    text += std::string(b.onto_dry_bed ? ": the wave runs onto a dry bed" : ": the inflow rises from zero") +
+            ", so its leading edge is a shock from the start (with no jump at first; it grows "
+            "as it absorbs the rise)";
+  } else {
+    text += " (launched at t = " + minutes(b.launch_time_s) + ", " +
+            format_fixed(b.discharge_behind_m3s, 3) + (e.plane.empty() ? " m3/s" : " m2/s") + ")";
+  }
+  if (e.wave->grid_free && e.wave->significant_shocks.empty()) {
+    text += "; the shock it forms stays below " +
+            format_fixed(100.0 * network::kSignificantShockFraction, 0) +
+            " % of the peak outflow";
+  }
+  return text;
+}
+
+void add_breaking(const network::Model& model, const std::vector<WaveElement>& waves,
+                  RunSummary& summary) {
+  for (const WaveElement& e : waves) {
+    const routing::PredictedBreaking& b = e.wave->breaking;
+    if (!b.watched) continue;
+    summary.breaking.push_back({model.links[e.index].id, e.plane, b.breaks,
+                                b.breaks ? b.time_s : kNotApplicable,
+                                b.breaks ? b.chainage_m : kNotApplicable, e.wave->length_m,
+                                breaking_message(e)});
+  }
+}
+
+void add_shocks(const network::Model& model, const std::vector<WaveElement>& waves,
+                RunSummary& summary) {
+  for (const WaveElement& e : waves) {
+    const bool grid_free = e.wave->grid_free;
+    const std::string unit = e.plane.empty() ? " m3/s" : " m2/s";
+    for (const network::ShockFacts& f : e.wave->significant_shocks) {
+      const routing::ShockReport& s = f.shock;
       ShockRecord r;
-      r.element = model.links[i].id;
+      r.element = model.links[e.index].id;
+      r.plane = e.plane;
       r.time_s = s.formation_time_s;
       r.chainage_m = s.formation_position_m;
-      r.message = "mean speed " + format_fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
-                  format_fixed(s.rankine_hugoniot_m_s, 2) + " m/s); " + shock_fate(s);
-      summary.shocks.push_back(r);
+      r.speed_m_s = s.speed_m_s;
+      r.rankine_hugoniot_m_s = s.rankine_hugoniot_m_s;
+      r.discharge_jump_m3s = f.discharge_jump_m3s;
+      r.depth_jump_m = f.depth_jump_m;
+      r.fate = fate_key(s, grid_free);
+      r.end_time_s = s.reached_outlet ? s.outlet_arrival_time_s : s.end_time_s;
+      r.found_by = grid_free ? "fronts" : "grid detector";
+      for (std::size_t k = 0; k < s.path.size(); ++k) {
+        const routing::ShockSample& p = s.path[k];
+        r.path.push_back({p.time_s, p.position_m, p.rankine_hugoniot_m_s,
+                          f.path_discharge_jump_m3s[k]});
+      }
+      r.message = "path speed " + format_fixed(s.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
+                  format_fixed(s.rankine_hugoniot_m_s, 2) + " m/s); largest jump " +
+                  format_fixed(f.discharge_jump_m3s, 2) + unit + " and " +
+                  format_fixed(f.depth_jump_m, 2) + " m of depth at t = " +
+                  minutes(f.jump_time_s) + "; " + shock_fate(s, grid_free) +
+                  (grid_free ? " (from the fronts)" : " (from the grid detector)");
+      summary.shocks.push_back(std::move(r));
+    }
+  }
+}
+
+// Where a grid cannot show a shock that the characteristics predict, or shows one they do
+// not, the report says so instead of staying silent.
+void add_resolution_warnings(const network::Model& model, const std::vector<WaveElement>& waves,
+                             double coupling_step_s, RunSummary& summary) {
+  for (const WaveElement& e : waves) {
+    const network::WaveFacts& w = *e.wave;
+    if (w.grid_free || !w.breaking.watched) continue;
+    const std::string& id = model.links[e.index].id;
+    const std::string what = e.plane.empty() ? "" : "plane " + e.plane + ": ";
+    const std::string grid = std::to_string(w.cell_count) + " cells of " +
+                             format_fixed(w.cell_width_m, 1) + " m, coupling step " +
+                             format_fixed(coupling_step_s, 0) + " s";
+    const routing::PredictedBreaking& b = w.breaking;
+    if (b.breaks && w.length_m - b.chainage_m < w.front_cells * w.cell_width_m) {
+      summary.warnings.push_back(
+          {id, what + "the wave breaks " + format_fixed(w.length_m - b.chainage_m, 0) +
+                   " m above the outlet, within the " + std::to_string(w.front_cells) +
+                   " cells over which the " + w.scheme + " scheme smears a front (" + grid +
+                   "): this grid cannot resolve the shock before it leaves; use shorter cells "
+                   "or the characteristics scheme"});
+    } else if (b.breaks && w.significant_shocks.empty() && !b.onto_dry_bed && !b.from_zero_inflow) {
+      summary.warnings.push_back(
+          {id, what + "the characteristics of the inflow cross at t = " + minutes(b.time_s) +
+                   ", " + format_fixed(b.chainage_m, 0) +
+                   " m below the upstream end, so a kinematic shock forms there, but this "
+                   "grid (" + grid + ") showed no front of " +
+                   format_fixed(100.0 * network::kSignificantShockFraction, 0) +
+                   " % of the peak outflow or more: the shock stays small, or the grid cannot "
+                   "resolve it; the characteristics scheme shows it from its fronts"});
+    } else if (!b.breaks && !w.significant_shocks.empty()) {
+      summary.warnings.push_back(
+          {id, what + "the grid detector reported a shock, but the characteristics of the "
+                      "inflow do not cross within the " + where(e) +
+                      " during the run: it is more likely a steep front of the grid (" + grid +
+                      ") than a shock"});
     }
   }
 }
@@ -233,11 +366,10 @@ std::vector<std::pair<std::string, routing::RunDiagnostics>> reach_numerics(
   return out;
 }
 
-std::string shock_note(const routing::ShockReport& shock) {
-  return "kinematic shock formed at t = " + format_fixed(shock.formation_time_s / 60.0, 1) +
-         " min, " + format_fixed(shock.formation_position_m, 0) + " m downstream, mean speed " +
-         format_fixed(shock.speed_m_s, 2) + " m/s (Rankine-Hugoniot " +
-         format_fixed(shock.rankine_hugoniot_m_s, 2) + " m/s), " + shock_fate(shock);
+std::string shock_note(const ShockRecord& r) {
+  return std::string(r.plane.empty() ? "" : "plane " + r.plane + ": ") +
+         "kinematic shock formed at t = " + minutes(r.time_s) + ", " +
+         format_fixed(r.chainage_m, 0) + " m downstream; " + r.message;
 }
 
 std::string capacity_note(const network::ReachFacts& reach) {
@@ -281,14 +413,17 @@ std::string detention_note(const network::structures::DetentionReport& r,
 // What each element found (shocks, conduits at capacity, culvert headwater and overtopping,
 // detention peaks), one line of text each, in network order.
 std::vector<std::pair<std::string, std::string>> element_notes(
-    const network::Model& model, const std::vector<network::ElementReport>& reports) {
+    const network::Model& model, const std::vector<network::ElementReport>& reports,
+    const RunSummary& summary) {
   std::vector<std::pair<std::string, std::string>> out;
   for (std::size_t i = 0; i < reports.size(); ++i) {
     const std::string& id = model.links[i].id;
+    for (const ShockRecord& r : summary.shocks) {
+      if (r.element == id) out.emplace_back(id, shock_note(r));
+    }
     switch (reported_as(reports[i].kind)) {
       case ReportedAs::reach: {
         const network::ReachFacts& reach = reports[i].reach();
-        for (const auto& shock : reach.significant_shocks) out.emplace_back(id, shock_note(shock));
         if (reach.capacity_steps > 0) out.emplace_back(id, capacity_note(reach));
         break;
       }
@@ -329,11 +464,14 @@ RunReport report_run(const network::Model& model, const network::RunSummary& num
     s.stations.push_back(st);
   }
   add_pairs(model, s);
-  add_shocks(model, reports, s);
+  const std::vector<WaveElement> waves = wave_elements(reports);
+  add_breaking(model, waves, s);
+  add_shocks(model, waves, s);
   add_balances(numerics, s);
   add_warnings(model, reports, recorder, stations, s);
   add_end_of_run_warnings(recorder, stations, s);
   add_coupling_step_warnings(recorder, stations, context.clock.coupling_step_s(), s);
+  add_resolution_warnings(model, waves, context.clock.coupling_step_s(), s);
   detail::add_result_scale_warnings(model, reports, s);
   // Each element's warnings together, in network order.
   std::map<std::string, std::size_t, std::less<>> order;
@@ -347,7 +485,7 @@ RunReport report_run(const network::Model& model, const network::RunSummary& num
                    });
   out.peaks = station_peaks(reports, s, stations);
   out.reach_numerics = reach_numerics(model, reports);
-  out.notes = element_notes(model, reports);
+  out.notes = element_notes(model, reports, s);
   out.elements = std::move(reports);
   out.series = recorder.output_series();
   return out;

@@ -30,7 +30,23 @@ RunSummary example() {
                 {"alder-2", "Lower weir", 1.0 / 3.0, 7200.0, kNotApplicable, 47500.0, 9900.0,
                  4500.0}};
   s.pairs = {compare_stations(s.stations[0], s.stations[1])};
-  s.shocks = {{"alder-reach", 4000.0, 350.0, "shock formed; captured by the scheme"}};
+  reporting::ShockRecord shock;
+  shock.element = "alder-reach";
+  shock.time_s = 4000.0;
+  shock.chainage_m = 350.0;
+  shock.speed_m_s = 1.5;
+  shock.rankine_hugoniot_m_s = 1.25;
+  shock.discharge_jump_m3s = 8.0;
+  shock.depth_jump_m = 0.5;
+  shock.fate = "outlet";
+  shock.end_time_s = 5000.0;
+  shock.found_by = "fronts";
+  shock.path = {{4200.0, 600.0, 1.25, 7.5}};
+  shock.message = "shock formed; captured by the scheme";
+  s.shocks = {shock};
+  s.breaking = {{"alder-reach", "", true, 3900.0, 300.0, 1500.0, "the wave breaks"},
+                {"alder-hill", "upper lawn", false, kNotApplicable, kNotApplicable, 80.0,
+                 "the wave does not break"}};
   s.mass_balance = {{"alder-reach", 48000.0, 47500.0, 499.99, 0.01, 2.1e-7}};
   s.warnings = {{"alder-reach", "Froude number 1.4 at peak: \"kinematic\" assumption marginal"}};
   return s;
@@ -91,6 +107,17 @@ TEST(SummaryWriter, CsvFilesStartWithTheHeaderQuoteTextAndRoundTripNumbers) {
   EXPECT_THAT(checks, HasSubstr("applicability,alder-reach,,,,,,,,\"Froude number 1.4 at peak: "
                                 "\"\"kinematic\"\" assumption marginal\""));
   EXPECT_THAT(checks, HasSubstr("mass_balance,alder-reach,,,48000,47500,499.99,0.01,2.1e-07,"));
+  // Breaking and shocks fill the columns after the message (docs/outputs.md).
+  EXPECT_THAT(checks, HasSubstr("relative_error,message,plane,breaks,length_m,speed_m_s,"
+                                "rankine_hugoniot_m_s,discharge_jump_m3s,depth_jump_m,fate,"
+                                "end_time_s,found_by\n"));
+  EXPECT_THAT(checks, HasSubstr("breaking,alder-reach,3900,300,,,,,,the wave breaks,,true,1500,"
+                                ",,,,,,\n"));
+  EXPECT_THAT(checks, HasSubstr("breaking,alder-hill,,,,,,,,the wave does not break,upper lawn,"
+                                "false,80,"));
+  EXPECT_THAT(checks, HasSubstr("shock,alder-reach,4000,350,,,,,,shock formed; captured by the "
+                                "scheme,,,,1.5,1.25,8,0.5,outlet,5000,fronts\n"));
+  EXPECT_THAT(checks, HasSubstr("shock_path,alder-reach,4200,600,,,,,,,,,,,1.25,7.5,,,,fronts\n"));
   EXPECT_THAT(read_text(dir / "run1_pairs.csv"), HasSubstr("alder-1,alder-2,12.166666666666666,"));
 }
 
@@ -112,6 +139,12 @@ TEST(SummaryWriter, JsonHoldsEveryRecordWithNullForNotApplicable) {
   EXPECT_TRUE(j.at("stations")[1].at("peak_stage_m").is_null());
   EXPECT_EQ(j.at("pairs")[0].at("peak_time_shift_s").get<double>(), 1800.0);
   EXPECT_EQ(j.at("shocks")[0].at("chainage_m").get<double>(), 350.0);
+  EXPECT_EQ(j.at("shocks")[0].at("rankine_hugoniot_m_s").get<double>(), 1.25);
+  EXPECT_EQ(j.at("shocks")[0].at("fate").get<std::string>(), "outlet");
+  EXPECT_EQ(j.at("shocks")[0].at("path")[0].at("discharge_jump_m3s").get<double>(), 7.5);
+  EXPECT_TRUE(j.at("breaking")[0].at("breaks").get<bool>());
+  EXPECT_EQ(j.at("breaking")[1].at("plane").get<std::string>(), "upper lawn");
+  EXPECT_TRUE(j.at("breaking")[1].at("time_s").is_null());
   EXPECT_EQ(j.at("mass_balance")[0].at("relative_error").get<double>(), 2.1e-7);
   EXPECT_THAT(j.at("applicability_warnings")[0].at("message").get<std::string>(),
               HasSubstr("\"kinematic\""));

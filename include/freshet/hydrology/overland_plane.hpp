@@ -22,12 +22,14 @@
 //   double q = lawn.outflow_m2s();            // outlet discharge per metre of width
 #pragma once
 
+#include <limits>
 #include <memory>
 #include <string>
 #include <vector>
 
 #include "freshet/core/error.hpp"
 #include "freshet/geometry/flux_law.hpp"
+#include "freshet/routing/breaking_watch.hpp"
 #include "freshet/routing/reach_model.hpp"
 
 namespace freshet::hydrology {
@@ -60,9 +62,12 @@ class OverlandPlane {
   explicit OverlandPlane(OverlandPlaneSpec spec, routing::RoutingOptions options = {});
 
   // Advances from t0_s (the plane's clock; any value first) to t1_s under uniform excess
-  // intensity excess_m_s >= 0 and a constant upstream inflow per unit width inflow_m2s >= 0.
+  // intensity excess_m_s >= 0 and a constant upstream inflow per unit width inflow_m2s >= 0
+  // (its mean over the step). inflow_end_m2s, the upstream rate at t1_s (NaN: inflow_m2s),
+  // is what the breaking prediction reads: the inflow linear between step ends.
   routing::AdvanceResult advance(double t0_s, double t1_s, double excess_m_s,
-                                 double inflow_m2s = 0.0);
+                                 double inflow_m2s = 0.0,
+                                 double inflow_end_m2s = std::numeric_limits<double>::quiet_NaN());
   // Dry plane, ledger restarted.
   void reset();
 
@@ -71,10 +76,19 @@ class OverlandPlane {
   [[nodiscard]] const routing::VolumeLedger& ledger() const { return reach_->ledger(); }
   [[nodiscard]] const OverlandPlaneSpec& spec() const noexcept { return spec_; }
   [[nodiscard]] const routing::ReachModel& reach() const noexcept { return *reach_; }
+  // Where and when the sheet flow breaks, from the characteristics of its inflow and excess
+  // (routing/breaking_watch.hpp).
+  [[nodiscard]] const routing::PredictedBreaking& breaking() const noexcept {
+    return watch_.result();
+  }
+  [[nodiscard]] double peak_outflow_m2s() const noexcept { return peak_outflow_m2s_; }
 
  private:
   OverlandPlaneSpec spec_;
   std::unique_ptr<routing::ReachModel> reach_;  // a KinematicReach<PowerLawFlux>
+  routing::BreakingWatch watch_;
+  double inflow_end_m2s_ = 0.0;    // upstream rate at the end of the last step
+  double peak_outflow_m2s_ = 0.0;  // at step ends
 };
 
 // Planes in series, all receiving the same excess; outflow is the last plane's. A plane

@@ -20,10 +20,39 @@
 
 #include "freshet/network/structures/level_pool.hpp"
 #include "freshet/network/topology.hpp"
+#include "freshet/routing/breaking_watch.hpp"
 #include "freshet/routing/diagnostics.hpp"
 #include "freshet/routing/shock.hpp"
 
 namespace freshet::network {
+
+// One kinematic shock as the reports show it: its formation, path, speeds and fate
+// (routing::ShockReport) and its largest jump along the path.
+struct ShockFacts {
+  routing::ShockReport shock;
+  double discharge_jump_m3s = 0.0;  // largest Q_left - Q_right along the path (per metre of
+                                    // width on a plane, m2/s)
+  double depth_jump_m = 0.0;        // h_left - h_right at that path sample
+  double jump_time_s = 0.0;         // when the largest jump was seen
+  std::vector<double> path_discharge_jump_m3s;  // Q_left - Q_right at each path sample
+};
+
+// Breaking and shocks of one kinematic-wave element (a reach, or an overland plane).
+struct WaveFacts {
+  double length_m = 0.0;
+  int cell_count = 0;
+  double cell_width_m = 0.0;
+  std::string scheme;     // routing scheme name
+  bool grid_free = false;  // the characteristics scheme: shocks come from its fronts
+  int front_cells = 0;     // cells over which the scheme smears a front
+  // Where and when the characteristics of the inflow (and lateral inflow) first cross.
+  routing::PredictedBreaking breaking;
+  // The kinematic shocks that matter to the flood, in order of formation: each one's largest
+  // discharge jump along its path is at least kSignificantShockFraction of the element's
+  // peak outflow.
+  std::vector<ShockFacts> significant_shocks;
+};
+inline constexpr double kSignificantShockFraction = 0.1;  // our criterion, no source
 
 // A reach routed by the kinematic wave.
 struct ReachFacts {
@@ -32,10 +61,7 @@ struct ReachFacts {
   std::optional<double> outlet_invert_m;  // bed elevation at the downstream end, when given
   int cell_count = 0;
   double cell_width_m = 0.0;
-  // The kinematic shocks that matter to the flood, in order of formation (each one's largest
-  // discharge jump along its path is at least ReachElement::kSignificantShockFraction of the
-  // reach's peak outflow).
-  std::vector<routing::ShockReport> significant_shocks;
+  WaveFacts wave;  // breaking and shocks
   // Coupling steps at whose end some cell held the conduit's capacity area (surcharge is not
   // represented); 0 for open channels that never fill.
   long capacity_steps = 0;
@@ -47,9 +73,16 @@ struct ReachFacts {
   routing::RunDiagnostics diagnostics;  // scheme, steps, Courant numbers, shocks, wall time
 };
 
+// One overland plane of a subcatchment (per metre of width: discharges in m2/s).
+struct PlaneFacts {
+  std::string name;
+  WaveFacts wave;
+};
+
 // A subcatchment.
 struct SubcatchmentFacts {
   double area_m2 = 0.0;
+  std::vector<PlaneFacts> planes;  // in flow order
 };
 
 // A level the reports mark on a pool's stage axis and on long sections: a culvert's inlet

@@ -45,17 +45,20 @@ class ReachElement final : public Element {
   [[nodiscard]] double full_volume_m3() const { return full_volume_m3_; }
   [[nodiscard]] double peak_volume_above_full_m3() const { return peak_above_full_m3_; }
   [[nodiscard]] double time_of_peak_volume_above_full_s() const { return peak_above_full_s_; }
-  // The reach's kinematic shocks that matter to the flood, in order of formation: each one's
-  // largest discharge jump along its path is at least kSignificantShockFraction of the
-  // reach's peak outflow. Small fronts (the first trickle running onto a dry bed) are left
-  // out.
-  [[nodiscard]] std::vector<const routing::ShockReport*> significant_shocks() const;
-  static constexpr double kSignificantShockFraction = 0.1;  // our criterion, no source
+  // The reach's breaking prediction and the kinematic shocks that matter to the flood, in
+  // order of formation: each one's largest discharge jump along its path is at least
+  // kSignificantShockFraction of the reach's peak outflow. Small fronts (the first trickle
+  // running onto a dry bed) are left out.
+  [[nodiscard]] WaveFacts wave_facts() const;
+  [[nodiscard]] const routing::PredictedBreaking& breaking() const { return watch_.result(); }
 
  private:
   geometry::FlowSection section_;
   std::unique_ptr<routing::ReachModel> reach_;
   std::optional<double> outlet_invert_m_;
+  routing::BreakingWatch watch_;
+  double start_s_ = 0.0;
+  double inflow_end_m3s_ = 0.0;  // upstream rate at the end of the last step
   long capacity_steps_ = 0;
   double peak_outflow_m3s_ = 0.0;  // at step ends, for the significance of shocks
   double full_area_m2_ = 0.0;      // 0 for open sections

@@ -41,11 +41,44 @@ struct PairSummary {
   double volume_change_m3 = kNotApplicable;         // V_down - V_up
 };
 
-// A shock (kinematic-wave discontinuity) found in a reach.
-struct ShockRecord {
-  std::string element;  // reach id
+// Where and when the flood wave of a reach (or of an overland plane of a subcatchment) breaks,
+// predicted from the characteristics of the inflow and lateral inflow it received (Whitham
+// 1974, Linear and Nonlinear Waves, ch. 2; routing/breaking_watch.hpp).
+struct BreakingRecord {
+  std::string element;  // reach or subcatchment id
+  std::string plane;    // the overland plane's name; empty for a reach
+  bool breaks = false;  // false: no crossing of characteristics inside it during the run
+  double time_s = kNotApplicable;      // first crossing
+  double chainage_m = kNotApplicable;  // from the upstream end
+  double length_m = kNotApplicable;
+  std::string message;  // the finding in words
+};
+
+// A point of a shock's path.
+struct ShockPathPoint {
   double time_s = kNotApplicable;
   double chainage_m = kNotApplicable;
+  double rankine_hugoniot_m_s = kNotApplicable;  // [Q]/[A] of the states either side
+  double discharge_jump_m3s = kNotApplicable;    // Q_left - Q_right
+};
+
+// A shock (kinematic-wave discontinuity) realised in a reach or overland plane.
+struct ShockRecord {
+  std::string element;  // reach or subcatchment id
+  std::string plane;    // the overland plane's name; empty for a reach
+  double time_s = kNotApplicable;      // formation
+  double chainage_m = kNotApplicable;  // formation, from the upstream end
+  double speed_m_s = kNotApplicable;   // least-squares speed of the path
+  double rankine_hugoniot_m_s = kNotApplicable;  // mean [Q]/[A] along the path
+  double discharge_jump_m3s = kNotApplicable;    // largest along the path (m2/s on a plane)
+  double depth_jump_m = kNotApplicable;          // at the largest discharge jump
+  // "outlet" (reached it at end_time_s), "merged" (into a later shock), "decayed" (an
+  // expansion overtook it), "faded or merged" (left a grid detector's view), "in reach" (still
+  // inside at the end of the run).
+  std::string fate;
+  double end_time_s = kNotApplicable;
+  std::string found_by;  // "fronts" (characteristics scheme) or "grid detector"
+  std::vector<ShockPathPoint> path;
   std::string message;
 };
 
@@ -80,6 +113,7 @@ struct RunSummary {
   std::string time_origin_iso;  // what every time in seconds counts from (ISO 8601); "" unknown
   std::vector<StationSummary> stations;
   std::vector<PairSummary> pairs;
+  std::vector<BreakingRecord> breaking;
   std::vector<ShockRecord> shocks;
   std::vector<MassBalanceRecord> mass_balance;
   std::vector<WaveNumberRecord> wave_numbers;

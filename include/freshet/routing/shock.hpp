@@ -135,6 +135,9 @@ struct ShockReport {
   // and merged with it. end_time_s is the last observation in which it was seen.
   bool ended = false;
   double end_time_s = std::numeric_limits<double>::quiet_NaN();
+  // Known to have ended by merging into another shock (the characteristics scheme knows; a
+  // grid detector cannot tell merging from decay).
+  bool merged = false;
 };
 
 // Watches one reach. observe() is called at increasing times with the cell areas and a way to

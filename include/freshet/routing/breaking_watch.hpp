@@ -1,0 +1,110 @@
+// Where and when a reach's flood wave breaks, predicted from the characteristics of the
+// inflow it actually receives, as the run goes (Whitham 1974, Linear and Nonlinear Waves,
+// ch. 2; Lighthill & Whitham 1955, On kinematic waves I, Proc. R. Soc. A 229).
+//
+// A characteristic launched from the inlet at time tau carries the area A(Q_in(tau)) and
+// moves at c(A) = dQ/dA; under a lateral inflow q(t) per metre, uniform along the reach (as
+// the network and the overland planes hand it), every characteristic gains the same area
+// dA/dt = q. The wave breaks where two neighbouring characteristics first cross: without
+// lateral inflow, at x = c^2 / (dc/dtau), t = tau + c / (dc/dtau), the earliest over the
+// inflow (Whitham 1974, sec. 2.1-2.2). The watch traces characteristics launched at the
+// start of every linear piece of the inflow and at times graded towards it (a rise begins
+// there, and that is where a piecewise-linear rise breaks first), then every
+// `max_launch_step_s`; it reports the first crossing inside the reach, 0 <= x <= L, during
+// the run. Before that crossing no shock exists in the reach and nothing downstream of L
+// acts upstream (every celerity is >= 0), so the first crossing inside the reach is the
+// reach's first shock, exactly up to the launch spacing.
+//
+// Cost and memory: one entry per characteristic inside the reach; runs of characteristics
+// with equal areas (steady flow) keep only their two ends. The watch stops at the first
+// crossing.
+//
+//   BreakingWatch watch(flux, 5000.0);
+//   watch.start(0.0, 20.0, flux_area_for(20.0));
+//   watch.advance(0.0, 60.0, 20.0, 35.0, 0.0);   // inflow 20 -> 35 m3/s over the step
+//   if (watch.result().breaks) use(watch.result().time_s, watch.result().chainage_m);
+#pragma once
+
+#include <cstddef>
+#include <limits>
+#include <vector>
+
+#include "freshet/core/time_series.hpp"
+#include "freshet/geometry/section_flux.hpp"
+
+namespace freshet::routing {
+
+struct PredictedBreaking {
+  bool watched = false;  // false: the watch never ran (no advance)
+  // True when neighbouring characteristics crossed inside the reach during the run.
+  bool breaks = false;
+  double time_s = std::numeric_limits<double>::quiet_NaN();
+  double chainage_m = std::numeric_limits<double>::quiet_NaN();
+  // The launch time of the overtaking characteristic (the inflow that breaks first).
+  double launch_time_s = std::numeric_limits<double>::quiet_NaN();
+  // The crossing characteristics' discharges at the inlet, when they were launched (m3/s).
+  double discharge_behind_m3s = std::numeric_limits<double>::quiet_NaN();
+  double discharge_ahead_m3s = std::numeric_limits<double>::quiet_NaN();
+  // The overtaken characteristic carried no water (the wave runs onto a dry bed, whose
+  // wetting front is a shock from the start).
+  bool onto_dry_bed = false;
+  // The overtaken characteristic left the inlet with no discharge: the inflow rises from
+  // zero, and its leading edge steepens into a shock at once (with no jump at first; it grows
+  // as it absorbs the rise).
+  bool from_zero_inflow = false;
+  double length_m = 0.0;
+  double watched_from_s = std::numeric_limits<double>::quiet_NaN();
+  double watched_to_s = std::numeric_limits<double>::quiet_NaN();
+};
+
+class BreakingWatch {
+ public:
+  static constexpr double kDefaultMaxLaunchStep_s = 60.0;
+
+  BreakingWatch() = default;
+  // length_m > 0, max_launch_step_s > 0.
+  BreakingWatch(geometry::SectionFlux flux, double length_m,
+                double max_launch_step_s = kDefaultMaxLaunchStep_s);
+
+  // Starts over at t_s: the reach holds the uniform area initial_area_m2 and the inlet
+  // discharge is inflow_m3s.
+  void start(double t_s, double inflow_m3s, double initial_area_m2);
+  // Starts over at the next advance(), from steady flow carrying the inflow at its start.
+  void reset();
+  // Over [t0_s, t1_s] (t0_s the end of the last call): the inflow varies linearly from
+  // inflow_t0_m3s to inflow_t1_m3s; lateral inflow lateral_m2s per metre, uniform and constant.
+  void advance(double t0_s, double t1_s, double inflow_t0_m3s, double inflow_t1_m3s,
+               double lateral_m2s);
+  // Over [t0_s, t1_s]: every linear piece of a piecewise-linear inflow hydrograph.
+  void advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s,
+               double lateral_m2s);
+
+  [[nodiscard]] const PredictedBreaking& result() const noexcept { return result_; }
+  [[nodiscard]] std::size_t characteristics() const noexcept { return chars_.size(); }
+
+ private:
+  struct Characteristic {
+    double x_m = 0.0;
+    double area_m2 = 0.0;      // now
+    double celerity_m_s = 0.0; // c(area) now
+    double launch_time_s = 0.0;
+    double launch_discharge_m3s = 0.0;
+  };
+
+  void launch(double t_s, double discharge_m3s);
+  void move_to(double t_s, double lateral_m2s);
+  void check_crossings(double t0_s, double t1_s);
+
+  geometry::SectionFlux flux_{geometry::PowerLawFlux{1.0, 1.0}};  // replaced on construction
+  double length_m_ = 0.0;
+  double max_step_s_ = kDefaultMaxLaunchStep_s;
+  double t_now_ = std::numeric_limits<double>::quiet_NaN();
+  bool done_ = false;
+  // Oldest first (furthest downstream).
+  std::vector<Characteristic> chars_;
+  std::vector<double> x_before_;
+  std::vector<double> launch_times_;
+  PredictedBreaking result_;
+};
+
+}  // namespace freshet::routing
