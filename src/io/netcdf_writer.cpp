@@ -44,23 +44,28 @@ struct VariableSpec {
   std::string_view units;
   std::string_view standard_name;  // empty: none exists in CF standard-name table v83
   double from_si;                  // multiply SI value by this before writing
+  // CF 1.11 sec. 7.3: "time: point" for values at the time stamp, "time: mean" for the mean
+  // over the interval that ends at the stamp (the time bounds, sec. 7.1, give the interval).
+  std::string_view cell_methods;
 };
 
 // Standard names and canonical units: CF standard-name table v83 (2023-10-17,
 // cfconventions.org); unit strings checked with the udunits2 tool (UDUNITS-2).
 constexpr VariableSpec kSpecs[] = {
     {OutputVariable::discharge, "discharge", "discharge in the channel", "m3 s-1",
-     "water_volume_transport_in_river_channel", 1.0},
-    {OutputVariable::stage, "stage", "", "m", "", 1.0},  // text depends on the datum
+     "water_volume_transport_in_river_channel", 1.0, "time: point"},
+    {OutputVariable::stage, "stage", "", "m", "", 1.0, "time: point"},  // text depends on the datum
     {OutputVariable::depth, "depth", "flow depth above the channel bed (deepest point)", "m", "",
-     1.0},
+     1.0, "time: point"},
     {OutputVariable::velocity, "velocity", "cross-section mean flow velocity (discharge / area)",
-     "m s-1", "", 1.0},
-    {OutputVariable::rainfall_intensity, "rainfall_intensity", "rainfall intensity", "mm h-1",
-     "lwe_precipitation_rate", kMetresPerSecondToMmPerHour},
+     "m s-1", "", 1.0, "time: point"},
+    {OutputVariable::rainfall_intensity, "rainfall_intensity",
+     "rainfall intensity, mean over the interval ending at the time stamp (time_bnds)", "mm h-1",
+     "lwe_precipitation_rate", kMetresPerSecondToMmPerHour, "time: mean"},
     {OutputVariable::rainfall_excess, "rainfall_excess",
-     "rainfall excess rate (rainfall minus losses, available for runoff)", "mm h-1", "",
-     kMetresPerSecondToMmPerHour},
+     "rainfall excess rate (rainfall minus losses, available for runoff), mean over the interval "
+     "ending at the time stamp (time_bnds)",
+     "mm h-1", "", kMetresPerSecondToMmPerHour, "time: mean"},
 };
 
 const VariableSpec& spec(OutputVariable v) { return kSpecs[static_cast<std::size_t>(v)]; }
@@ -152,6 +157,7 @@ struct NetcdfTimeSeriesWriter::Impl {
   NetcdfWriterOptions options;
   std::unique_ptr<OwnedNcFile> file;
   nc::NcVar time_var;
+  nc::NcVar bounds_var;  // time_bnds (time, nv): only in files with interval means
   std::vector<nc::NcVar> data_vars;
   std::vector<double> from_si;
   std::size_t n_instances = 0;
@@ -162,6 +168,7 @@ struct NetcdfTimeSeriesWriter::Impl {
   std::size_t block_start = 0;
   std::vector<float> block;
   std::vector<double> block_times;
+  std::vector<double> block_bounds;  // two per record: interval start, interval end (the stamp)
   double last_time_s = 0.0;
   std::chrono::steady_clock::time_point last_sync;
 
@@ -270,6 +277,7 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   var.putAtt("long_name", long_name);
   var.putAtt("units", std::string(s.units));
   var.putAtt("coordinates", coordinates);
+  var.putAtt("cell_methods", std::string(s.cell_methods));
   var.putAtt("coverage_content_type", "modelResult");
   if (!set.crs_wkt.empty() && coordinates.find(" x y") != std::string::npos) {
     var.putAtt("grid_mapping", "crs");
@@ -295,6 +303,19 @@ void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const Inst
   time_var.putAtt("units", "seconds since " + normalise_time_origin(m.time_origin));
   time_var.putAtt("calendar", "proleptic_gregorian");
   time_var.putAtt("axis", "T");
+  // Interval means need the interval: time bounds (CF 1.11 sec. 7.1), [previous stamp, stamp];
+  // the first record's interval is empty ([t0, t0]) and holds the value at t0.
+  const bool means = std::any_of(variables.begin(), variables.end(), [](OutputVariable v) {
+    return spec(v).cell_methods == "time: mean";
+  });
+  if (means) {
+    const nc::NcDim nv = file->addDim("nv", 2);
+    bounds_var = file->addVar("time_bnds", nc::ncDouble, std::vector<nc::NcDim>{time_dim, nv});
+    std::vector<size_t> bounds_chunks{1024, 2};
+    bounds_var.setChunking(nc::NcVar::nc_CHUNKED, bounds_chunks);
+    bounds_var.setChunkCache(2 * 1024 * 2 * sizeof(double), 31, 1.0f);
+    time_var.putAtt("bounds", "time_bnds");
+  }
   const std::string coordinates = define_instance_variables(set, dim);
   for (const auto v : variables) define_data_variable(v, set, time_dim, dim, coordinates);
   put_global_attributes(m);
@@ -304,6 +325,7 @@ void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const Inst
                                        chunk_rows(n_instances));
   block.assign(variables.size() * block_rows * n_instances, 0.0f);
   block_times.reserve(block_rows);
+  block_bounds.reserve(2 * block_rows);
 }
 
 // Each instance variable is written whole, in one call: written one instance at a time, every
@@ -343,6 +365,8 @@ void NetcdfTimeSeriesWriter::Impl::write_instance_values(const InstanceSet& set)
 void NetcdfTimeSeriesWriter::Impl::write_record(double time_s, std::span<const double> values) {
   const std::size_t row_in_block = records - block_start;
   block_times.push_back(time_s);
+  block_bounds.push_back(records == 0 ? time_s : last_time_s);
+  block_bounds.push_back(time_s);
   for (std::size_t v = 0; v < data_vars.size(); ++v) {
     float* row = &block[(v * block_rows + row_in_block) * n_instances];
     for (std::size_t i = 0; i < n_instances; ++i) {
@@ -359,12 +383,14 @@ void NetcdfTimeSeriesWriter::Impl::flush_block() {
   const std::size_t rows = records - block_start;
   if (rows == 0) return;
   time_var.putVar({block_start}, {rows}, block_times.data());
+  if (!bounds_var.isNull()) bounds_var.putVar({block_start, 0}, {rows, 2}, block_bounds.data());
   for (std::size_t v = 0; v < data_vars.size(); ++v) {
     data_vars[v].putVar({block_start, 0}, {rows, n_instances},
                         &block[v * block_rows * n_instances]);
   }
   block_start = records;
   block_times.clear();
+  block_bounds.clear();
 }
 
 NetcdfTimeSeriesWriter::NetcdfTimeSeriesWriter(std::filesystem::path path,

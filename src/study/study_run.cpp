@@ -55,11 +55,14 @@ class StudySink final : public network::RecordSink {
     for (std::size_t i = 0; i < stations.size(); ++i) {
       (is_subcatchment(stations[i].kind) ? sub_index_ : channel_index_).push_back(i);
     }
+    rain_depth_m_.assign(sub_index_.size(), 0.0);
+    excess_depth_m_.assign(sub_index_.size(), 0.0);
   }
 
   void record(double time_s, std::span<const StationSample> samples) override {
     if (cancel_ && cancel_()) throw RunInterrupted("the run was stopped before it finished");
     recorder_.record(time_s, samples);
+    add_rain_depths(time_s, samples);
     if (channel_) write_channel(time_s, samples);
     if (sub_) write_sub(time_s, samples);
     if (after_record) after_record(time_s);
@@ -76,6 +79,7 @@ class StudySink final : public network::RecordSink {
   void observe(double time_s, std::span<const StationSample> samples) override {
     if (cancel_ && cancel_()) throw RunInterrupted("the run was stopped before it finished");
     recorder_.observe(time_s, samples);
+    add_rain_depths(time_s, samples);
   }
 
   [[nodiscard]] const std::vector<std::size_t>& channel_index() const { return channel_index_; }
@@ -95,15 +99,34 @@ class StudySink final : public network::RecordSink {
     channel_->record(time_s, row_);
   }
 
+  // Each coupling step's mean rain and excess rates times its length: the depths that fell
+  // since the last output time, so the file holds exact means over each output interval.
+  void add_rain_depths(double time_s, std::span<const StationSample> samples) {
+    if (last_step_s_) {
+      const double dt_s = time_s - *last_step_s_;
+      for (std::size_t k = 0; k < sub_index_.size(); ++k) {
+        rain_depth_m_[k] += samples[sub_index_[k]].rain_m_s * dt_s;
+        excess_depth_m_[k] += samples[sub_index_[k]].excess_m_s * dt_s;
+      }
+    }
+    last_step_s_ = time_s;
+  }
+
+  // Runoff at the output time; rain and excess as means over the interval since the last
+  // output time (the file's time_bnds), or at the first output time the rates then.
   void write_sub(double time_s, std::span<const StationSample> samples) {
     const std::size_t n = sub_index_.size();
     row_.assign(3 * n, 0.0);
+    const double interval_s = last_record_s_ ? time_s - *last_record_s_ : 0.0;
     for (std::size_t k = 0; k < n; ++k) {
       const StationSample& s = samples[sub_index_[k]];
       row_[k] = s.discharge_m3s;
-      row_[n + k] = s.rain_m_s;  // SI; the writer stores mm h-1
-      row_[2 * n + k] = s.excess_m_s;
+      // SI; the writer stores mm h-1
+      row_[n + k] = interval_s > 0.0 ? rain_depth_m_[k] / interval_s : s.rain_m_s;
+      row_[2 * n + k] = interval_s > 0.0 ? excess_depth_m_[k] / interval_s : s.excess_m_s;
+      rain_depth_m_[k] = excess_depth_m_[k] = 0.0;
     }
+    last_record_s_ = time_s;
     sub_->record(time_s, row_);
   }
 
@@ -114,6 +137,8 @@ class StudySink final : public network::RecordSink {
   std::vector<std::size_t> channel_index_;
   std::vector<std::size_t> sub_index_;
   std::vector<double> row_;
+  std::vector<double> rain_depth_m_, excess_depth_m_;  // per subcatchment, since the last output
+  std::optional<double> last_step_s_, last_record_s_;
 };
 
 std::string now_iso() {

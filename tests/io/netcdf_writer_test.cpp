@@ -97,7 +97,19 @@ void expect_cf_timeseries(const nc::NcFile& f) {
     if (atts.count("_FillValue")) {
       EXPECT_EQ(var.getAtt("_FillValue").getType().getId(), var.getType().getId()) << name;
     }
+    if (name == "time_bnds") {  // CF 1.11 sec. 7.1: (time, nv = 2), named by time's bounds
+      EXPECT_EQ(var.getDim(1).getSize(), 2u);
+      EXPECT_EQ(text_att(f.getVar("time"), "bounds"), "time_bnds");
+      continue;
+    }
     if (var.getDimCount() == 2) {  // a data variable (time, instance)
+      // CF 1.11 sec. 7.3: every data variable says whether it is a value at the stamp or a
+      // mean over the interval ending there; a mean needs the time bounds.
+      const std::string method = text_att(var, "cell_methods");
+      EXPECT_TRUE(method == "time: point" || method == "time: mean") << name;
+      if (method == "time: mean") {
+        EXPECT_FALSE(f.getVar("time_bnds").isNull()) << name;
+      }
       EXPECT_EQ(var.getDim(0).getName(), "time") << name;
       EXPECT_TRUE(var.getDim(0).isUnlimited()) << name;
       ASSERT_TRUE(atts.count("coordinates")) << name;
@@ -288,6 +300,10 @@ TEST(NetcdfWriter, SubcatchmentFileConvertsRainToMillimetresPerHour) {
   f.getVar("rainfall_excess").getVar(std::vector<size_t>{0, 0}, &excess);
   EXPECT_FLOAT_EQ(rain, 36.0f);
   EXPECT_FLOAT_EQ(excess, 18.0f);
+  double bounds[2] = {-1.0, -1.0};  // the first record's interval is empty: [t0, t0]
+  f.getVar("time_bnds").getVar(std::vector<size_t>{0, 0}, std::vector<size_t>{1, 2}, bounds);
+  EXPECT_EQ(bounds[0], 0.0);
+  EXPECT_EQ(bounds[1], 0.0);
 }
 
 TEST(NetcdfWriter, StageWithAKnownDatumGetsTheStandardNameAndCrsGetsAGridMapping) {
