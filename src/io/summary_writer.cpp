@@ -19,6 +19,7 @@ using reporting::ShockPathPoint;
 using reporting::kNotApplicable;
 using reporting::MassBalanceRecord;
 using reporting::PairSummary;
+using reporting::ReachMethodRecord;
 using reporting::RunSummary;
 using reporting::ShockRecord;
 using reporting::StationSummary;
@@ -122,6 +123,10 @@ std::string check_lines(const RunSummary& s) {
     out += "  " + element_name(r) + " formed at t = " + fixed(r.time_s / 3600.0, 3) +
            " h, chainage " + fixed(r.chainage_m, 1) + " m: " + r.message + "\n";
   }
+  if (!s.methods.empty()) out += "\nRouting methods\n";
+  for (const auto& r : s.methods) {
+    out += "  " + r.element + ": " + r.scheme + " (" + r.wave + " wave): " + r.reason + "\n";
+  }
   if (!s.warnings.empty()) out += "\nApplicability warnings\n" + format_warning_lines(s);
   return out;
 }
@@ -179,7 +184,8 @@ CsvDescription checks_description(const RunSummary& s) {
   return summary_description(
       s, "run checks",
       {{"kind", "",
-        "breaking, shock, shock_path, mass_balance, wave_numbers or applicability", "string"},
+        "breaking, shock, shock_path, mass_balance, wave_numbers, method or applicability",
+        "string"},
        {"element", "", "element id", "string"},
        {"time_s", "s", "time of the finding"},
        {"chainage_m", "m", "distance from the element's upstream end"},
@@ -294,6 +300,11 @@ std::string checks_csv(const RunSummary& s) {
                     "; diffusion_number=" + csv_number(r.diffusion_number)) +
            kNoWaveColumns + "\n";
   }
+  for (const auto& r : s.methods) {
+    out += "method," + csv_text(r.element) + ",,,,,,,," +
+           csv_text("scheme=" + r.scheme + "; wave=" + r.wave + "; reason=" + r.reason) +
+           kNoWaveColumns + "\n";
+  }
   for (const auto& r : s.warnings) {
     out += "applicability," + csv_text(r.element) + ",,,,,,,," + csv_text(r.message) +
            kNoWaveColumns + "\n";
@@ -376,6 +387,10 @@ nlohmann::json to_json(const WaveNumberRecord& r) {
           {"diffusion_number", number(r.diffusion_number)}};
 }
 
+nlohmann::json to_json(const ReachMethodRecord& r) {
+  return {{"element", r.element}, {"scheme", r.scheme}, {"wave", r.wave}, {"reason", r.reason}};
+}
+
 nlohmann::json to_json(const ApplicabilityWarning& r) {
   return {{"element", r.element}, {"message", r.message}};
 }
@@ -448,6 +463,7 @@ std::string format_summary_json(const RunSummary& summary) {
   j["shocks"] = array_of(summary.shocks);
   j["mass_balance"] = array_of(summary.mass_balance);
   j["wave_numbers"] = array_of(summary.wave_numbers);
+  j["reach_methods"] = array_of(summary.methods);
   j["applicability_warnings"] = array_of(summary.warnings);
   return j.dump(2) + "\n";
 }

@@ -8,6 +8,7 @@
 #include "freshet/core/error.hpp"
 #include "freshet/reporting/reported_as.hpp"
 #include "freshet/routing/applicability.hpp"
+#include "freshet/routing/routing_options.hpp"
 #include "result_scale.hpp"
 
 namespace freshet::reporting {
@@ -214,7 +215,8 @@ void add_backwater_warning(const network::Model& model,
                            const RunRecorder& recorder,
                            const std::vector<StationDescription>& stations,
                            std::size_t i,
-                           RunSummary& summary) {
+                           RunSummary& summary,
+                           bool diffusion_wave) {
   const std::ptrdiff_t down = model.topology.downstream[i];
   if (down < 0) return;
   const auto d = static_cast<std::size_t>(down);
@@ -235,7 +237,28 @@ void add_backwater_warning(const network::Model& model,
                                   " m above this reach's computed outlet water level (at t = " +
                                   format_fixed(recorder.backwater_time_s(i) / 60.0, 0) +
                                   " min): backwater into the "
-                                  "reach is not represented by the kinematic wave"});
+                                  "reach is not represented by the kinematic wave" +
+                                  (diffusion_wave ? " (nor by the diffusion wave this reach "
+                                                    "was routed with)"
+                                                  : std::string())});
+}
+
+// The reach was routed by a diffusion-wave scheme (muskingum-cunge), not a kinematic one.
+bool routes_diffusion(const network::ReachFacts& reach) {
+  return routing::routes_diffusion_wave(routing::parse_scheme_kind(reach.diagnostics.scheme));
+}
+
+// Which wave each reach was routed by, and why: here the basin file's choice; a run with
+// wave_choice = "automatic" gives its own reasons (study_run.cpp).
+void add_methods(const network::Model& model, const std::vector<network::ElementReport>& reports,
+                 RunSummary& summary) {
+  for (std::size_t i = 0; i < model.elements.size(); ++i) {
+    if (!is_reach(reports[i].kind)) continue;
+    const network::ReachFacts& reach = reports[i].reach();
+    summary.methods.push_back({model.links[i].id, reach.diagnostics.scheme,
+                               routes_diffusion(reach) ? "diffusion" : "kinematic",
+                               "as given in the basin file"});
+  }
 }
 
 // Kinematic-wave applicability per reach, backwater from pools, conduits at capacity.
@@ -256,15 +279,27 @@ void add_warnings(const network::Model& model,
           routing::wave_applicability(tp_s, slope, p.velocity_m_s, p.depth_m);
       summary.wave_numbers.push_back(
           {model.links[i].id, tp_s, a.kinematic_number, a.diffusion_number});
-      if (!a.kinematic_ok) {
-        const auto number = [](double x) { return format_fixed(x, x < 10.0 ? 2 : 1); };
+      const auto number = [](double x) { return format_fixed(x, x < 10.0 ? 2 : 1); };
+      if (routes_diffusion(reach)) {
+        // Routed by the diffusion wave: in doubt only outside the diffusion wave's range.
+        if (!a.diffusion_ok) {
+          summary.warnings.push_back(
+              {model.links[i].id,
+               "routed by the diffusion wave, but t_r S0 (g/d0)^0.5 = " +
+                   number(a.diffusion_number) +
+                   " < 15 (Ponce, Li & Simons 1978; Ponce 1989): inertia matters here and even "
+                   "the diffusion wave is doubtful; check with a dynamic-wave model"});
+        }
+      } else if (!a.kinematic_ok) {
         std::string message =
             "time-of-rise number t_r S0 u0/d0 = " + number(a.kinematic_number) +
             " < 85 (Ponce, Li & Simons 1978; Ponce 1989): the kinematic wave may misstate "
             "attenuation here; ";
         message += a.diffusion_ok
                        ? "a diffusion wave would apply (t_r S0 (g/d0)^0.5 = " +
-                             number(a.diffusion_number) + " >= 15)"
+                             number(a.diffusion_number) +
+                             " >= 15): route it with scheme = \"muskingum-cunge\", or set "
+                             "wave_choice = \"automatic\""
                        : "even a diffusion wave is doubtful (t_r S0 (g/d0)^0.5 = " +
                              number(a.diffusion_number) + " < 15); check with a dynamic-wave model";
         summary.warnings.push_back({model.links[i].id, std::move(message)});
@@ -284,7 +319,7 @@ void add_warnings(const network::Model& model,
       }
       summary.warnings.push_back({model.links[i].id, std::move(message)});
     }
-    add_backwater_warning(model, recorder, stations, i, summary);
+    add_backwater_warning(model, recorder, stations, i, summary, routes_diffusion(reach));
   }
 }
 
@@ -468,6 +503,7 @@ RunReport report_run(const network::Model& model, const network::RunSummary& num
   add_breaking(model, waves, s);
   add_shocks(model, waves, s);
   add_balances(numerics, s);
+  add_methods(model, reports, s);
   add_warnings(model, reports, recorder, stations, s);
   add_end_of_run_warnings(recorder, stations, s);
   add_coupling_step_warnings(recorder, stations, context.clock.coupling_step_s(), s);

@@ -25,4 +25,9 @@ WaveApplicability wave_applicability(double time_of_rise_s, double bed_slope,
   return a;
 }
 
+WaveChoice choose_wave(const WaveApplicability& a) noexcept {
+  if (a.kinematic_ok) return WaveChoice::kKinematic;
+  return a.diffusion_ok ? WaveChoice::kDiffusion : WaveChoice::kNeither;
+}
+
 }  // namespace freshet::routing

@@ -63,6 +63,17 @@ std::vector<std::string> scheme_names() {
   return names;
 }
 
+bool routes_diffusion_wave(SchemeKind kind) noexcept {
+  bool diffusion = false;
+  schemes::for_each_scheme([&](auto type) {
+    using S = typename decltype(type)::type;
+    if (S::kKind != kind) return false;
+    diffusion = requires { S::kDiffusionWave; };
+    return true;
+  });
+  return diffusion;
+}
+
 Limiter parse_limiter(std::string_view name) { return parse_name(kLimiterNames, name, "limiter"); }
 
 std::vector<Problem> ShockDetectionOptions::validate() const {

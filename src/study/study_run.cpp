@@ -17,6 +17,7 @@
 #include "freshet/reporting/hydrograph_export.hpp"
 #include "freshet/reporting/reported_as.hpp"
 #include "freshet/reporting/run_report.hpp"
+#include "freshet/routing/applicability.hpp"
 
 namespace freshet::study {
 
@@ -502,6 +503,94 @@ bool report_series_fit(const Study& study, const std::vector<StationDescription>
   return values <= kReportSeriesBudget;
 }
 
+// ---- wave_choice = "automatic" -------------------------------------------------------------
+
+// Each reach's wave as Ponce's criteria judge the flood of a first pass routed with the
+// kinematic wave, and the reason for each reach's choice.
+struct WaveChoices {
+  std::map<std::string, routing::WaveChoice, std::less<>> choice;  // reaches with a flood
+  std::map<std::string, std::string, std::less<>> reason;
+  routing::SchemeKind kinematic_scheme = routing::SchemeKind::kMusclHeun;
+
+  // The scheme each reach is built with in the run that is reported.
+  [[nodiscard]] ReachSchemeFn scheme_fn() const {
+    return [this](const std::string& id, routing::SchemeKind given) {
+      const auto it = choice.find(id);
+      if (it != choice.end() && it->second != routing::WaveChoice::kKinematic) {
+        return routing::SchemeKind::kMuskingumCunge;
+      }
+      return routing::routes_diffusion_wave(given) ? kinematic_scheme : given;
+    };
+  }
+};
+
+std::string number_text(double x) { return format_fixed(x, x < 10.0 ? 2 : 1); }
+
+std::string choice_reason(routing::WaveChoice c, const reporting::WaveNumberRecord& w) {
+  const std::string k = "t_r S0 u0/d0 = " + number_text(w.kinematic_number);
+  const std::string d = "t_r S0 (g/d0)^0.5 = " + number_text(w.diffusion_number);
+  switch (c) {
+    case routing::WaveChoice::kKinematic:
+      return "automatic: kinematic wave, " + k + " >= 85 (first pass)";
+    case routing::WaveChoice::kDiffusion:
+      return "automatic: diffusion wave, " + k + " < 85 and " + d + " >= 15 (first pass)";
+    case routing::WaveChoice::kNeither:
+      return "automatic: NEITHER criterion holds (" + k + " < 85, " + d +
+             " < 15, first pass): routed by the diffusion wave, the nearer of the two; check "
+             "with a dynamic-wave model";
+  }
+  return {};
+}
+
+// The first pass, in memory (no file): every reach on a kinematic scheme (its own, else
+// channel_scheme, else muscl-heun), and Ponce's numbers of the flood it routed.
+WaveChoices choose_waves(const Study& study, const RunRequest& req,
+                         const network::ClockOptions& clock, const network::ProgressFn& progress,
+                         const CancelFn& cancel) {
+  WaveChoices out;
+  const routing::SchemeKind channel = study.settings().channel_routing.scheme;
+  if (!routing::routes_diffusion_wave(channel)) out.kinematic_scheme = channel;
+  const ReachSchemeFn kinematic = [&out](const std::string&, routing::SchemeKind given) {
+    return routing::routes_diffusion_wave(given) ? out.kinematic_scheme : given;
+  };
+  network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id), kinematic);
+  reporting::RunRecorder recorder(model, study.stations(req.scenario_id));
+  StudySink sink(recorder, cancel);
+  const network::RunSummary numerics =
+      simulate_located(study, req, model, clock, sink, progress);
+  const reporting::RunReport first = reporting::report_run(
+      model, numerics, recorder, {"", "", clock, study.settings().start_iso});
+  for (const reporting::WaveNumberRecord& w : first.summary.wave_numbers) {
+    routing::WaveApplicability a;
+    a.kinematic_ok = w.kinematic_number >= routing::kKinematicApplicabilityLimit;
+    a.diffusion_ok = w.diffusion_number >= routing::kDiffusionApplicabilityLimit;
+    const routing::WaveChoice c = routing::choose_wave(a);
+    out.choice[w.element] = c;
+    out.reason[w.element] = choice_reason(c, w);
+  }
+  return out;
+}
+
+// The reasons of the automatic choice in the report; a reach that neither wave suits is
+// warned about whatever the second pass's numbers say (never used silently).
+void report_choices(const WaveChoices& choices, RunSummary& summary) {
+  for (reporting::ReachMethodRecord& m : summary.methods) {
+    const auto it = choices.reason.find(m.element);
+    m.reason = it != choices.reason.end()
+                   ? it->second
+                   : "automatic: kinematic wave, no rising flood in the first pass to judge";
+  }
+  for (const auto& [id, c] : choices.choice) {
+    if (c != routing::WaveChoice::kNeither) continue;
+    const bool warned = std::any_of(summary.warnings.begin(), summary.warnings.end(),
+                                    [&](const reporting::ApplicabilityWarning& w) {
+                                      return w.element == id &&
+                                             w.message.find("dynamic-wave") != std::string::npos;
+                                    });
+    if (!warned) summary.warnings.push_back({id, choices.reason.at(id)});
+  }
+}
+
 }  // namespace
 
 RunOutcome run_study(const Study& study,
@@ -512,7 +601,18 @@ RunOutcome run_study(const Study& study,
   // empty) when the run fails.
   const OutputFolderLock::Handle lock = OutputFolderLock::acquire(run_folder(req));
   check_run_request(study, req);
-  network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id));
+  const StudySettings& set = study.settings();
+  const network::ClockOptions clock = run_clock(set);
+  // Automatic choice: a first pass (the first half of the progress) judges every reach.
+  std::optional<WaveChoices> choices;
+  network::ProgressFn second_half = progress;
+  if (set.automatic_wave_choice) {
+    const network::ProgressFn first_half = [&](double f) { if (progress) progress(0.5 * f); };
+    choices = choose_waves(study, req, clock, first_half, cancel);
+    second_half = [&](double f) { if (progress) progress(0.5 + 0.5 * f); };
+  }
+  network::Model model = study.build_model(req.scenario_id, study.storm(req.storm_id),
+                                           choices ? choices->scheme_fn() : ReachSchemeFn{});
   const std::vector<StationDescription> stations = study.stations(req.scenario_id);
   const std::vector<std::size_t> exported = export_indices(req, stations);
   if (!exported.empty()) (void)export_grid(study, req);  // bad interval: fail before routing
@@ -525,18 +625,17 @@ RunOutcome run_study(const Study& study,
   for (std::size_t i : exported) recorder.keep_series(i);
   if (report_series_fit(study, stations)) recorder.keep_output_series();
 
-  const StudySettings& set = study.settings();
-  const network::ClockOptions clock = run_clock(set);
   RunOutcome out;
   out.scenario_id = req.scenario_id;
   out.storm_id = req.storm_id;
-  out.numerics = simulate_located(study, req, model, clock, sink, progress);
+  out.numerics = simulate_located(study, req, model, clock, sink, second_half);
   const std::string title =
       set.title + ", storm " + req.storm_id +
       (req.scenario_id.empty() ? " (base)" : ", scenario " + req.scenario_id);
   static_cast<reporting::RunReport&>(out) =
       reporting::report_run(model, out.numerics, recorder,
                             {title, req.source, clock, study.settings().start_iso});
+  if (choices) report_choices(*choices, out.summary);
   write_run_files(study, req, recorder, stations, exported, results, files, out);
   // The commit point: every file is complete in the staging folder.
   if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");

@@ -2,6 +2,7 @@
 // the criteria of Ponce, Li & Simons (1978), "Applicability of kinematic and diffusion
 // models", J. Hydraulics Div. ASCE 104(HY3), 353-360.
 #include "freshet/routing/applicability.hpp"
+#include "freshet/routing/routing_options.hpp"
 
 #include <gtest/gtest.h>
 
@@ -58,6 +59,18 @@ TEST(WaveApplicability, ThresholdsSeparateKinematicDiffusionAndDynamicWaves) {
 
   EXPECT_TRUE(wave_applicability(85.0, 1.0, 1.0, 1.0).kinematic_ok);
   EXPECT_FALSE(wave_applicability(84.999, 1.0, 1.0, 1.0).kinematic_ok);
+}
+
+// The choice of method follows the two criteria (Ponce 1989): kinematic where its number holds
+// (whatever the diffusion number), diffusion where only the diffusion number holds, neither
+// below both. The scheme registry knows which scheme routes which wave.
+TEST(WaveApplicability, ChoosesTheWaveFromTheTwoCriteria) {
+  EXPECT_EQ(choose_wave(wave_applicability(85.0, 1.0, 1.0, 1.0)), WaveChoice::kKinematic);
+  EXPECT_EQ(choose_wave(wave_applicability(3600.0, 0.001, 1.0, 0.05)), WaveChoice::kDiffusion);
+  EXPECT_EQ(choose_wave(wave_applicability(600.0, 0.0001, 1.0, 4.0)), WaveChoice::kNeither);
+  EXPECT_TRUE(routes_diffusion_wave(SchemeKind::kMuskingumCunge));
+  EXPECT_FALSE(routes_diffusion_wave(SchemeKind::kMusclHeun));
+  EXPECT_FALSE(routes_diffusion_wave(SchemeKind::kCharacteristics));
 }
 
 TEST(WaveApplicability, RejectsNonPositiveOrNonFiniteInput) {

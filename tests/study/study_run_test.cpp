@@ -11,6 +11,7 @@
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
+#include <map>
 #include <string>
 
 #include "freshet/core/error.hpp"
@@ -367,6 +368,52 @@ TEST(RunSummary, AReachRoutedByTheDiffusionWaveAttenuatesTheFlood) {
   // closed form is in tests/routing/muskingum_cunge_test.cpp.
   EXPECT_LT(diffusion, 0.985 * kinematic);
   EXPECT_GT(diffusion, 0.9 * kinematic);
+}
+
+// wave_choice = "automatic": a first pass with the kinematic wave measures each reach's flood,
+// and Ponce's criteria (Ponce, Li & Simons 1978; Ponce 1989: kinematic wave where
+// t_r S0 u0/d0 >= 85, diffusion wave where only t_r S0 (g/d0)^0.5 >= 15) choose its method.
+// Three reaches in a row, steep, mild and flat; the report says which method each used and
+// why, and the flat one, which neither wave suits, is warned about.
+TEST(RunSummary, AutomaticWaveChoiceFollowsPoncesCriteriaAndSaysWhy) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n10,0.5\n70,12.0\n190,0.5\n600,0.5\n");
+  std::string text = head(10.0);
+  text.insert(text.find("[[storm]]"), "wave_choice = \"automatic\"\n");
+  const auto reach = [](const std::string& id, const std::string& to, double slope) {
+    return "[[reach]]\nid = \"" + id + "\"\nto = \"" + to + "\"\nlength = 3000.0\nslope = " +
+           std::to_string(slope) +
+           "\nmanning_n = 0.035\nsection = { shape = \"rectangular\", bottom_width = 6.0 }\n";
+  };
+  const RunOutcome r = run(dir, text + "[[inflow]]\nid = \"spring\"\nto = \"steep\"\nfile = \"q.csv\"\n" +
+                                    reach("steep", "mild", 0.06) + reach("mild", "flat", 0.004) +
+                                    reach("flat", "out", 0.0003) + "[[outlet]]\nid = \"out\"\n");
+  std::map<std::string, reporting::ReachMethodRecord> method;
+  for (const auto& m : r.summary.methods) method[m.element] = m;
+  ASSERT_EQ(method.size(), 3u);
+  EXPECT_EQ(method["steep"].wave, "kinematic");
+  EXPECT_EQ(method["steep"].scheme, "muscl-heun");
+  EXPECT_NE(method["steep"].reason.find(">= 85"), std::string::npos) << method["steep"].reason;
+  EXPECT_EQ(method["mild"].wave, "diffusion");
+  EXPECT_EQ(method["mild"].scheme, "muskingum-cunge");
+  EXPECT_NE(method["mild"].reason.find(">= 15"), std::string::npos) << method["mild"].reason;
+  EXPECT_EQ(method["flat"].wave, "diffusion");
+  EXPECT_NE(method["flat"].reason.find("NEITHER"), std::string::npos) << method["flat"].reason;
+  EXPECT_TRUE(has_warning(r, "flat", "dynamic-wave"));
+  // The reach the diffusion wave suits is no longer warned about.
+  EXPECT_FALSE(has_warning(r, "mild", "t_r S0"));
+}
+
+// Without wave_choice the basin file's schemes are used and said so.
+TEST(RunSummary, TheReportSaysWhichMethodEachReachUsed) {
+  TempDir dir;
+  write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1.0\n60,1.0\n");
+  const RunOutcome r = run(dir, head(1.0) + spring_reach_outlet());
+  ASSERT_EQ(r.summary.methods.size(), 1u);
+  EXPECT_EQ(r.summary.methods[0].element, "r1");
+  EXPECT_EQ(r.summary.methods[0].scheme, "muscl-heun");
+  EXPECT_EQ(r.summary.methods[0].wave, "kinematic");
+  EXPECT_EQ(r.summary.methods[0].reason, "as given in the basin file");
 }
 
 }  // namespace

@@ -107,6 +107,15 @@ struct WaveNumberRecord {
   double diffusion_number = kNotApplicable;  // t_r S0 (g/d0)^(1/2), diffusion wave >= 15
 };
 
+// How one reach was routed: its scheme, the wave that scheme represents, and why it was used
+// (the basin file's choice, or wave_choice = "automatic" with Ponce's numbers).
+struct ReachMethodRecord {
+  std::string element;
+  std::string scheme;  // e.g. "muscl-heun", "muskingum-cunge"
+  std::string wave;    // "kinematic" or "diffusion"
+  std::string reason;
+};
+
 struct RunSummary {
   std::string title;   // e.g. "freshet run of basin 'Alder Brook', storm 100-year 6-hour"
   std::string source;  // freshet version string
@@ -117,6 +126,7 @@ struct RunSummary {
   std::vector<ShockRecord> shocks;
   std::vector<MassBalanceRecord> mass_balance;
   std::vector<WaveNumberRecord> wave_numbers;
+  std::vector<ReachMethodRecord> methods;  // one per reach, network order
   std::vector<ApplicabilityWarning> warnings;
 };
 

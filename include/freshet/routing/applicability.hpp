@@ -28,6 +28,12 @@ struct WaveApplicability {
   bool diffusion_ok = false;      // diffusion_number >= 15
 };
 
+// Ponce's criteria as a choice of method: the kinematic wave where its number is >= 85, the
+// diffusion wave where only the diffusion number is >= 15, neither below both (a dynamic-wave
+// model is needed there).
+enum class WaveChoice { kKinematic, kDiffusion, kNeither };
+[[nodiscard]] WaveChoice choose_wave(const WaveApplicability& a) noexcept;
+
 // Throws InputError unless time_of_rise_s, bed_slope, mean_velocity_m_s and flow_depth_m are
 // all finite and positive.
 [[nodiscard]] WaveApplicability wave_applicability(double time_of_rise_s, double bed_slope,

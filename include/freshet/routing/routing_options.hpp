@@ -39,6 +39,9 @@ enum class Limiter { kMinmod, kVanLeer };
 // Every registered scheme's name, in the order of SchemeKind (what a study file may choose).
 [[nodiscard]] std::vector<std::string> scheme_names();
 [[nodiscard]] Limiter parse_limiter(std::string_view name);
+// True for a scheme that routes the diffusion wave (it declares kDiffusionWave), false for the
+// kinematic-wave schemes.
+[[nodiscard]] bool routes_diffusion_wave(SchemeKind kind) noexcept;
 
 struct ShockDetectionOptions {
   bool enabled = true;

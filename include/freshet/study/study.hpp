@@ -17,6 +17,7 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
 #include <memory>
 #include <optional>
 #include <string>
@@ -44,6 +45,9 @@ struct StudySettings {
   routing::RoutingOptions channel_routing;  // reaches
   routing::RoutingOptions plane_routing;    // overland planes
   network::RunBudget budget;                // max_cell_steps, max_memory_mb
+  // wave_choice = "automatic": each reach routed by the kinematic or the diffusion wave as
+  // Ponce's criteria judge its flood (a first pass with the kinematic wave measures it).
+  bool automatic_wave_choice = false;
 
   // The clock of every run: from time 0 to duration_s, samples at the output interval,
   // elements coupled at the step the driver takes.
@@ -69,6 +73,11 @@ struct ScenarioDefinition {
 
 using reporting::StationDescription;
 
+// The scheme a reach is built with, from its id and the scheme the file gives it (a run may
+// choose per reach, as wave_choice = "automatic" does).
+using ReachSchemeFn = std::function<routing::SchemeKind(const std::string& reach_id,
+                                                        routing::SchemeKind given)>;
+
 class Study {
  public:
   // Reads and checks the file; throws InputError listing every problem found.
@@ -91,7 +100,8 @@ class Study {
   // A fresh model of the base network (scenario_id empty) or of a scenario, with every
   // subcatchment receiving `storm`. Throws InputError for an unknown scenario.
   [[nodiscard]] network::Model build_model(std::string_view scenario_id,
-                                           const StormDefinition& storm) const;
+                                           const StormDefinition& storm,
+                                           const ReachSchemeFn& reach_scheme = {}) const;
 
   Study(Study&&) noexcept;
   Study& operator=(Study&&) noexcept;

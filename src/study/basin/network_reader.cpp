@@ -546,6 +546,7 @@ std::unique_ptr<network::Element> NetworkReader::read_reach(Reader& r, const std
     if (!scheme.empty()) options.scheme = routing::parse_scheme_kind(scheme);
   }
   if (!spec || !clean()) return nullptr;
+  if (reach_scheme_) options.scheme = (*reach_scheme_)(id, options.scheme);
 
   int cell_count = 0;
   if (cells) {

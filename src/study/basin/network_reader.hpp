@@ -63,6 +63,8 @@ class NetworkReader {
   // Reads every element; returns the model (finalized) when no problem was found, and an
   // empty model otherwise (the problems are in the list).
   network::Model build();
+  // Chooses each reach's scheme from its id and the scheme the file gives it (before build()).
+  void set_reach_scheme(const ReachSchemeFn* fn) { reach_scheme_ = fn; }
   // The stations of the model, in model order (valid after build()).
   [[nodiscard]] const std::vector<StationDescription>& stations() const { return stations_; }
 
@@ -98,6 +100,7 @@ class NetworkReader {
   const hydrology::Hyetograph& storm_;
   std::vector<Problem>& problems_;
   std::vector<Problem>* warnings_;
+  const ReachSchemeFn* reach_scheme_ = nullptr;
   network::Model model_;
   std::vector<StationDescription> stations_;
   bool complete_ = true;

@@ -46,7 +46,8 @@ struct Study::Impl {
   network::Model build(std::string_view scenario_id, const hydrology::Hyetograph& rain,
                        std::vector<Problem>& problems,
                        std::vector<StationDescription>* stations_out = nullptr,
-                       std::vector<Problem>* warnings_out = nullptr) const;
+                       std::vector<Problem>* warnings_out = nullptr,
+                       const ReachSchemeFn* reach_scheme = nullptr) const;
 };
 
 // ---- settings ------------------------------------------------------------------------------
@@ -177,6 +178,8 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
       optional_ranged(r, u, "implicit_courant", Q::implicit_courant).value_or(2.0);
   settings.channel_routing.implicit_courant = implicit_courant;
   settings.plane_routing.implicit_courant = implicit_courant;
+  settings.automatic_wave_choice =
+      r.choice("wave_choice", {"as-given", "automatic"}, "as-given") == "automatic";
   // The run budget (network/run_budget.hpp): refused runs name these keys to lift the limit.
   if (auto w = r.optional_positive("max_cell_steps")) settings.budget.max_cell_steps = *w;
   if (auto mb = r.optional_positive("max_memory_mb")) {
@@ -459,13 +462,15 @@ network::Model Study::Impl::build(std::string_view scenario_id,
                                   const hydrology::Hyetograph& rain,
                                   std::vector<Problem>& problems,
                                   std::vector<StationDescription>* stations_out,
-                                  std::vector<Problem>* warnings_out) const {
+                                  std::vector<Problem>* warnings_out,
+                                  const ReachSchemeFn* reach_scheme) const {
   const std::size_t before = problems.size();
   const toml::table* changes_table = checked_changes(scenario_id, problems);
   if (problems.size() != before) return {};
   detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, rain,
                                 problems, crossings.get(), std::string(scenario_id),
                                 warnings_out);
+  if (reach_scheme && *reach_scheme) builder.set_reach_scheme(reach_scheme);
   network::Model model = builder.build();
   if (stations_out) *stations_out = builder.stations();
   return model;
@@ -561,9 +566,11 @@ const ScenarioDefinition& Study::scenario(std::string_view id) const {
 }
 
 network::Model Study::build_model(std::string_view scenario_id,
-                                  const StormDefinition& storm) const {
+                                  const StormDefinition& storm,
+                                  const ReachSchemeFn& reach_scheme) const {
   std::vector<Problem> problems;
-  network::Model model = impl_->build(scenario_id, storm.rain, problems);
+  network::Model model =
+      impl_->build(scenario_id, storm.rain, problems, nullptr, nullptr, &reach_scheme);
   if (!problems.empty()) throw InputError(std::move(problems));
   return model;
 }

@@ -62,6 +62,8 @@ class MuskingumCunge {
  public:
   static constexpr SchemeKind kKind = SchemeKind::kMuskingumCunge;
   static constexpr std::string_view kName = "muskingum-cunge";
+  // Routes the diffusion wave, not the kinematic wave (routes_diffusion_wave()).
+  static constexpr bool kDiffusionWave = true;
   // A diffusion wave does not break: no kinematic shock to detect (0 turns detection off).
   static int front_cells(const RoutingOptions& /*options*/) { return 0; }
 
