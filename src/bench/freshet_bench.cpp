@@ -3,6 +3,8 @@
 //
 //   ./freshet-bench [cells] [repeats]     (defaults 20000 cells, best of 3)
 //   ./freshet-bench --bare-update [cells]  (only the bare update loop of tools/scale_bench.py)
+//   ./freshet-bench --long-reach [cells]   (the single long reach of issue 16; compare with
+//                                           tools/numpy_reach.py in the same session)
 //
 // Prints, per flux law: bare Q(A) evaluations per second; per scheme: cell updates per second
 // (accepted steps x cells), the ratio to the bare loop, the cost per step relative to the
@@ -123,6 +125,37 @@ double bare_update_rate(int cells) {
   return best;
 }
 
+// The single long reach of issue 16: rectangular, 50 m wide, n 0.035, S0 0.001, 20 km in
+// `cells` cells; inflow 20 -> 500 m3/s at 2 h -> 20 m3/s at 6 h; 12 h; explicit upwind at
+// Courant 0.9, advanced in 60 s steps as a network driver calls a reach, the outlet read after
+// each. Cell updates per second of wall time for the whole loop (best of 3), with the grid
+// shock detector on (the default) and off.
+void bench_long_reach(int cells) {
+  const geometry::RectangularFlux law(50.0, 0.035, 0.001);
+  const PiecewiseLinearSeries inflow({0.0, 7200.0, 21600.0}, {20.0, 500.0, 20.0});
+  for (const bool shocks : {true, false}) {
+    double best = 0.0, peak = 0.0;
+    for (int r = 0; r < 3; ++r) {
+      RoutingOptions opt;
+      opt.scheme = SchemeKind::kExplicitUpwind;
+      opt.courant_target = 0.9;
+      opt.shock.enabled = shocks;
+      KinematicReach<geometry::RectangularFlux> reach({"long", 20000.0, cells}, law, opt);
+      reach.set_uniform_discharge(20.0);
+      peak = 0.0;
+      const auto start = Clock::now();
+      for (double t = 0.0; t < 43200.0; t += 60.0) {
+        (void)reach.advance(t, t + 60.0, inflow, LateralInflow::none());
+        peak = std::max(peak, reach.face_flux_m3s().back());
+      }
+      const double wall = seconds_since(start);
+      best = std::max(best, static_cast<double>(reach.diagnostics().cell_updates) / wall);
+    }
+    std::printf("long-reach cells=%d shock-detection=%s cell-updates/s=%.4g outlet-peak=%.2f\n",
+                cells, shocks ? "on" : "off", best, peak);
+  }
+}
+
 template <class Law>
 void bench_law(const char* name, const Law& law, int cells, double base_q, int repeats) {
   const double bare = bare_rate(law, cells, base_q, 400, repeats);
@@ -236,6 +269,15 @@ int main(int argc, char** argv) {
       return 1;
     }
     std::printf("bare-update %.6g\n", bare_update_rate(n));
+    return 0;
+  }
+  if (argc > 1 && std::string(argv[1]) == "--long-reach") {
+    const int n = argc > 2 ? positive(argv[2], 1) : 2000;
+    if (n < 0 || argc > 3) {
+      std::printf("usage: freshet-bench --long-reach [CELLS]   (default 2000)\n");
+      return 1;
+    }
+    bench_long_reach(n);
     return 0;
   }
   const int cells = argc > 1 ? positive(argv[1], 1) : 20000;

@@ -54,7 +54,10 @@ std::vector<double> LateralInflow::breakpoint_times_s() const {
 }
 
 CellLateralMap::CellLateralMap(const LateralInflow& lateral, int cell_count, double cell_width_m)
-    : cell_count_(cell_count), row_begin_(static_cast<std::size_t>(cell_count) + 1, 0) {
+    : cell_count_(cell_count),
+      cell_width_m_(cell_width_m),
+      station_m_(lateral.station_m()),
+      row_begin_(static_cast<std::size_t>(cell_count) + 1, 0) {
   const auto& st = lateral.station_m();
   per_stretch_.assign(lateral.rate_m2s().size(), 0.0);
   for (int i = 0; i < cell_count; ++i) {

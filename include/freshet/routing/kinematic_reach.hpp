@@ -187,8 +187,8 @@ AdvanceResult KinematicReach<F>::advance(double t0_s, double t1_s,
   problems.append(detail::validate_advance(t0_s, t1_s, time_s_, inflow_m3s));
   problems.throw_if_any();
   if (lateral.is_none()) {
-    state_.lateral_map = CellLateralMap{};
-  } else {
+    if (!state_.lateral_map.is_none()) state_.lateral_map = CellLateralMap{};
+  } else if (!state_.lateral_map.fits(lateral, spec_.cell_count, state_.dx_m)) {
     state_.lateral_map = CellLateralMap(lateral, spec_.cell_count, state_.dx_m);
     state_.lateral_m3.resize(n());
   }

@@ -55,6 +55,13 @@ class CellLateralMap {
   // rate_m3s[i] = inflow rate into cell i at time t_s. Returns the total.
   double rates_m3s(const LateralInflow& lateral, double t_s, std::vector<double>& rate_m3s) const;
   [[nodiscard]] bool is_none() const noexcept { return stretch_.empty(); }
+  // True when this map was built for the same stations, cell count and cell width: a reach
+  // keeps its map from one advance() to the next instead of rebuilding it (issue 16).
+  [[nodiscard]] bool fits(const LateralInflow& lateral, int cell_count,
+                          double cell_width_m) const noexcept {
+    return !is_none() && cell_count == cell_count_ && cell_width_m == cell_width_m_ &&
+           lateral.station_m() == station_m_;
+  }
   [[nodiscard]] std::size_t memory_bytes() const noexcept {
     return row_begin_.capacity() * sizeof(int) + stretch_.capacity() * sizeof(int) +
            overlap_m_.capacity() * sizeof(double);
@@ -62,6 +69,8 @@ class CellLateralMap {
 
  private:
   int cell_count_ = 0;
+  double cell_width_m_ = 0.0;
+  std::vector<double> station_m_;     // the stations the map was built for
   std::vector<int> row_begin_;        // cell_count_ + 1 offsets into stretch_/overlap_m_
   std::vector<int> stretch_;          // stretch index
   std::vector<double> overlap_m_;     // overlap length of cell and stretch
