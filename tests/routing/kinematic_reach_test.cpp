@@ -87,6 +87,24 @@ TEST(LateralInflowTest, RejectsBadStationsAndNegativeRates) {
   }
 }
 
+// A reach keeps its lateral map between advance() calls only while the stretches are the same
+// (issue 16): when they change, the volume delivered follows the new stretches exactly
+// (rate x stretch length x time: the integral of a constant, no source needed).
+TEST(LateralInflowTest, NewStretchesBetweenAdvancesAreFollowed) {
+  KinematicReach<PowerLawFlux> reach({"mill-race", 2000.0, 40}, wide_manning(10, 0.03, 1e-3));
+  const auto q = PiecewiseLinearSeries::constant(0.0);
+  const auto whole = LateralInflow::uniform(2000.0, PiecewiseLinearSeries::constant(1e-3));
+  const LateralInflow lower_half({0.0, 1000.0, 2000.0}, {PiecewiseLinearSeries::constant(0.0),
+                                                         PiecewiseLinearSeries::constant(1e-3)});
+  double expected_m3 = 0.0;
+  for (int k = 0; k < 6; ++k) {
+    const bool halves = k % 3 == 1;  // whole, half, whole, whole, half, whole
+    (void)reach.advance(100.0 * k, 100.0 * (k + 1), q, halves ? lower_half : whole);
+    expected_m3 += (halves ? 1000.0 : 2000.0) * 1e-3 * 100.0;
+    EXPECT_NEAR(reach.ledger().lateral_m3, expected_m3, 1e-12 * expected_m3) << k;
+  }
+}
+
 // A hydrograph rising from base flow to a peak and back, and lateral inflow that differs in
 // time and along the reach: the forcing of every volume-balance test.
 struct Forcing {
