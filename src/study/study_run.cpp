@@ -580,8 +580,9 @@ void report_choices(const WaveChoices& choices, RunSummary& summary) {
                    ? it->second
                    : "automatic: kinematic wave, no rising flood in the first pass to judge";
   }
-  for (const auto& [id, c] : choices.choice) {
+  for (const auto& [element, c] : choices.choice) {
     if (c != routing::WaveChoice::kNeither) continue;
+    const std::string& id = element;  // clang 14 cannot capture a structured binding
     const bool warned = std::any_of(summary.warnings.begin(), summary.warnings.end(),
                                     [&](const reporting::ApplicabilityWarning& w) {
                                       return w.element == id &&
