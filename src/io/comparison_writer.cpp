@@ -13,7 +13,6 @@ using reporting::ComparisonRow;
 
 namespace {
 
-std::string csv_number(double v) { return std::isnan(v) ? "" : format_value(v); }
 nlohmann::json json_number(double v) {
   return std::isnan(v) ? nlohmann::json(nullptr) : nlohmann::json(v);
 }

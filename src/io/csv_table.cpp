@@ -1,9 +1,11 @@
 #include "freshet/io/csv_table.hpp"
 
+#include <cmath>
 #include <memory>
 #include <nlohmann/json.hpp>
 
 #include "freshet/core/caution.hpp"
+#include "freshet/core/error.hpp"
 
 namespace freshet::io {
 
@@ -16,6 +18,8 @@ std::string csv_field(std::string_view text) {
   for (const char c : text) out += (c == '"') ? std::string("\"\"") : std::string(1, c);
   return out + "\"";
 }
+
+std::string csv_number(double v) { return std::isnan(v) ? "" : format_value(v); }
 
 std::filesystem::path csv_metadata_path(const std::filesystem::path& csv_path) {
   return csv_path.string() + "-metadata.json";

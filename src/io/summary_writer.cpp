@@ -133,13 +133,6 @@ std::string check_lines(const RunSummary& s) {
 
 // ---- CSV ----------------------------------------------------------------------------------
 
-std::string csv_number(double v) {
-  if (std::isnan(v)) return "";
-  return format_value(v);  // shortest round-trip form
-}
-
-std::string csv_text(const std::string& s) { return csv_field(s); }
-
 // The sidecar description shared by the three summary CSVs: what, the run's title, the time
 // origin of the *_time_s columns, the caution (added by the sidecar writer).
 CsvDescription summary_description(const RunSummary& s, const std::string& what,
@@ -213,7 +206,7 @@ std::string stations_csv(const RunSummary& s) {
   std::string out = "station_id,name,peak_discharge_m3s,peak_time_s,peak_stage_m,"
                     "runoff_volume_m3,centroid_time_s,centroid_lag_s\n";
   for (const auto& r : s.stations) {
-    out += csv_text(r.station_id) + "," + csv_text(r.name) + "," +
+    out += csv_field(r.station_id) + "," + csv_field(r.name) + "," +
            csv_number(r.peak_discharge_m3s) + "," + csv_number(r.peak_time_s) + "," +
            csv_number(r.peak_stage_m) + "," + csv_number(r.runoff_volume_m3) + "," +
            csv_number(r.centroid_time_s) + "," + csv_number(r.centroid_lag_s) + "\n";
@@ -225,7 +218,7 @@ std::string pairs_csv(const RunSummary& s) {
   std::string out = "upstream_id,downstream_id,peak_attenuation_m3s,peak_attenuation_percent,"
                     "peak_time_shift_s,volume_change_m3\n";
   for (const auto& r : s.pairs) {
-    out += csv_text(r.upstream_id) + "," + csv_text(r.downstream_id) + "," +
+    out += csv_field(r.upstream_id) + "," + csv_field(r.downstream_id) + "," +
            csv_number(r.peak_attenuation_m3s) + "," + csv_number(r.peak_attenuation_percent) +
            "," + csv_number(r.peak_time_shift_s) + "," + csv_number(r.volume_change_m3) + "\n";
   }
@@ -249,10 +242,10 @@ constexpr const char* kWaveColumnNames =
     ",plane,breaks,length_m,speed_m_s,rankine_hugoniot_m_s,discharge_jump_m3s,depth_jump_m,"
     "fate,end_time_s,found_by";
 std::string csv_wave_columns(const WaveColumns& w) {
-  return "," + csv_text(w.plane) + "," + w.breaks + "," + csv_number(w.length_m) + "," +
+  return "," + csv_field(w.plane) + "," + w.breaks + "," + csv_number(w.length_m) + "," +
          csv_number(w.speed_m_s) + "," + csv_number(w.rankine_hugoniot_m_s) + "," +
          csv_number(w.discharge_jump_m3s) + "," + csv_number(w.depth_jump_m) + "," +
-         csv_text(w.fate) + "," + csv_number(w.end_time_s) + "," + csv_text(w.found_by);
+         csv_field(w.fate) + "," + csv_number(w.end_time_s) + "," + csv_field(w.found_by);
 }
 const std::string kNoWaveColumns = csv_wave_columns({});
 
@@ -265,8 +258,8 @@ std::string checks_csv(const RunSummary& s) {
     w.plane = r.plane;
     w.breaks = r.breaks ? "true" : "false";
     w.length_m = r.length_m;
-    out += "breaking," + csv_text(r.element) + "," + csv_number(r.time_s) + "," +
-           csv_number(r.chainage_m) + ",,,,,," + csv_text(r.message) + csv_wave_columns(w) +
+    out += "breaking," + csv_field(r.element) + "," + csv_number(r.time_s) + "," +
+           csv_number(r.chainage_m) + ",,,,,," + csv_field(r.message) + csv_wave_columns(w) +
            "\n";
   }
   for (const auto& r : s.shocks) {
@@ -274,8 +267,8 @@ std::string checks_csv(const RunSummary& s) {
                         r.speed_m_s,       r.rankine_hugoniot_m_s, r.discharge_jump_m3s,
                         r.depth_jump_m,    r.fate,      r.end_time_s,
                         r.found_by};
-    out += "shock," + csv_text(r.element) + "," + csv_number(r.time_s) + "," +
-           csv_number(r.chainage_m) + ",,,,,," + csv_text(r.message) + csv_wave_columns(w) +
+    out += "shock," + csv_field(r.element) + "," + csv_number(r.time_s) + "," +
+           csv_number(r.chainage_m) + ",,,,,," + csv_field(r.message) + csv_wave_columns(w) +
            "\n";
     for (const auto& p : r.path) {
       WaveColumns pw;
@@ -283,30 +276,30 @@ std::string checks_csv(const RunSummary& s) {
       pw.rankine_hugoniot_m_s = p.rankine_hugoniot_m_s;
       pw.discharge_jump_m3s = p.discharge_jump_m3s;
       pw.found_by = r.found_by;
-      out += "shock_path," + csv_text(r.element) + "," + csv_number(p.time_s) + "," +
+      out += "shock_path," + csv_field(r.element) + "," + csv_number(p.time_s) + "," +
              csv_number(p.chainage_m) + ",,,,,," + csv_wave_columns(pw) + "\n";
     }
   }
   for (const auto& r : s.mass_balance) {
-    out += "mass_balance," + csv_text(r.element) + ",,," + csv_number(r.inflow_volume_m3) + "," +
+    out += "mass_balance," + csv_field(r.element) + ",,," + csv_number(r.inflow_volume_m3) + "," +
            csv_number(r.outflow_volume_m3) + "," + csv_number(r.storage_change_m3) + "," +
            csv_number(r.error_m3) + "," + csv_number(r.relative_error) + "," + kNoWaveColumns +
            "\n";
   }
   for (const auto& r : s.wave_numbers) {
-    out += "wave_numbers," + csv_text(r.element) + ",,,,,,,," +
-           csv_text("time_of_rise_s=" + csv_number(r.time_of_rise_s) +
+    out += "wave_numbers," + csv_field(r.element) + ",,,,,,,," +
+           csv_field("time_of_rise_s=" + csv_number(r.time_of_rise_s) +
                     "; kinematic_number=" + csv_number(r.kinematic_number) +
                     "; diffusion_number=" + csv_number(r.diffusion_number)) +
            kNoWaveColumns + "\n";
   }
   for (const auto& r : s.methods) {
-    out += "method," + csv_text(r.element) + ",,,,,,,," +
-           csv_text("scheme=" + r.scheme + "; wave=" + r.wave + "; reason=" + r.reason) +
+    out += "method," + csv_field(r.element) + ",,,,,,,," +
+           csv_field("scheme=" + r.scheme + "; wave=" + r.wave + "; reason=" + r.reason) +
            kNoWaveColumns + "\n";
   }
   for (const auto& r : s.warnings) {
-    out += "applicability," + csv_text(r.element) + ",,,,,,,," + csv_text(r.message) +
+    out += "applicability," + csv_field(r.element) + ",,,,,,,," + csv_field(r.message) +
            kNoWaveColumns + "\n";
   }
   return out;

@@ -29,6 +29,8 @@ inline constexpr int kOutputFormatVersion = 2;
 // '#' (a reader told to skip '#' comments would otherwise cut the row), or starts or ends
 // with a space; other text is returned as it is.
 std::string csv_field(std::string_view text);
+// A number in its shortest round-trip form; NaN (not applicable) as an empty field.
+std::string csv_number(double v);
 
 struct CsvColumn {
   std::string name;         // the header's name, e.g. "peak_discharge_m3s"
