@@ -20,6 +20,7 @@ void HortonParameters::validate(ProblemList& problems) const {
                      "must be >= final_capacity_m_s = " + format_value(final_capacity_m_s));
   }
   problems.require_positive("decay_rate_per_s", decay_rate_per_s);
+  problems.require_non_negative("recovery_rate_per_s", recovery_rate_per_s);
 }
 
 double HortonParameters::ponded_infiltration_m(double time_s) const {
@@ -55,6 +56,14 @@ double HortonParameters::equivalent_time_s(double cumulative_m, std::string_view
                         });
 }
 
+double HortonParameters::recovered_time_s(double tau_s, double dry_s) const {
+  const double k = decay_rate_per_s;
+  // f_0 - f = (f_0 - f_c)(1 - e^(-k tau)) shrinks by e^(-k_d dt); expm1/log1p keep the
+  // small-tau end exact. tau = inf (capacity at f_c) gives expm1 = -1.
+  const double lost = -std::expm1(-k * tau_s) * std::exp(-recovery_rate_per_s * dry_s);
+  return -std::log1p(-lost) / k;
+}
+
 HortonLoss::HortonLoss(const HortonParameters& parameters, const std::string& element)
     : parameters_(parameters), element_(element) {
   ProblemList problems(element);
@@ -80,8 +89,22 @@ double HortonLoss::ponded_increment_m(double tau_s, double duration_s) const {
   return fc * duration_s + decaying;
 }
 
+void HortonLoss::recover(double dry_s) {
+  const HortonParameters& p = parameters_;
+  // A soil with f_0 = f_c has nothing to recover; F = 0 is already the full capacity.
+  if (p.recovery_rate_per_s <= 0.0 || infiltrated_m_ <= 0.0 ||
+      p.initial_capacity_m_s == p.final_capacity_m_s) {
+    return;
+  }
+  const double tau = p.equivalent_time_s(infiltrated_m_, element_);
+  infiltrated_m_ = std::min(infiltrated_m_, p.ponded_infiltration_m(p.recovered_time_s(tau, dry_s)));
+}
+
 LossStep HortonLoss::split(double rain_depth_m, double step_s) {
-  if (rain_depth_m <= 0.0) return {};
+  if (rain_depth_m <= 0.0) {
+    recover(step_s);
+    return {};
+  }
   const HortonParameters& p = parameters_;
   const double i = rain_depth_m / step_s;
   const double f = infiltrated_m_;

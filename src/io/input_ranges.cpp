@@ -137,6 +137,11 @@ constexpr std::array<InputRange, kQuantityCount> kRanges{{
   {Quantity::horton_decay, "Horton decay constant", Measure::per_hour,
    0.0, true, 1000.0, false, "the rate falls by e in more than 3.6 s; our criterion",
    0.5, 20.0, "ASCE (1992): 2 to 5 per hour typical (4.14 per hour), from memory"},
+  {Quantity::horton_recovery, "Horton recovery constant", Measure::per_hour,
+   0.0, false, 1000.0, false, "the capacity recovers by e in more than 3.6 s; our criterion",
+   0.01, 0.2,
+   "a dry soil's capacity back within 2 % of f0 after 1 to 14 days of drying, k_d = "
+   "ln(50) / drying time; common practice, no source"},
   {Quantity::initial_loss, "initial loss", Measure::depth,
    0.0, false, 1.0, false, "at most 1 m of water; our criterion",
    0.0, 100.0 * kMm, kCommon},

@@ -76,6 +76,7 @@ enum class Quantity {
   horton_initial_rate,
   horton_final_rate,
   horton_decay,
+  horton_recovery,
   initial_loss,
   continuing_rate,
   impervious_fraction,

@@ -295,6 +295,9 @@ hydrology::HortonParameters read_horton(FieldReader& l, const InputUnits& u) {
   p.initial_capacity_m_s = u.rate_m_s(f0);
   p.final_capacity_m_s = u.rate_m_s(fc);
   p.decay_rate_per_s = ranged(l, u, "decay_per_h", Q::horton_decay) / units::kSecondsPerHour;
+  p.recovery_rate_per_s =
+      optional_ranged(l, u, "recovery_per_h", Q::horton_recovery).value_or(0.0) /
+      units::kSecondsPerHour;
   return p;
 }
 
