@@ -13,6 +13,7 @@ void ImperviousCover::validate(ProblemList& problems) const {
                      "must be in [0, 1]");
   }
   problems.require_non_negative("impervious_depression_storage_m", depression_storage_m);
+  problems.require_non_negative("impervious_evaporation_m_s", evaporation_m_s);
 }
 
 CompositeLoss::CompositeLoss(const ImperviousCover& cover, std::unique_ptr<LossModel> pervious,
@@ -40,6 +41,7 @@ void CompositeLoss::reset_state() {
 }
 
 LossStep CompositeLoss::split(double rain_depth_m, double step_s) {
+  if (rain_depth_m <= 0.0) stored_m_ = std::max(0.0, stored_m_ - cover_.evaporation_m_s * step_s);
   const double held = std::min(rain_depth_m, cover_.depression_storage_m - stored_m_);
   stored_m_ += held;
   const LossStep pervious = pervious_->step(rain_depth_m, step_s);

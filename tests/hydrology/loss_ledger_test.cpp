@@ -68,6 +68,37 @@ TEST(CompositeLoss, ImperviousShareRunsOffAfterDepressionStorage) {
   }
 }
 
+// Depression storage that empties by evaporation at a stated constant rate in dry steps
+// (common practice, no source): 2 mm of storage at 0.1 mm/h holds 1 mm after 10 dry hours,
+// is empty after 20 however the dry spell is cut, and then holds its full 2 mm of the next
+// burst again. No evaporation while it rains. The ledger still closes (held water stays a
+// loss when it evaporates).
+TEST(CompositeLoss, DepressionStorageEmptiesByEvaporationInDrySteps) {
+  for (int dry_steps : {1, 5, 120}) {
+    CompositeLoss cover({.fraction = 1.0, .depression_storage_m = 0.002,
+                         .evaporation_m_s = 0.1 * kMmPerHour},
+                        std::make_unique<InitialContinuingLoss>(InitialContinuingParameters{},
+                                                                kName),
+                        kName);
+    EXPECT_NEAR(cover.excess_depth_m(0.005, kHour), 0.003, 1e-15);
+    EXPECT_EQ(cover.impervious_storage_filled_m(), 0.002);
+    for (int s = 0; s < dry_steps; ++s) cover.step(0.0, 10.0 * kHour / dry_steps);
+    EXPECT_NEAR(cover.impervious_storage_filled_m(), 0.001, 1e-15) << dry_steps;
+    cover.step(0.0, 10.0 * kHour + 1.0);  // past empty: stays at zero
+    EXPECT_EQ(cover.impervious_storage_filled_m(), 0.0);
+    EXPECT_NEAR(cover.excess_depth_m(0.003, kHour), 0.001, 1e-15);
+    for (int s = 0; s < 3; ++s) cover.step(0.001, kHour);  // raining: nothing evaporates
+    EXPECT_EQ(cover.impervious_storage_filled_m(), 0.002);
+    EXPECT_NEAR(cover.ledger().closure_error_m(), 0.0, 1e-15);
+  }
+  EXPECT_THROW(CompositeLoss({.fraction = 0.5, .depression_storage_m = 0.001,
+                              .evaporation_m_s = -1e-9},
+                             std::make_unique<InitialContinuingLoss>(
+                                 InitialContinuingParameters{}, kName),
+                             kName),
+               InputError);
+}
+
 std::vector<std::unique_ptr<LossModel>> every_model() {
   std::vector<std::unique_ptr<LossModel>> models;
   models.push_back(std::make_unique<CurveNumberLoss>(CurveNumberParameters{.curve_number = 78},

@@ -2,7 +2,9 @@
 // The impervious fraction holds rain in its own depression storage until that is full, then
 // runs off everything; the pervious rest follows any other LossModel. Loss and excess are
 // area-weighted: excess = f_imp * excess_imp + (1 - f_imp) * excess_perv (per unit area of
-// the whole subcatchment). Depression storage does not empty between storms.
+// the whole subcatchment). Depression storage empties by evaporation at a stated constant
+// rate e over every step without rain (none while it rains), so a store S is empty again
+// after S / e of dry weather (common practice, no source; 0, the default, never empties it).
 //
 //   CompositeLoss cover({.fraction = 0.35, .depression_storage_m = 0.002},
 //                       std::make_unique<CurveNumberLoss>(CurveNumberParameters{.curve_number = 68.0},
@@ -21,6 +23,7 @@ namespace freshet::hydrology {
 struct ImperviousCover {
   double fraction = 0.0;              // impervious share of the plan area, in [0, 1]
   double depression_storage_m = 0.0;  // depth held on the impervious part (m), >= 0
+  double evaporation_m_s = 0.0;       // rate the held depth evaporates in dry steps (m/s), >= 0
 
   void validate(ProblemList& problems) const;
 };

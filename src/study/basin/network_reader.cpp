@@ -266,6 +266,18 @@ hydrology::CurveNumberParameters read_curve_number(FieldReader& l) {
                  "); freshet converts a curve number only from the 0.2 basis to 0.05");
   }
   p.convert_storage_for_ratio_0_05 = p.initial_abstraction_ratio == 0.05 && basis == 0.2;
+  const std::string season =
+      l.choice("antecedent_season", {"none", "dormant", "growing"}, std::string("none"));
+  p.antecedent.season = season == "dormant"   ? hydrology::GrowingSeason::dormant
+                        : season == "growing" ? hydrology::GrowingSeason::growing
+                                              : hydrology::GrowingSeason::none;
+  const auto gap_h = optional_ranged(l, ratios, "event_gap_h", Q::event_gap_h);
+  if (gap_h && p.antecedent.season == hydrology::GrowingSeason::none) {
+    l.report("event_gap_h", quoted(*gap_h, "h") +
+                                ": has no effect without antecedent_season (give \"dormant\" "
+                                "or \"growing\", or remove this key)");
+  }
+  p.antecedent.event_gap_s = gap_h.value_or(6.0) * units::kSecondsPerHour;
   return p;
 }
 
@@ -343,16 +355,28 @@ std::unique_ptr<hydrology::LossModel> read_loss(FieldReader& l, const InputUnits
   auto pervious = read_pervious_loss(l, u, element);
   const auto fraction = optional_ranged(l, u, "impervious_fraction", Q::impervious_fraction);
   const auto storage = optional_ranged(l, u, "impervious_storage", Q::impervious_storage);
+  const auto evaporation =
+      optional_ranged(l, u, "impervious_evaporation", Q::impervious_evaporation);
   if (storage && !fraction) {
     l.report("impervious_storage",
              quoted(*storage, u.depth_unit()) + ": has no effect without impervious_fraction "
                                                 "(give the impervious share, or remove this key)");
   }
-  if (!pervious || (fraction && !(*fraction <= 1.0)) || (storage && !fraction)) return nullptr;
+  if (evaporation && !storage) {
+    l.report("impervious_evaporation",
+             quoted(*evaporation, u.rate_unit()) +
+                 ": has no effect without impervious_storage (give the depression storage it "
+                 "empties, or remove this key)");
+  }
+  if (!pervious || (fraction && !(*fraction <= 1.0)) || (storage && !fraction) ||
+      (evaporation && !storage)) {
+    return nullptr;
+  }
   if (!fraction) return pervious;
   hydrology::ImperviousCover cover;
   cover.fraction = *fraction;
   cover.depression_storage_m = u.rain_depth_m(storage.value_or(0.0));
+  cover.evaporation_m_s = u.rate_m_s(evaporation.value_or(0.0));
   return std::make_unique<hydrology::CompositeLoss>(cover, std::move(pervious), element);
 }
 
