@@ -12,6 +12,7 @@
 #include "freshet/core/error.hpp"
 #include "freshet/core/units.hpp"
 #include "freshet/io/input_ranges.hpp"
+#include "csv_reading.hpp"
 
 namespace freshet::io {
 
@@ -63,63 +64,27 @@ std::string known_names(bool time) {
   return out;
 }
 
-// One comma-separated field of a line, with its 1-based column.
-struct Field {
-  std::string_view text;
-  int column = 1;
-};
+using Field = detail::CsvField;
+using Located = detail::LocatedProblems;
 
-std::string_view trim(std::string_view s, int& column) {
-  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) {
-    s.remove_prefix(1);
-    ++column;
-  }
-  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
-  return s;
-}
-
+// The comma-separated fields of a line. A quoted field is kept (flagged) and refused by
+// parse_number: freshet's own format has no text to quote. A quote left open is reported as
+// quoted too.
 std::vector<Field> split_fields(std::string_view line) {
-  std::vector<Field> fields;
-  std::size_t start = 0;
-  while (true) {
-    const std::size_t comma = line.find(',', start);
-    const std::size_t end = comma == std::string_view::npos ? line.size() : comma;
-    int column = static_cast<int>(start) + 1;
-    const std::string_view text = trim(line.substr(start, end - start), column);
-    fields.push_back({text, column});
-    if (comma == std::string_view::npos) return fields;
-    start = comma + 1;
-  }
+  std::string error;
+  int error_column = 1;
+  if (auto fields = detail::split_csv_record(line, ',', error, error_column)) return *fields;
+  Field f;
+  f.raw = line.substr(static_cast<std::size_t>(error_column - 1));
+  f.text = std::string(f.raw);
+  f.column = error_column;
+  f.quoted = true;
+  return {f};
 }
-
-// Collects located problems for one file; caps the list so a wrong file stays readable.
-class Located {
- public:
-  explicit Located(std::string file) : file_(std::move(file)) {}
-  void add(int line, int column, std::string message) {
-    if (problems_.size() == kMaxProblems) message = "further problems not listed";
-    if (problems_.size() > kMaxProblems) return;
-    Problem p;
-    p.file = file_;
-    p.line = line;
-    p.column = column;
-    p.message = std::move(message);
-    problems_.push_back(std::move(p));
-  }
-  [[nodiscard]] bool empty() const { return problems_.empty(); }
-  void throw_if_any() const {
-    if (!problems_.empty()) throw InputError(problems_);
-  }
-
- private:
-  static constexpr std::size_t kMaxProblems = 50;
-  std::string file_;
-  std::vector<Problem> problems_;
-};
 
 std::optional<double> parse_number(const Field& f, int line, Located& problems) {
-  if (f.text.find('"') != std::string_view::npos) {
-    problems.add(line, f.column, "quoted fields are not supported: " + std::string(f.text));
+  if (f.quoted || f.raw.find('"') != std::string_view::npos) {
+    problems.add(line, f.column, "quoted fields are not supported: " + std::string(f.raw));
     return std::nullopt;
   }
   double v = 0.0;
@@ -240,15 +205,6 @@ struct RowParser {
   }
 };
 
-std::string_view strip_line_end(std::string_view line) {
-  if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
-  return line;
-}
-
-bool is_blank(std::string_view line) {
-  return line.find_first_not_of(" \t") == std::string_view::npos;
-}
-
 std::string comment_text(std::string_view line) {
   line.remove_prefix(line.find('#') + 1);
   if (!line.empty() && line.front() == ' ') line.remove_prefix(1);
@@ -290,20 +246,13 @@ SeriesTable parse_series_csv(std::string_view text, const std::string& file_name
                              SeriesKind kind) {
   Located problems(file_name);
   SeriesTable table;
-  if (text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);
   std::optional<RowParser> rows;
   bool header_seen = false;
-  int line_no = 0;
-  for (std::size_t start = 0; start < text.size();) {
-    const std::size_t nl = text.find('\n', start);
-    const std::size_t end = nl == std::string_view::npos ? text.size() : nl;
-    const std::string_view line = strip_line_end(text.substr(start, end - start));
-    start = end + 1;
-    ++line_no;
-    if (is_blank(line)) continue;
-    if (line[line.find_first_not_of(" \t")] == '#') {
+  const int line_count = detail::for_each_line(text, [&](std::string_view line, int line_no) {
+    if (detail::is_blank(line)) return;
+    if (detail::is_comment(line)) {
       if (!header_seen) table.metadata.push_back(comment_text(line));
-      continue;
+      return;
     }
     if (!header_seen) {
       header_seen = true;
@@ -311,10 +260,11 @@ SeriesTable parse_series_csv(std::string_view text, const std::string& file_name
         table.quantity = quantity_of(units->second);
         rows.emplace(RowParser{units->first, units->second, problems, table});
       }
-      continue;
+      return;
     }
     if (rows) rows->parse(line, line_no);
-  }
+  });
+  const int line_no = line_count;
   if (!header_seen) {  // an empty file is reported at its line 1
     problems.add(std::max(line_no, 1), 0, "no header row (e.g. 'time_s,discharge_m3s') found");
   }
@@ -326,16 +276,7 @@ SeriesTable parse_series_csv(std::string_view text, const std::string& file_name
 }
 
 SeriesTable read_series_csv(const std::filesystem::path& path, SeriesKind kind) {
-  std::error_code ec;
-  if (std::filesystem::is_directory(path, ec)) {  // an ifstream opens a folder as empty
-    throw IoError("cannot open input file '" + path.string() + "': it is a folder");
-  }
-  std::ifstream in(path, std::ios::binary);
-  if (!in) throw IoError("cannot open input file '" + path.string() + "'");
-  std::ostringstream buffer;
-  buffer << in.rdbuf();
-  if (in.bad()) throw IoError("cannot read input file '" + path.string() + "'");
-  return parse_series_csv(buffer.str(), path.string(), kind);
+  return parse_series_csv(detail::read_input_text(path), path.string(), kind);
 }
 
 PiecewiseLinearSeries read_hydrograph_csv(const std::filesystem::path& path) {

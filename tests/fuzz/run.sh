@@ -3,7 +3,7 @@
 # for a bounded time on its corpus; exits non-zero if any target crashes. Used by .ci/run
 # (60 s a target) and for the longer runs recorded in docs/fuzzing.md.
 #
-#   sh tests/fuzz/run.sh [SECONDS_PER_TARGET] [TARGET ...]     # targets: study csv_series tables
+#   sh tests/fuzz/run.sh [SECONDS_PER_TARGET] [TARGET ...]     # targets: study csv_series tables gauge_record
 #
 # Each target first replays its regressions (tests/fuzz/<target>/regressions, inputs that once
 # crashed), then fuzzes from its seeds (tests/fuzz/<target>/seeds and the repository's data
@@ -17,7 +17,7 @@ cd "$(dirname "$0")/../.."
 
 seconds="${1:-60}"
 [ $# -gt 0 ] && shift
-targets="${*:-study csv_series tables}"
+targets="${*:-study csv_series tables gauge_record}"
 build=build-fuzz
 timeout="${FRESHET_FUZZ_TIMEOUT:-60}"
 
@@ -42,6 +42,7 @@ for t in $targets; do
   case "$t" in
     study) data_seeds="basins tests/outputs/data tests/cli/data" ;;
     csv_series) data_seeds="hydrographs tests/outputs/data" ;;
+    gauge_record) data_seeds="basins/gauges" ;;
     *) data_seeds="" ;;
   esac
   still_failing=""

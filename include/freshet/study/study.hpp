@@ -18,6 +18,7 @@
 
 #include <filesystem>
 #include <functional>
+#include <map>
 #include <memory>
 #include <optional>
 #include <string>
@@ -38,6 +39,9 @@ struct StudySettings {
   std::string title;
   units::System units = units::System::si;
   std::string start_iso = "2000-01-01T00:00:00Z";  // the time origin of every output
+  // time_zone: how far local time is ahead of UTC (min); dated records (gauges, observed
+  // hydrographs) and `start` written without a zone are read in it.
+  int time_zone_offset_min = 0;
   double duration_s = 0.0;
   double output_interval_s = 300.0;
   double coupling_step_s = 60.0;
@@ -60,6 +64,9 @@ struct StormDefinition {
   std::string id;
   std::string description;  // e.g. "alternating block, 60 min, 5 min blocks"
   hydrology::Hyetograph rain;
+  // Rain of each subcatchment when it differs from `rain` (a gauge storm: the weighted mix of
+  // its gauges; `rain` is then the plain mean of the gauges, shown by check and the report).
+  std::map<std::string, hydrology::Hyetograph, std::less<>> subcatchment_rain;
   // Set when some of the storm's rain falls after the run ends: a command that would route
   // this storm stops with this problem before routing anything (the file's other storms can
   // still be routed on their own, with --storm); `freshet check` warns.

@@ -60,7 +60,7 @@ CrossingCache::Crossing CrossingCache::get_or_build(const std::string& key,
 
 NetworkReader::NetworkReader(const toml::table& root, const toml::table* changes,
                              std::string file, std::filesystem::path base_dir,
-                             const StudySettings& settings, const hydrology::Hyetograph& storm,
+                             const StudySettings& settings, const StormDefinition& storm,
                              std::vector<Problem>& problems, CrossingCache* cache,
                              std::string cache_scope, std::vector<Problem>* warnings)
     : root_(root),
@@ -445,7 +445,10 @@ std::unique_ptr<network::Element> NetworkReader::read_subcatchment(Reader& r,
   }
   if (!losses || !clean() || !fits) return nullptr;
   check_plane_shape(r, spec, units_);
-  auto model = std::make_unique<hydrology::Subcatchment>(spec, storm_, std::move(losses),
+  const auto own = storm_.subcatchment_rain.find(id);
+  const hydrology::Hyetograph& rain =
+      own == storm_.subcatchment_rain.end() ? storm_.rain : own->second;
+  auto model = std::make_unique<hydrology::Subcatchment>(spec, rain, std::move(losses),
                                                          settings_.plane_routing);
   return std::make_unique<network::SubcatchmentElement>(id, std::move(model));
 }

@@ -56,7 +56,7 @@ class NetworkReader {
   // their plausible ranges (input_ranges.hpp).
   NetworkReader(const toml::table& root, const toml::table* changes, std::string file,
                std::filesystem::path base_dir, const StudySettings& settings,
-               const hydrology::Hyetograph& storm, std::vector<Problem>& problems,
+               const StormDefinition& storm, std::vector<Problem>& problems,
                CrossingCache* cache = nullptr, std::string cache_scope = {},
                std::vector<Problem>* warnings = nullptr);
 
@@ -97,7 +97,7 @@ class NetworkReader {
   std::filesystem::path base_dir_;
   const StudySettings& settings_;
   InputUnits units_;
-  const hydrology::Hyetograph& storm_;
+  const StormDefinition& storm_;  // its rain, or a subcatchment's own (a gauge storm)
   std::vector<Problem>& problems_;
   std::vector<Problem>* warnings_;
   const ReachSchemeFn* reach_scheme_ = nullptr;

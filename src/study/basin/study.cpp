@@ -14,6 +14,8 @@
 #include "freshet/io/csv_series.hpp"
 #include "freshet/io/input_ranges.hpp"
 #include "freshet/io/input_units.hpp"
+#include "freshet/io/iso_time.hpp"
+#include "gauge_storm.hpp"
 #include "network_reader.hpp"
 
 namespace freshet::study {
@@ -43,7 +45,7 @@ struct Study::Impl {
   void read_scenarios(std::vector<Problem>& problems);
   [[nodiscard]] const toml::table* checked_changes(std::string_view scenario_id,
                                                    std::vector<Problem>& problems) const;
-  network::Model build(std::string_view scenario_id, const hydrology::Hyetograph& rain,
+  network::Model build(std::string_view scenario_id, const StormDefinition& storm,
                        std::vector<Problem>& problems,
                        std::vector<StationDescription>* stations_out = nullptr,
                        std::vector<Problem>* warnings_out = nullptr,
@@ -55,13 +57,13 @@ struct Study::Impl {
 namespace {
 
 // The study start in UTC, "YYYY-MM-DDThh:mm:ssZ". A date-time with an offset is converted to
-// UTC; a local date-time (no offset) is taken as UTC.
-std::string utc_iso_of(const toml::date_time& dt) {
+// UTC; a local date-time (no offset) is in the study's time_zone (UTC when not given).
+std::string utc_iso_of(const toml::date_time& dt, int default_offset_min) {
   using namespace std::chrono;
   const sys_days date{year_month_day{year{dt.date.year}, month{dt.date.month},
                                      std::chrono::day{dt.date.day}}};
   sys_seconds t = date + hours{dt.time.hour} + minutes{dt.time.minute} + seconds{dt.time.second};
-  if (dt.offset) t -= minutes{dt.offset->minutes};
+  t -= minutes{dt.offset ? dt.offset->minutes : default_offset_min};
   const sys_days utc_day = floor<days>(t);
   const year_month_day ymd{utc_day};
   const hh_mm_ss hms{t - utc_day};
@@ -139,9 +141,17 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   const std::string system = r.choice("units", {"si", "us"});
   settings.units = units::parse_system(system).value_or(units::System::si);
   const InputUnits u{settings.units};
+  if (auto zone = r.optional_text("time_zone")) {
+    if (auto offset = io::parse_utc_offset(*zone)) {
+      settings.time_zone_offset_min = *offset;
+    } else {
+      r.report("time_zone", "= '" + *zone + "': must be \"UTC\", \"Z\" or an offset from UTC "
+                            "such as \"+01:00\" or \"-05:30\" (at most 14 h)");
+    }
+  }
   if (const toml::node* start = r.optional_node("start")) {
     if (auto dt = start->value<toml::date_time>()) {
-      settings.start_iso = utc_iso_of(*dt);
+      settings.start_iso = utc_iso_of(*dt, settings.time_zone_offset_min);
     } else {
       r.report("start", "must be a date and time, e.g. 2026-07-14T00:00:00Z (an offset such as "
                         "+02:00 is converted to UTC; no offset means UTC)");
@@ -213,17 +223,7 @@ void check_blocks(FieldReader& r, const hydrology::DesignStormOptions& o, bool w
 
 hydrology::Hyetograph read_series_storm(FieldReader& r, const std::filesystem::path& dir,
                                         const std::string& label) {
-  const io::SeriesTable t = io::read_hyetograph_csv(dir / r.text("file"));
-  std::vector<double> depth_m;
-  for (std::size_t k = 1; k < t.times_s.size(); ++k) {
-    const double dt = t.times_s[k] - t.times_s[k - 1];
-    // Intensity rows are instants, linear between them: a block's depth is the exact
-    // integral. Depth rows already give the depth of the interval ending at the row.
-    depth_m.push_back(t.quantity == io::SeriesQuantity::rain_depth
-                          ? t.values_si[k]
-                          : 0.5 * (t.values_si[k] + t.values_si[k - 1]) * dt);
-  }
-  return hydrology::Hyetograph::from_depths(t.times_s, depth_m, label);
+  return detail::hyetograph_of(io::read_hyetograph_csv(dir / r.text("file")), label);
 }
 
 // A storm must fall inside the run: rain before the study start would be dropped without a
@@ -338,12 +338,19 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
       if (other.id == id) r.report("id", "= '" + id + "': another storm has this id");
     }
     const std::string method =
-        r.choice("method", {"alternating-block", "chicago", "nrcs-24h", "series"});
-    const std::string description = r.optional_text("description").value_or(method);
+        r.choice("method", {"alternating-block", "chicago", "nrcs-24h", "series", "gauges"});
+    std::string description = r.optional_text("description").value_or(method);
     try {
       std::optional<hydrology::Hyetograph> rain;
+      std::map<std::string, hydrology::Hyetograph, std::less<>> subcatchment_rain;
       if (method == "series") {
         rain = read_series_storm(r, path.parent_path(), label);
+      } else if (method == "gauges") {
+        if (auto g = detail::read_gauge_storm(r, root, path.parent_path(), settings, label)) {
+          rain = std::move(g->mean);
+          subcatchment_rain = std::move(g->by_subcatchment);
+          if (!r.has("description")) description = g->description;
+        }
       } else if (method == "nrcs-24h") {
         const std::string type = r.text("distribution");
         const auto parsed = hydrology::parse_nrcs_rain_type(type);
@@ -367,14 +374,23 @@ void Study::Impl::read_storms(std::vector<Problem>& problems) {
                                      : hydrology::alternating_block_storm(*idf, o, label);
         }
       }
+      const bool design = method != "series" && method != "gauges";
+      if (rain && design) {
+        rain = detail::apply_areal_reduction(r, std::move(*rain), settings, description);
+      }
       if (rain) {
         const char* key = method == "series"    ? "file"
+                          : method == "gauges"  ? "gauge"
                           : method == "nrcs-24h" ? "depth"
                           : r.has("idf")         ? "idf"
                                                  : "idf_table";
-        detail::check_storm_depth(r, u, key, *rain, method != "series");
+        detail::check_storm_depth(r, u, key, *rain, design);
+        for (const auto& item : subcatchment_rain) {
+          detail::check_storm_depth(r, u, key, item.second, false);
+        }
         auto late = check_storm_within_run(*rain, settings, u, r, *t);
-        storms.push_back({id, description, std::move(*rain), std::move(late)});
+        storms.push_back({id, description, std::move(*rain), std::move(subcatchment_rain),
+                          std::move(late)});
       }
     } catch (const InputError& e) {
       detail::relocate(e, r, problems);
@@ -459,7 +475,7 @@ const toml::table* Study::Impl::checked_changes(std::string_view scenario_id,
 }
 
 network::Model Study::Impl::build(std::string_view scenario_id,
-                                  const hydrology::Hyetograph& rain,
+                                  const StormDefinition& storm,
                                   std::vector<Problem>& problems,
                                   std::vector<StationDescription>* stations_out,
                                   std::vector<Problem>* warnings_out,
@@ -467,7 +483,7 @@ network::Model Study::Impl::build(std::string_view scenario_id,
   const std::size_t before = problems.size();
   const toml::table* changes_table = checked_changes(scenario_id, problems);
   if (problems.size() != before) return {};
-  detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, rain,
+  detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, storm,
                                 problems, crossings.get(), std::string(scenario_id),
                                 warnings_out);
   if (reach_scheme && *reach_scheme) builder.set_reach_scheme(reach_scheme);
@@ -509,10 +525,9 @@ Study Study::load(const std::filesystem::path& basin_file) {
   }
   // The network is checked even when settings or storms have problems, so that one pass
   // reports everything; without a valid storm, subcatchments are built with no rain.
-  const hydrology::Hyetograph no_rain =
-      hydrology::Hyetograph::from_uniform_intensities(0.0, 60.0, {0.0}, "no rain");
-  const hydrology::Hyetograph& rain =
-      impl->storms.empty() ? no_rain : impl->storms.front().rain;
+  StormDefinition no_rain;
+  no_rain.rain = hydrology::Hyetograph::from_uniform_intensities(0.0, 60.0, {0.0}, "no rain");
+  const StormDefinition& rain = impl->storms.empty() ? no_rain : impl->storms.front();
   const std::size_t before = problems.size();
   std::vector<Problem> warnings;
   impl->build("", rain, problems, &impl->stations, &warnings);
@@ -570,7 +585,7 @@ network::Model Study::build_model(std::string_view scenario_id,
                                   const ReachSchemeFn& reach_scheme) const {
   std::vector<Problem> problems;
   network::Model model =
-      impl_->build(scenario_id, storm.rain, problems, nullptr, nullptr, &reach_scheme);
+      impl_->build(scenario_id, storm, problems, nullptr, nullptr, &reach_scheme);
   if (!problems.empty()) throw InputError(std::move(problems));
   return model;
 }
