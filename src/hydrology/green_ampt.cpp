@@ -58,6 +58,7 @@ void GreenAmptParameters::validate(ProblemList& problems) const {
                      "initial_effective_saturation", initial_effective_saturation,
                      "must be in [0, 1) (initial moisture below saturation, theta_i < theta_s)");
   }
+  problems.require_non_negative("recovery_rate_per_s", recovery_rate_per_s);
 }
 
 double GreenAmptParameters::moisture_deficit() const {
@@ -97,7 +98,10 @@ std::unique_ptr<LossModel> GreenAmptLoss::clone() const {
 
 // CMM 1988 sec. 4.4 (Fig. 4.4.2): the three cases of one step of constant intensity.
 LossStep GreenAmptLoss::split(double rain_depth_m, double step_s) {
-  if (rain_depth_m <= 0.0) return {};
+  if (rain_depth_m <= 0.0) {
+    infiltrated_m_ *= std::exp(-parameters_.recovery_rate_per_s * step_s);
+    return {};
+  }
   const GreenAmptParameters& p = parameters_;
   const double i = rain_depth_m / step_s;
   const double f = infiltrated_m_;

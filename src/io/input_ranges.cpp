@@ -127,6 +127,11 @@ constexpr std::array<InputRange, kQuantityCount> kRanges{{
    0.0, true, 1.0, true, "a fraction of the soil volume, below 1", 0.25, 0.60, kRawls},
   {Quantity::initial_saturation, "initial effective saturation", Measure::ratio,
    0.0, false, 1.0, true, "initial moisture below saturation", 0.0, 1.0, kCommon},
+  {Quantity::green_ampt_recovery, "Green-Ampt recovery constant", Measure::per_hour,
+   0.0, false, 1000.0, false, "the wetted depth drains by e in more than 3.6 s; our criterion",
+   0.01, 0.2,
+   "a wetted soil back within 2 % of its initial deficit after 1 to 14 days of drying, k_r = "
+   "ln(50) / drying time; common practice, no source"},
   {Quantity::horton_initial_rate, "Horton initial infiltration rate", Measure::rate,
    0.0, false, 1.0, false, "above 1 m/s, faster than open gravel; our criterion",
    0.0, 250.0 * kMmPerH,

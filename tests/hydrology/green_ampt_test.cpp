@@ -67,6 +67,36 @@ TEST(GreenAmpt, NoExcessBeforePondingOrUnderLightRain) {
   for (int s = 0; s < 48; ++s) EXPECT_EQ(light.excess_depth_m(0.6 * kCm, kHour), 0.0);
 }
 
+// Recovery in dry spells, our rule F := F e^(-k_r dt) (common practice, no source): a dry
+// spell cut into any steps leaves F_w e^(-k_r D) (the exponential composes). A heavy burst
+// (5 cm/h on silt loam, ponded at once once F > F_p) after the gap then follows Mein & Larson
+// (1973), CMM eq. 4.4.6, from the recovered F_0: ponded from F_0 when f(F_0) <= i, i.e.
+// F - F_0 - psi dtheta ln((F + psi dtheta)/(F_0 + psi dtheta)) = K t, and after a long gap
+// it runs off as the first burst did.
+TEST(GreenAmptRecovery, DrySpellDrainsTheWettedDepthExponentially) {
+  GreenAmptParameters p = silt_loam();
+  p.recovery_rate_per_s = 0.05 / kHour;
+  const double i = 5.0 * kCm / kHour, burst_s = 2.0 * kHour;
+  for (int dry_steps : {1, 9, 240}) {
+    GreenAmptLoss soil(p, "subcatchment 'alder'");
+    const double first = soil.excess_depth_m(i * burst_s, burst_s);
+    const double f_w = soil.cumulative_infiltration_m();
+    for (int s = 0; s < dry_steps; ++s) soil.step(0.0, 10.0 * kHour / dry_steps);
+    const double f0 = f_w * std::exp(-0.5);
+    EXPECT_NEAR(soil.cumulative_infiltration_m(), f0, 1e-15) << dry_steps << " dry steps";
+    ASSERT_LE(green_ampt_capacity_m_s(p, f0), i);  // the next burst ponds at once
+    soil.step(i * burst_s, burst_s);
+    const double f = soil.cumulative_infiltration_m();
+    const double a = p.suction_deficit_m(), k = p.hydraulic_conductivity_m_s;
+    EXPECT_NEAR(f - f0 - a * std::log((f + a) / (f0 + a)) - k * burst_s, 0.0, 1e-14);
+    EXPECT_NEAR(soil.ledger().closure_error_m(), 0.0, 1e-15);
+    soil.step(0.0, 30.0 * 24.0 * kHour);  // e^(-36) of F is left
+    EXPECT_NEAR(soil.excess_depth_m(i * burst_s, burst_s), first, 1e-12);
+  }
+  p.recovery_rate_per_s = -1e-6;
+  EXPECT_THROW(GreenAmptLoss(p, "subcatchment 'alder'"), InputError);
+}
+
 TEST(GreenAmpt, RejectsPhysicallyImpossibleSoils) {
   try {
     GreenAmptLoss soil({.hydraulic_conductivity_m_s = 0.0, .suction_head_m = -0.1,

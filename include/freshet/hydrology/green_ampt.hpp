@@ -8,8 +8,13 @@
 //   dtheta = (1 - S_e) theta_e                        moisture deficit (CMM eq. 4.3.9)
 // Within a step of constant intensity i, CMM sec. 4.4: ponded at the start (f <= i) -> the
 // ponded equation from F_t; otherwise infiltrate at i, and if F reaches F_p inside the step,
-// continue ponded from F_p for the rest of it. F is found by safeguarded Newton. Between
-// storms the soil does not recover (no redistribution).
+// continue ponded from F_p for the rest of it. F is found by safeguarded Newton.
+// Recovery in dry spells (optional, constant k_r > 0; our rule, common practice, no source):
+// over a step without rain the wetted depth the capacity depends on drains away
+// exponentially, F := F e^(-k_r dt), the form of Horton's recovery curve applied to F, so
+// after a long dry spell the soil is back at its initial moisture deficit (F -> 0). It is not
+// a redistribution model: the wetting front is not tracked while it moves down. With
+// k_r = 0 (the default) the soil does not recover.
 // Typical parameters by soil texture: Rawls, Brakensiek & Miller (1983), "Green-Ampt
 // infiltration parameters from soils data", J. Hydraulic Eng. 109(1) (CMM Table 4.3.1).
 //
@@ -34,6 +39,7 @@ struct GreenAmptParameters {
   double porosity = 0.0;                     // eta = theta_s, in (0, 1)
   double effective_porosity = 0.0;           // theta_e = eta - theta_r, in (0, eta]
   double initial_effective_saturation = 0.0; // S_e = (theta_i - theta_r) / theta_e, in [0, 1)
+  double recovery_rate_per_s = 0.0;          // k_r (1/s), >= 0; 0: no recovery in dry spells
 
   // Problems for: K or psi <= 0; porosities outside (0, 1) or theta_e > eta; S_e outside
   // [0, 1) (S_e >= 1 means theta_i >= theta_s: no deficit to fill).
@@ -58,6 +64,7 @@ class GreenAmptLoss final : public LossModel {
   GreenAmptLoss(const GreenAmptParameters& parameters, const std::string& element);
   [[nodiscard]] std::unique_ptr<LossModel> clone() const override;
   [[nodiscard]] std::string_view method() const override { return "Green-Ampt"; }
+  // F: the infiltrated depth that sets the capacity (less what dry spells recovered).
   [[nodiscard]] double cumulative_infiltration_m() const { return infiltrated_m_; }
 
  private:

@@ -74,6 +74,7 @@ enum class Quantity {
   suction_head,
   porosity,
   initial_saturation,
+  green_ampt_recovery,
   horton_initial_rate,
   horton_final_rate,
   horton_decay,

@@ -293,6 +293,9 @@ hydrology::GreenAmptParameters read_green_ampt(FieldReader& l, const InputUnits&
                                        format_value(p.porosity));
   }
   p.initial_effective_saturation = ranged(l, u, "initial_saturation", Q::initial_saturation);
+  p.recovery_rate_per_s =
+      optional_ranged(l, u, "recovery_per_h", Q::green_ampt_recovery).value_or(0.0) /
+      units::kSecondsPerHour;
   return p;
 }
 
