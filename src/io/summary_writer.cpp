@@ -4,6 +4,7 @@
 #include <charconv>
 #include <cmath>
 #include <cstdio>
+#include <initializer_list>
 #include <memory>
 #include <nlohmann/json.hpp>
 
@@ -18,7 +19,8 @@ using reporting::BreakingRecord;
 using reporting::ShockPathPoint;
 using reporting::kNotApplicable;
 using reporting::MassBalanceRecord;
-using reporting::PairSummary;
+using reporting::AttenuationRecord;
+using reporting::StretchRecord;
 using reporting::ReachMethodRecord;
 using reporting::RunSummary;
 using reporting::ShockRecord;
@@ -66,14 +68,28 @@ std::string station_table(const RunSummary& s) {
   return aligned(rows, 2);
 }
 
-std::string pair_table(const RunSummary& s) {
-  std::vector<std::vector<std::string>> rows{{"upstream", "downstream", "attenuation (m3/s)",
-                                              "attenuation (%)", "peak shift (min)",
-                                              "volume change (m3)"}};
-  for (const auto& r : s.pairs) {
-    rows.push_back({r.upstream_id, r.downstream_id, fixed(r.peak_attenuation_m3s, 3),
-                    fixed(r.peak_attenuation_percent, 2), fixed(r.peak_time_shift_s / 60.0, 2),
-                    fixed(r.volume_change_m3, 1)});
+std::string attenuation_table(const RunSummary& s) {
+  std::vector<std::vector<std::string>> rows{
+      {"element", "kind", "peak in (m3/s)", "of it lateral (m3/s)", "peak out (m3/s)",
+       "attenuation (%)", "delay (min)", "storage at peak out (m3)", "peak storage (m3)"}};
+  for (const auto& r : s.attenuation) {
+    rows.push_back({r.element, r.kind, fixed(r.peak_inflow_m3s, 3),
+                    fixed(r.peak_lateral_inflow_m3s, 3), fixed(r.peak_outflow_m3s, 3),
+                    fixed(r.attenuation_percent, 1), fixed(r.peak_delay_s / 60.0, 1),
+                    fixed(r.storage_at_outflow_peak_m3, 0), fixed(r.peak_storage_m3, 0)});
+  }
+  return aligned(rows, 2);
+}
+
+std::string stretch_table(const RunSummary& s) {
+  std::vector<std::vector<std::string>> rows{
+      {"upstream", "downstream", "peak up (m3/s)", "side inflow (m3)", "side peak (m3/s)",
+       "combined in (m3/s)", "peak down (m3/s)", "attenuation (%)", "shift (min)"}};
+  for (const auto& r : s.stretches) {
+    rows.push_back({r.upstream_id, r.downstream_id, fixed(r.upstream_peak_m3s, 3),
+                    fixed(r.side_inflow_volume_m3, 0), fixed(r.side_inflow_peak_m3s, 3),
+                    fixed(r.combined_inflow_peak_m3s, 3), fixed(r.downstream_peak_m3s, 3),
+                    fixed(r.attenuation_percent, 1), fixed(r.peak_shift_s / 60.0, 1)});
   }
   return aligned(rows, 2);
 }
@@ -162,15 +178,45 @@ CsvDescription stations_description(const RunSummary& s) {
        {"centroid_lag_s", "s", "centroid lag from the centroid of the rainfall excess upstream"}});
 }
 
-CsvDescription pairs_description(const RunSummary& s) {
+CsvDescription attenuation_description(const RunSummary& s) {
   return summary_description(
-      s, "station pair summary",
-      {{"upstream_id", "", "upstream station id", "string"},
-       {"downstream_id", "", "downstream station id", "string"},
-       {"peak_attenuation_m3s", "m3 s-1", "upstream peak minus downstream peak"},
-       {"peak_attenuation_percent", "%", "attenuation as a share of the upstream peak"},
-       {"peak_time_shift_s", "s", "downstream peak time minus upstream peak time"},
-       {"volume_change_m3", "m3", "downstream volume minus upstream volume"}});
+      s, "attenuation of every reach, pond and culvert",
+      {{"element", "", "element id", "string"},
+       {"kind", "", "reach, culvert or detention", "string"},
+       {"peak_inflow_m3s", "m3 s-1", "peak of the total inflow (upstream plus lateral, one hydrograph)"},
+       {"peak_inflow_time_s", "s", "time of the total inflow peak"},
+       {"peak_lateral_inflow_m3s", "m3 s-1", "peak of the lateral inflow along a reach alone"},
+       {"peak_outflow_m3s", "m3 s-1", "peak outflow"},
+       {"peak_outflow_time_s", "s", "time of the outflow peak"},
+       {"attenuation_m3s", "m3 s-1", "peak inflow minus peak outflow"},
+       {"attenuation_percent", "%", "attenuation as a share of the peak inflow"},
+       {"peak_delay_s", "s", "outflow peak time minus inflow peak time"},
+       {"peak_storage_m3", "m3", "largest volume stored in the element"},
+       {"peak_storage_time_s", "s", "time of the largest storage"},
+       {"storage_at_outflow_peak_m3", "m3", "volume stored at the time of the outflow peak"},
+       {"inflow_volume_m3", "m3", "upstream plus lateral inflow over the run"},
+       {"lateral_volume_m3", "m3", "lateral inflow over the run"},
+       {"outflow_volume_m3", "m3", "outflow over the run"},
+       {"storage_change_m3", "m3", "storage at the end minus storage at the start"}});
+}
+
+CsvDescription stretches_description(const RunSummary& s) {
+  return summary_description(
+      s, "stretches named in the study file",
+      {{"upstream_id", "", "upstream element id", "string"},
+       {"downstream_id", "", "downstream element id", "string"},
+       {"path", "", "the elements of the flow path, upstream first, separated by ' > '", "string"},
+       {"upstream_peak_m3s", "m3 s-1", "peak outflow of the upstream element"},
+       {"upstream_peak_time_s", "s", "its time"},
+       {"downstream_peak_m3s", "m3 s-1", "peak outflow of the downstream element"},
+       {"downstream_peak_time_s", "s", "its time"},
+       {"peak_shift_s", "s", "downstream peak time minus upstream peak time"},
+       {"side_inflow_volume_m3", "m3", "volume entering the path between the two (lateral inflow and tributaries)"},
+       {"side_inflow_peak_m3s", "m3 s-1", "peak of that side inflow, summed with no travel time"},
+       {"side_inflow_peak_time_s", "s", "its time"},
+       {"combined_inflow_peak_m3s", "m3 s-1", "peak of upstream outflow plus side inflow"},
+       {"attenuation_m3s", "m3 s-1", "combined inflow peak minus downstream peak"},
+       {"attenuation_percent", "%", "attenuation as a share of the combined inflow peak"}});
 }
 
 CsvDescription checks_description(const RunSummary& s) {
@@ -214,13 +260,48 @@ std::string stations_csv(const RunSummary& s) {
   return out;
 }
 
-std::string pairs_csv(const RunSummary& s) {
-  std::string out = "upstream_id,downstream_id,peak_attenuation_m3s,peak_attenuation_percent,"
-                    "peak_time_shift_s,volume_change_m3\n";
-  for (const auto& r : s.pairs) {
+std::string numbers_csv(std::initializer_list<double> values) {
+  std::string out;
+  for (double v : values) out += "," + csv_number(v);
+  return out;
+}
+
+std::string attenuation_csv(const RunSummary& s) {
+  std::string out = "element,kind,peak_inflow_m3s,peak_inflow_time_s,peak_lateral_inflow_m3s,"
+                    "peak_outflow_m3s,peak_outflow_time_s,attenuation_m3s,attenuation_percent,"
+                    "peak_delay_s,peak_storage_m3,peak_storage_time_s,storage_at_outflow_peak_m3,"
+                    "inflow_volume_m3,lateral_volume_m3,outflow_volume_m3,storage_change_m3\n";
+  for (const auto& r : s.attenuation) {
+    out += csv_field(r.element) + "," + csv_field(r.kind) +
+           numbers_csv({r.peak_inflow_m3s, r.peak_inflow_time_s, r.peak_lateral_inflow_m3s,
+                        r.peak_outflow_m3s, r.peak_outflow_time_s, r.attenuation_m3s,
+                        r.attenuation_percent, r.peak_delay_s, r.peak_storage_m3,
+                        r.peak_storage_time_s, r.storage_at_outflow_peak_m3, r.inflow_volume_m3,
+                        r.lateral_volume_m3, r.outflow_volume_m3, r.storage_change_m3}) +
+           "\n";
+  }
+  return out;
+}
+
+std::string joined_path(const StretchRecord& r) {
+  std::string out;
+  for (const auto& id : r.path) out += (out.empty() ? "" : " > ") + id;
+  return out;
+}
+
+std::string stretches_csv(const RunSummary& s) {
+  std::string out = "upstream_id,downstream_id,path,upstream_peak_m3s,upstream_peak_time_s,"
+                    "downstream_peak_m3s,downstream_peak_time_s,peak_shift_s,"
+                    "side_inflow_volume_m3,side_inflow_peak_m3s,side_inflow_peak_time_s,"
+                    "combined_inflow_peak_m3s,attenuation_m3s,attenuation_percent\n";
+  for (const auto& r : s.stretches) {
     out += csv_field(r.upstream_id) + "," + csv_field(r.downstream_id) + "," +
-           csv_number(r.peak_attenuation_m3s) + "," + csv_number(r.peak_attenuation_percent) +
-           "," + csv_number(r.peak_time_shift_s) + "," + csv_number(r.volume_change_m3) + "\n";
+           csv_field(joined_path(r)) +
+           numbers_csv({r.upstream_peak_m3s, r.upstream_peak_time_s, r.downstream_peak_m3s,
+                        r.downstream_peak_time_s, r.peak_shift_s, r.side_inflow_volume_m3,
+                        r.side_inflow_peak_m3s, r.side_inflow_peak_time_s,
+                        r.combined_inflow_peak_m3s, r.attenuation_m3s, r.attenuation_percent}) +
+           "\n";
   }
   return out;
 }
@@ -320,13 +401,41 @@ nlohmann::json to_json(const StationSummary& r) {
           {"centroid_lag_s", number(r.centroid_lag_s)}};
 }
 
-nlohmann::json to_json(const PairSummary& r) {
+nlohmann::json to_json(const AttenuationRecord& r) {
+  return {{"element", r.element},
+          {"kind", r.kind},
+          {"peak_inflow_m3s", number(r.peak_inflow_m3s)},
+          {"peak_inflow_time_s", number(r.peak_inflow_time_s)},
+          {"peak_lateral_inflow_m3s", number(r.peak_lateral_inflow_m3s)},
+          {"peak_outflow_m3s", number(r.peak_outflow_m3s)},
+          {"peak_outflow_time_s", number(r.peak_outflow_time_s)},
+          {"attenuation_m3s", number(r.attenuation_m3s)},
+          {"attenuation_percent", number(r.attenuation_percent)},
+          {"peak_delay_s", number(r.peak_delay_s)},
+          {"peak_storage_m3", number(r.peak_storage_m3)},
+          {"peak_storage_time_s", number(r.peak_storage_time_s)},
+          {"storage_at_outflow_peak_m3", number(r.storage_at_outflow_peak_m3)},
+          {"inflow_volume_m3", number(r.inflow_volume_m3)},
+          {"lateral_volume_m3", number(r.lateral_volume_m3)},
+          {"outflow_volume_m3", number(r.outflow_volume_m3)},
+          {"storage_change_m3", number(r.storage_change_m3)}};
+}
+
+nlohmann::json to_json(const StretchRecord& r) {
   return {{"upstream_id", r.upstream_id},
           {"downstream_id", r.downstream_id},
-          {"peak_attenuation_m3s", number(r.peak_attenuation_m3s)},
-          {"peak_attenuation_percent", number(r.peak_attenuation_percent)},
-          {"peak_time_shift_s", number(r.peak_time_shift_s)},
-          {"volume_change_m3", number(r.volume_change_m3)}};
+          {"path", r.path},
+          {"upstream_peak_m3s", number(r.upstream_peak_m3s)},
+          {"upstream_peak_time_s", number(r.upstream_peak_time_s)},
+          {"downstream_peak_m3s", number(r.downstream_peak_m3s)},
+          {"downstream_peak_time_s", number(r.downstream_peak_time_s)},
+          {"peak_shift_s", number(r.peak_shift_s)},
+          {"side_inflow_volume_m3", number(r.side_inflow_volume_m3)},
+          {"side_inflow_peak_m3s", number(r.side_inflow_peak_m3s)},
+          {"side_inflow_peak_time_s", number(r.side_inflow_peak_time_s)},
+          {"combined_inflow_peak_m3s", number(r.combined_inflow_peak_m3s)},
+          {"attenuation_m3s", number(r.attenuation_m3s)},
+          {"attenuation_percent", number(r.attenuation_percent)}};
 }
 
 nlohmann::json to_json(const BreakingRecord& r) {
@@ -407,23 +516,33 @@ std::string format_summary_table(const RunSummary& summary, bool with_caution) {
   std::string out;
   if (!summary.title.empty()) out += summary.title + "\n\n";
   out += "Stations\n" + station_table(summary);
-  if (!summary.pairs.empty()) out += "\nStation pairs\n" + pair_table(summary);
+  if (!summary.attenuation.empty()) {
+    out += "\nAttenuation (peak of the total inflow, upstream plus lateral, against peak outflow)\n" +
+           attenuation_table(summary);
+  }
+  if (!summary.stretches.empty()) {
+    out += "\nStretches (side inflow = lateral inflow and tributaries between the two)\n" +
+           stretch_table(summary);
+  }
   out += check_lines(summary);
   return with_caution ? out + "\n" + wrapped(kCautionText, 96) : out;
 }
 
 std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix) {
-  return {prefix.string() + "_stations.csv", prefix.string() + "_pairs.csv",
-          prefix.string() + "_checks.csv"};
+  return {prefix.string() + "_stations.csv", prefix.string() + "_attenuation.csv",
+          prefix.string() + "_stretches.csv", prefix.string() + "_checks.csv"};
 }
 
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
                                                      const RunSummary& summary,
                                                      Overwrite overwrite,
                                                      OutputSet* set) {
-  const std::string texts[] = {stations_csv(summary), pairs_csv(summary), checks_csv(summary)};
+  const std::string texts[] = {stations_csv(summary), attenuation_csv(summary),
+                               stretches_csv(summary), checks_csv(summary)};
   const CsvDescription descriptions[] = {stations_description(summary),
-                                         pairs_description(summary), checks_description(summary)};
+                                         attenuation_description(summary),
+                                         stretches_description(summary),
+                                         checks_description(summary)};
   const std::vector<std::filesystem::path> paths = summary_csv_paths(prefix);
   // Open all first, so an existing file stops the whole set before anything is written.
   std::vector<std::unique_ptr<AtomicFile>> files;
@@ -451,7 +570,8 @@ std::string format_summary_json(const RunSummary& summary) {
   j["units"] = {{"discharge", "m3 s-1"}, {"time", "s"},       {"stage", "m"},
                 {"volume", "m3"},        {"chainage", "m"},   {"percent", "%"}};
   j["stations"] = array_of(summary.stations);
-  j["pairs"] = array_of(summary.pairs);
+  j["attenuation"] = array_of(summary.attenuation);
+  j["stretches"] = array_of(summary.stretches);
   j["breaking"] = array_of(summary.breaking);
   j["shocks"] = array_of(summary.shocks);
   j["mass_balance"] = array_of(summary.mass_balance);

@@ -143,10 +143,25 @@ void prime(Model& model) {
   }
 }
 
+// Each element's sample, its ledger's volumes, and the total inflow at the sample time: the
+// sum of the discharges of the elements draining into it (the same split into point and
+// lateral inflow as sweep() makes).
 void take_samples(const Model& model, std::vector<StationSample>& samples) {
   for (std::size_t i = 0; i < model.elements.size(); ++i) {
     samples[i] = model.elements[i]->sample();
-    samples[i].outflow_volume_m3 = model.elements[i]->ledger().outflow_m3;
+    const VolumeLedger ledger = model.elements[i]->ledger();
+    samples[i].outflow_volume_m3 = ledger.outflow_m3;
+    samples[i].storage_m3 = ledger.storage_m3;
+  }
+  for (std::size_t i = 0; i < model.elements.size(); ++i) {
+    const bool lateral = model.elements[i]->takes_lateral_inflow();
+    double total = 0.0, along = 0.0;
+    for (std::size_t u : model.topology.upstream[i]) {
+      total += samples[u].discharge_m3s;
+      if (lateral && model.links[u].kind == ElementKind::subcatchment) along += samples[u].discharge_m3s;
+    }
+    samples[i].inflow_m3s = total;
+    samples[i].lateral_inflow_m3s = along;
   }
 }
 

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 
+#include "freshet/core/error.hpp"
 #include "freshet/reporting/reported_as.hpp"
 #include "run_watch.hpp"
 
@@ -10,11 +11,35 @@ namespace freshet::reporting {
 RunRecorder::RunRecorder(const network::Model& model, std::vector<StationDescription> stations)
     : stations_(std::move(stations)),
       acc_(stations_.size()),
+      inflow_(stations_.size()),
+      lateral_(stations_.size()),
+      storage_(stations_.size()),
       at_peak_(stations_.size()),
       watch_(std::make_unique<detail::RunWatch>(model, stations_)),
       model_(&model) {}
 
 RunRecorder::~RunRecorder() = default;
+
+void RunRecorder::watch_stretch(std::vector<std::size_t> path) {
+  FRESHET_ASSERT(path.size() >= 2, "a stretch has an upstream and a downstream element");
+  for (std::size_t i : path) FRESHET_ASSERT(i < stations_.size(), "stretch element in the model");
+  stretches_.push_back({std::move(path), {}, {}});
+}
+
+namespace {
+
+// What enters a path below its first element at one sample time: at each later element, its
+// total inflow minus the outflow of the path element above it.
+double side_inflow_m3s(const std::vector<std::size_t>& path,
+                       std::span<const network::StationSample> samples) {
+  double side = 0.0;
+  for (std::size_t k = 1; k < path.size(); ++k) {
+    side += samples[path[k]].inflow_m3s - samples[path[k - 1]].discharge_m3s;
+  }
+  return side;
+}
+
+}  // namespace
 
 void RunRecorder::record(double time_s, std::span<const network::StationSample> samples) {
   observe(time_s, samples);
@@ -93,6 +118,14 @@ void RunRecorder::observe(double time_s, std::span<const network::StationSample>
     if (acc_[i].sample_count() == 1 || acc_[i].peak_time_s() != peak_time_before) {
       at_peak_[i] = s;
     }
+    inflow_[i].add_sample(time_s, s.inflow_m3s);
+    lateral_[i].add_sample(time_s, s.lateral_inflow_m3s);
+    storage_[i].add_sample(time_s, s.storage_m3);
+  }
+  for (Stretch& st : stretches_) {
+    const double side = side_inflow_m3s(st.path, samples);
+    st.side_inflow.add_sample(time_s, side);
+    st.combined_inflow.add_sample(time_s, samples[st.path.front()].discharge_m3s + side);
   }
 }
 

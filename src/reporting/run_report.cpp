@@ -18,20 +18,67 @@ namespace {
 using network::ElementKind;
 using network::StationSample;
 
-// Inflow against outflow of every element fed by exactly one other station. Subcatchment
-// runoff entering along a reach is lateral inflow, not a station upstream (the pair's volume
-// change then shows it); into any other element it is a feeder of its own. At a confluence
-// the pair would compare a part with the whole, so confluences are left out.
-void add_pairs(const network::Model& model, RunSummary& summary) {
-  for (std::size_t i = 0; i < model.links.size(); ++i) {
-    const bool lateral = model.elements[i]->takes_lateral_inflow();
-    std::vector<std::size_t> feeders;
-    for (std::size_t u : model.topology.upstream[i]) {
-      if (!(lateral && model.links[u].kind == ElementKind::subcatchment)) feeders.push_back(u);
+// Total inflow against outflow of every reach, pond and culvert (summary.hpp,
+// AttenuationRecord): peaks from the recorder's hydrographs, volumes from the ledger.
+void add_attenuation(const network::RunSummary& numerics, const RunRecorder& recorder,
+                     RunSummary& summary) {
+  const std::vector<StationDescription>& stations = recorder.stations();
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    if (!is_reach(stations[i].kind) && !is_pool(stations[i].kind)) continue;
+    const SummaryAccumulator& in = recorder.inflow(i);
+    const SummaryAccumulator& out = recorder.accumulator(i);
+    const network::VolumeLedger& l = numerics.balances[i].ledger;
+    AttenuationRecord r;
+    r.element = stations[i].id;
+    r.kind = std::string(network::to_string(stations[i].kind));
+    r.peak_inflow_m3s = in.peak_discharge_m3s();
+    r.peak_inflow_time_s = in.peak_time_s();
+    r.peak_lateral_inflow_m3s = recorder.lateral_inflow(i).peak_discharge_m3s();
+    r.peak_outflow_m3s = out.peak_discharge_m3s();
+    r.peak_outflow_time_s = out.peak_time_s();
+    r.attenuation_m3s = r.peak_inflow_m3s - r.peak_outflow_m3s;
+    r.attenuation_percent =
+        r.peak_inflow_m3s > 0.0 ? 100.0 * r.attenuation_m3s / r.peak_inflow_m3s : kNotApplicable;
+    r.peak_delay_s = r.peak_outflow_time_s - r.peak_inflow_time_s;
+    r.peak_storage_m3 = recorder.storage(i).peak_discharge_m3s();
+    r.peak_storage_time_s = recorder.storage(i).peak_time_s();
+    r.storage_at_outflow_peak_m3 = recorder.at_peak(i).storage_m3;
+    r.inflow_volume_m3 = l.inflow_m3 + l.lateral_m3;
+    r.lateral_volume_m3 = l.lateral_m3;
+    r.outflow_volume_m3 = l.outflow_m3;
+    r.storage_change_m3 = l.storage_m3 - l.initial_storage_m3;
+    summary.attenuation.push_back(r);
+  }
+}
+
+// The stretches the recorder watched (summary.hpp, StretchRecord).
+void add_stretches(const network::RunSummary& numerics, const RunRecorder& recorder,
+                   RunSummary& summary) {
+  for (const RunRecorder::Stretch& st : recorder.stretches()) {
+    const std::size_t up = st.path.front(), down = st.path.back();
+    StretchRecord r;
+    r.upstream_id = recorder.stations()[up].id;
+    r.downstream_id = recorder.stations()[down].id;
+    for (std::size_t i : st.path) r.path.push_back(recorder.stations()[i].id);
+    r.upstream_peak_m3s = recorder.accumulator(up).peak_discharge_m3s();
+    r.upstream_peak_time_s = recorder.accumulator(up).peak_time_s();
+    r.downstream_peak_m3s = recorder.accumulator(down).peak_discharge_m3s();
+    r.downstream_peak_time_s = recorder.accumulator(down).peak_time_s();
+    r.peak_shift_s = r.downstream_peak_time_s - r.upstream_peak_time_s;
+    double side_m3 = 0.0;  // exact, from the ledgers
+    for (std::size_t k = 1; k < st.path.size(); ++k) {
+      const network::VolumeLedger& l = numerics.balances[st.path[k]].ledger;
+      side_m3 += l.inflow_m3 + l.lateral_m3 - numerics.balances[st.path[k - 1]].ledger.outflow_m3;
     }
-    if (feeders.size() == 1) {
-      summary.pairs.push_back(compare_stations(summary.stations[feeders[0]], summary.stations[i]));
-    }
+    r.side_inflow_volume_m3 = side_m3;
+    r.side_inflow_peak_m3s = st.side_inflow.peak_discharge_m3s();
+    r.side_inflow_peak_time_s = st.side_inflow.peak_time_s();
+    r.combined_inflow_peak_m3s = st.combined_inflow.peak_discharge_m3s();
+    r.attenuation_m3s = r.combined_inflow_peak_m3s - r.downstream_peak_m3s;
+    r.attenuation_percent = r.combined_inflow_peak_m3s > 0.0
+                                ? 100.0 * r.attenuation_m3s / r.combined_inflow_peak_m3s
+                                : kNotApplicable;
+    summary.stretches.push_back(std::move(r));
   }
 }
 
@@ -498,7 +545,8 @@ RunReport report_run(const network::Model& model, const network::RunSummary& num
     st.runoff_volume_m3 = numerics.balances[i].ledger.outflow_m3;  // exact, from the ledger
     s.stations.push_back(st);
   }
-  add_pairs(model, s);
+  add_attenuation(numerics, recorder, s);
+  add_stretches(numerics, recorder, s);
   const std::vector<WaveElement> waves = wave_elements(reports);
   add_breaking(model, waves, s);
   add_shocks(model, waves, s);

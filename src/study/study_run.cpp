@@ -620,6 +620,7 @@ RunOutcome run_study(const Study& study,
 
   OutputSet results(lock->folder(), req.storm_id, req.overwrite);
   reporting::RunRecorder recorder(model, stations);
+  for (const StretchDefinition& st : study.stretches()) recorder.watch_stretch(st.path);
   StudySink sink(recorder, cancel);
   RunFiles files;
   open_run_files(study, req, model, stations, results, sink, files);

@@ -32,7 +32,7 @@ tail -n 6 "$log" | grep -q '^CAUTION: ' || fail "the output does not end with th
 
 base="$out/base/aep1-30min"
 for f in "$base.nc" "${base}_subcatchments.nc" "${base}_summary_stations.csv" \
-         "${base}_summary_pairs.csv" "${base}_summary_checks.csv" "${base}_summary.json"; do
+         "${base}_summary_attenuation.csv" "${base}_summary_stretches.csv" "${base}_summary_checks.csv" "${base}_summary.json"; do
   [ -s "$f" ] || fail "missing or empty output $f"
   grep -q "$f" "$log" || fail "output $f not listed on stdout"
 done

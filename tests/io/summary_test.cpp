@@ -18,7 +18,6 @@ namespace {
 using ::testing::HasSubstr;
 using testing::read_text;
 using testing::TempDir;
-using reporting::compare_stations;
 using reporting::kNotApplicable;
 using reporting::RunSummary;
 
@@ -29,7 +28,24 @@ RunSummary example() {
   s.stations = {{"alder-1", "Mill Lane, upper", 12.5, 5400.0, 101.25, 48000.0, 9000.0, 3600.0},
                 {"alder-2", "Lower weir", 1.0 / 3.0, 7200.0, kNotApplicable, 47500.0, 9900.0,
                  4500.0}};
-  s.pairs = {compare_stations(s.stations[0], s.stations[1])};
+  reporting::AttenuationRecord a;
+  a.element = "alder-reach";
+  a.kind = "reach";
+  a.peak_inflow_m3s = 12.5;
+  a.peak_inflow_time_s = 5400.0;
+  a.peak_lateral_inflow_m3s = 2.5;
+  a.peak_outflow_m3s = 10.0;
+  a.peak_outflow_time_s = 7200.0;
+  a.attenuation_m3s = 2.5;
+  a.attenuation_percent = 20.0;
+  a.peak_delay_s = 1800.0;
+  s.attenuation = {a};
+  reporting::StretchRecord st;
+  st.upstream_id = "alder-1";
+  st.downstream_id = "alder-2";
+  st.path = {"alder-1", "alder-reach", "alder-2"};
+  st.side_inflow_volume_m3 = 500.0;
+  s.stretches = {st};
   reporting::ShockRecord shock;
   shock.element = "alder-reach";
   shock.time_s = 4000.0;
@@ -80,7 +96,7 @@ TEST(SummaryWriter, CsvFilesStartWithTheHeaderQuoteTextAndRoundTripNumbers) {
   s.time_origin_iso = "2026-03-01T00:00:00Z";
   s.stations[1].name = "Mill Lane culvert #2";
   const auto paths = write_summary_csv(dir / "run1", s);
-  ASSERT_EQ(paths.size(), 3u);
+  ASSERT_EQ(paths.size(), 4u);
   const std::string stations = read_text(dir / "run1_stations.csv");
   EXPECT_EQ(stations.rfind("station_id,name,peak_discharge_m3s,peak_time_s,", 0), 0u);
   EXPECT_THAT(stations, ::testing::Not(HasSubstr(std::string(kCautionText))));
@@ -118,15 +134,18 @@ TEST(SummaryWriter, CsvFilesStartWithTheHeaderQuoteTextAndRoundTripNumbers) {
   EXPECT_THAT(checks, HasSubstr("shock,alder-reach,4000,350,,,,,,shock formed; captured by the "
                                 "scheme,,,,1.5,1.25,8,0.5,outlet,5000,fronts\n"));
   EXPECT_THAT(checks, HasSubstr("shock_path,alder-reach,4200,600,,,,,,,,,,,1.25,7.5,,,,fronts\n"));
-  EXPECT_THAT(read_text(dir / "run1_pairs.csv"), HasSubstr("alder-1,alder-2,12.166666666666666,"));
+  EXPECT_THAT(read_text(dir / "run1_attenuation.csv"),
+              HasSubstr("alder-reach,reach,12.5,5400,2.5,10,7200,2.5,20,1800,"));
+  EXPECT_THAT(read_text(dir / "run1_stretches.csv"),
+              HasSubstr("alder-1,alder-2,alder-1 > alder-reach > alder-2,,,,,,500,"));
 }
 
 TEST(SummaryWriter, CsvSetIsNotWrittenWhenAnyFileExists) {
   TempDir dir;
-  testing::write_text(dir / "run1_pairs.csv", "keep");
+  testing::write_text(dir / "run1_attenuation.csv", "keep");
   EXPECT_THROW(write_summary_csv(dir / "run1", example()), IoError);
   EXPECT_FALSE(std::filesystem::exists(dir / "run1_stations.csv"));
-  EXPECT_EQ(read_text(dir / "run1_pairs.csv"), "keep");
+  EXPECT_EQ(read_text(dir / "run1_attenuation.csv"), "keep");
 }
 
 TEST(SummaryWriter, JsonHoldsEveryRecordWithNullForNotApplicable) {
@@ -137,7 +156,8 @@ TEST(SummaryWriter, JsonHoldsEveryRecordWithNullForNotApplicable) {
   EXPECT_EQ(j.at("stations").size(), 2u);
   EXPECT_EQ(j.at("stations")[1].at("peak_discharge_m3s").get<double>(), 1.0 / 3.0);
   EXPECT_TRUE(j.at("stations")[1].at("peak_stage_m").is_null());
-  EXPECT_EQ(j.at("pairs")[0].at("peak_time_shift_s").get<double>(), 1800.0);
+  EXPECT_EQ(j.at("attenuation")[0].at("peak_delay_s").get<double>(), 1800.0);
+  EXPECT_EQ(j.at("stretches")[0].at("path")[1].get<std::string>(), "alder-reach");
   EXPECT_EQ(j.at("shocks")[0].at("chainage_m").get<double>(), 350.0);
   EXPECT_EQ(j.at("shocks")[0].at("rankine_hugoniot_m_s").get<double>(), 1.25);
   EXPECT_EQ(j.at("shocks")[0].at("fate").get<std::string>(), "outlet");

@@ -25,7 +25,7 @@ for path in paths:
     names = [c["name"] for c in meta["tableSchema"]["columns"]]
     assert list(df.columns) == names, (path, list(df.columns), names)
     assert meta["rdfs:comment"].startswith("CAUTION:"), path
-    assert len(df) > 0 or path.endswith("_pairs.csv"), path
+    assert len(df) > 0 or path.endswith("_stretches.csv"), path
 summary = json.load(open(os.path.join(folder, "aep1-30min_summary.json")))
 stations = pd.read_csv(os.path.join(folder, "aep1-30min_summary_stations.csv"))
 for comment in (None, "#"):

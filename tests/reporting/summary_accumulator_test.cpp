@@ -74,15 +74,5 @@ TEST(SummaryAccumulator, EmptyAccumulatorReportsNotApplicable) {
   EXPECT_TRUE(std::isnan(acc.centroid_time_s()));
 }
 
-TEST(Summary, CompareStationsGivesAttenuationShiftAndVolumeChange) {
-  StationSummary up{"a", "A", 10.0, 3600.0, 2.0, 5000.0, 4000.0, 1000.0};
-  StationSummary down{"b", "B", 8.0, 4500.0, 1.5, 4900.0, 4800.0, 1800.0};
-  const auto p = compare_stations(up, down);
-  EXPECT_EQ(p.peak_attenuation_m3s, 2.0);
-  EXPECT_EQ(p.peak_attenuation_percent, 20.0);
-  EXPECT_EQ(p.peak_time_shift_s, 900.0);
-  EXPECT_EQ(p.volume_change_m3, -100.0);
-}
-
 }  // namespace
 }  // namespace freshet::reporting

@@ -66,9 +66,9 @@ const StationSummary& station(const RunOutcome& r, const std::string& id) {
   throw std::runtime_error("no station " + id);
 }
 
-bool has_pair(const RunOutcome& r, const std::string& up, const std::string& down) {
-  for (const auto& p : r.summary.pairs) {
-    if (p.upstream_id == up && p.downstream_id == down) return true;
+bool has_attenuation_row(const RunOutcome& r, const std::string& element) {
+  for (const auto& a : r.summary.attenuation) {
+    if (a.element == element) return true;
   }
   return false;
 }
@@ -80,11 +80,9 @@ bool has_warning(const RunOutcome& r, const std::string& element, const std::str
   return false;
 }
 
-// A junction fed by a reach and by a subcatchment's point inflow is a confluence: comparing
-// the reach alone with the junction would compare a part with the whole, so no pair.
-// A reach whose only other source is runoff along it keeps its pair (the lateral inflow
-// shows as a volume gain).
-TEST(RunSummary, PairsLeaveOutConfluencesOfChannelAndRunoff) {
+// Attenuation rows are for the elements that store water (reaches, ponds, culverts), not for
+// sources, junctions or outlets.
+TEST(RunSummary, AttenuationRowsAreForReachesPondsAndCulverts) {
   TempDir dir;
   write_text(dir / "q.csv", "time_min,discharge_m3s\n0,1.0\n120,1.0\n");
   const RunOutcome r = run(dir, head(2.0) +
@@ -94,10 +92,11 @@ TEST(RunSummary, PairsLeaveOutConfluencesOfChannelAndRunoff) {
       "loss = { method = \"none\" }\n[[subcatchment.plane]]\nlength = 60.0\nslope = 0.02\n"
       "manning_n = 0.2\ncells = 20\n"
       "[[junction]]\nid = \"j\"\nto = \"out\"\n[[outlet]]\nid = \"out\"\n");
-  EXPECT_TRUE(has_pair(r, "spring", "r1"));
-  EXPECT_FALSE(has_pair(r, "r1", "j"));
-  EXPECT_FALSE(has_pair(r, "field", "j"));
-  EXPECT_TRUE(has_pair(r, "j", "out"));
+  EXPECT_TRUE(has_attenuation_row(r, "r1"));
+  EXPECT_FALSE(has_attenuation_row(r, "spring"));
+  EXPECT_FALSE(has_attenuation_row(r, "field"));
+  EXPECT_FALSE(has_attenuation_row(r, "j"));
+  EXPECT_FALSE(has_attenuation_row(r, "out"));
   // Centroid lag is measured from the rainfall excess upstream: none reaches the spring.
   EXPECT_TRUE(std::isnan(station(r, "spring").centroid_lag_s));
   EXPECT_GT(station(r, "out").centroid_lag_s, 0.0);

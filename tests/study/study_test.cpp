@@ -215,6 +215,35 @@ TEST(StudyLoad, UnknownDownstreamIdIsNamed) {
                        {"reach 'r1', field 'to' = 'outt': no element has this id"}));
 }
 
+// [[stretch]] names two elements on one flow path (docs/basin-file.md): the path is found by
+// following each element's 'to'; an unknown id, the same element twice, or a pair not on one
+// path upstream first is an error at the file, line, stretch and field.
+TEST(StudyLoad, StretchesAreCheckedAndTheirPathIsFound) {
+  {
+    Fixture f(kHead + kGoodNetwork + "[[stretch]]\nupstream = \"spring\"\ndownstream = \"out\"\n");
+    ASSERT_TRUE(f.problems().empty()) << f.what;
+    const Study study = Study::load(f.basin);
+    ASSERT_EQ(study.stretches().size(), 1u);
+    std::vector<std::string> ids;
+    for (std::size_t i : study.stretches()[0].path) ids.push_back(study.stations()[i].id);
+    EXPECT_EQ(ids, (std::vector<std::string>{"spring", "r1", "out"}));
+  }
+  Fixture f(kHead + kGoodNetwork +
+            "[[stretch]]\nupstream = \"sprung\"\ndownstream = \"out\"\n"
+            "[[stretch]]\nupstream = \"out\"\ndownstream = \"spring\"\n"
+            "[[stretch]]\nupstream = \"r1\"\ndownstream = \"r1\"\n"
+            "[[stretch]]\nupstream = \"r1\"\ndownstrem = \"out\"\n");
+  ASSERT_EQ(f.problems().size(), 5u) << f.what;
+  EXPECT_TRUE(has_line(f.what, f.at("\"sprung\""),
+                       {"stretch 1, field 'upstream' = 'sprung': no element has this id"}));
+  EXPECT_TRUE(has_line(f.what, f.at("downstream = \"spring\""),
+                       {"stretch 2, field 'downstream' = 'spring': not downstream of 'out'",
+                        "one flow path"}));
+  EXPECT_TRUE(has_line(f.what, f.at("downstream = \"r1\""),
+                       {"stretch 3, field 'downstream'", "the same element as upstream"}));
+  EXPECT_TRUE(has_line(f.what, f.at("downstrem"), {"stretch 4, field 'downstrem'"}));
+}
+
 TEST(StudyLoad, DuplicateIdsNameBothDefinitions) {
   Fixture f(kHead + kGoodNetwork + R"(
 [[junction]]

@@ -23,7 +23,7 @@ namespace freshet::io {
 
 // The version of the layout of freshet's CSV, JSON and sidecar files; raised when a column or
 // member changes meaning or disappears (added members do not raise it).
-inline constexpr int kOutputFormatVersion = 2;
+inline constexpr int kOutputFormatVersion = 3;  // 3: pairs gave way to attenuation, stretches
 
 // A text field quoted per RFC 4180 when it holds a comma, a double quote, a line break or a
 // '#' (a reader told to skip '#' comments would otherwise cut the row), or starts or ends

@@ -16,7 +16,7 @@
 
 namespace freshet::io {
 
-// Console table: stations, pairs, shocks, mass balance and warnings, columns aligned, units
+// Console table: stations, attenuation, stretches, shocks, mass balance and warnings, columns aligned, units
 // in the headings (m3/s, h, m, m3), ending with the caution unless the caller prints it
 // itself at the end of a longer report (with_caution = false).
 std::string format_summary_table(const reporting::RunSummary& summary, bool with_caution = true);
@@ -27,12 +27,14 @@ std::string format_summary_table(const reporting::RunSummary& summary, bool with
 // "Applicability warnings" heading.
 std::string format_warning_lines(const reporting::RunSummary& summary);
 
-// Writes `<prefix>_stations.csv`, `<prefix>_pairs.csv` and `<prefix>_checks.csv` (shocks,
+// Writes `<prefix>_stations.csv`, `<prefix>_attenuation.csv` (every reach, pond and culvert),
+// `<prefix>_stretches.csv` (the stretches the study names; the header row alone when it names
+// none) and `<prefix>_checks.csv` (shocks,
 // mass-balance records and applicability warnings, one row each), each with its
 // `-metadata.json` sidecar (csv_table.hpp: title, time origin, caution, units); returns the
 // CSV paths. The header row comes first; SI values with full round-trip precision; NaN as an
 // empty field; text fields quoted per RFC 4180 (csv_field: comma, quote, line break, '#').
-// The three paths write_summary_csv() writes for `prefix`, in order.
+// The four paths write_summary_csv() writes for `prefix`, in order.
 std::vector<std::filesystem::path> summary_csv_paths(const std::filesystem::path& prefix);
 std::vector<std::filesystem::path> write_summary_csv(const std::filesystem::path& prefix,
                                                      const reporting::RunSummary& summary,

@@ -30,6 +30,14 @@ struct StationSample {
   // Volume that has left the element since the run started (its ledger's outflow), filled in
   // by the driver: differences give exact volumes between samples.
   double outflow_volume_m3 = kNoValue;
+  // Filled in by the driver from the samples of the elements draining into this one: the
+  // total inflow at the sample time (upstream plus lateral, as one hydrograph) and the part
+  // of it that enters along a reach (subcatchment runoff); 0 where nothing drains in.
+  double inflow_m3s = kNoValue;
+  double lateral_inflow_m3s = kNoValue;
+  // Volume stored in the element at the sample time (its ledger's storage), filled in by the
+  // driver.
+  double storage_m3 = kNoValue;
 };
 
 // Every element keeps the shared freshet::VolumeLedger (core/volume_ledger.hpp).

@@ -49,6 +49,23 @@ class RunRecorder final : public network::RecordSink {
 
   [[nodiscard]] const std::vector<StationDescription>& stations() const { return stations_; }
   [[nodiscard]] const SummaryAccumulator& accumulator(std::size_t i) const { return acc_[i]; }
+  // Station i's total inflow (upstream plus lateral, network::StationSample::inflow_m3s), its
+  // lateral part, and the volume it stores, each as a hydrograph of its own (peaks and times).
+  [[nodiscard]] const SummaryAccumulator& inflow(std::size_t i) const { return inflow_[i]; }
+  [[nodiscard]] const SummaryAccumulator& lateral_inflow(std::size_t i) const { return lateral_[i]; }
+  [[nodiscard]] const SummaryAccumulator& storage(std::size_t i) const { return storage_[i]; }
+
+  // A stretch along one flow path (station indices, upstream first, each draining into the
+  // next; the caller checks that): call before the run. The recorder sums, at every sample,
+  // what enters the path below its first element (side inflow) and that plus the first
+  // element's outflow (combined inflow); summary.hpp's StretchRecord says what they mean.
+  struct Stretch {
+    std::vector<std::size_t> path;
+    SummaryAccumulator side_inflow;
+    SummaryAccumulator combined_inflow;
+  };
+  void watch_stretch(std::vector<std::size_t> path);
+  [[nodiscard]] const std::vector<Stretch>& stretches() const { return stretches_; }
   // Station i's sample at the time of its peak discharge (the first sample of a flat top).
   [[nodiscard]] const network::StationSample& at_peak(std::size_t i) const { return at_peak_[i]; }
   // Centroid time of the rainfall excess of the subcatchments upstream of station i (or of
@@ -83,6 +100,8 @@ class RunRecorder final : public network::RecordSink {
   };
   std::vector<StationDescription> stations_;
   std::vector<SummaryAccumulator> acc_;
+  std::vector<SummaryAccumulator> inflow_, lateral_, storage_;
+  std::vector<Stretch> stretches_;
   std::vector<network::StationSample> at_peak_;
   std::unique_ptr<detail::RunWatch> watch_;
   std::map<std::size_t, KeptSeries> kept_;

@@ -1,5 +1,6 @@
 // What a run found, from the network and its in-memory record (run_recorder.hpp), with no
-// file: station summaries, upstream/downstream pairs, shocks, volume balances, Ponce numbers,
+// file: station summaries, attenuation of every reach, pond and culvert and of the stretches
+// the study names, shocks, volume balances, Ponce numbers,
 // the warnings (kinematic-wave applicability, conduits at capacity, backwater from ponds,
 // coupling steps longer than a rise, peaks not reached by the end of the run, peaks out of
 // scale with the area draining to them), the per-station peaks for the cross-run tables, each
@@ -49,7 +50,7 @@ struct ReportContext {
 };
 
 struct RunReport {
-  RunSummary summary;             // peaks, pairs, shocks, mass balance, warnings
+  RunSummary summary;             // peaks, attenuation, shocks, mass balance, warnings
   std::vector<StationPeak> peaks;  // one per station, model order
   // Per reach: scheme, steps taken and rejected, largest Courant number, volume balance,
   // shocks found, wall time.

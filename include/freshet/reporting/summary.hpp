@@ -8,7 +8,6 @@
 //   freshet::reporting::SummaryAccumulator acc;
 //   for (each output time t) acc.add_sample(t, q_m3s, stage_m);
 //   StationSummary s = acc.station_summary("mill-outlet", "Mill Lane outlet", rain_centroid_s);
-//   PairSummary p = compare_stations(upstream, downstream);
 #pragma once
 
 #include <cmath>
@@ -31,14 +30,53 @@ struct StationSummary {
   double centroid_lag_s = kNotApplicable;   // centroid_time_s minus the rainfall-excess centroid
 };
 
-// Routing effect between two stations: positive attenuation = lower peak downstream.
-struct PairSummary {
+// What one reach, pond or culvert does to the water it receives: the peak of its total inflow
+// (upstream elements plus lateral inflow along a reach, summed into one hydrograph at every
+// coupling step) against the peak of its outflow, the timing shift, and the storage that took
+// the difference. Positive attenuation = a lower peak out than in. Volumes are exact, from the
+// element's ledger: inflow_volume_m3 = outflow_volume_m3 + storage_change_m3 (+ round-off).
+struct AttenuationRecord {
+  std::string element;
+  std::string kind;                                // "reach", "culvert" or "detention"
+  double peak_inflow_m3s = kNotApplicable;          // of upstream + lateral, one hydrograph
+  double peak_inflow_time_s = kNotApplicable;
+  double peak_lateral_inflow_m3s = kNotApplicable;  // of the lateral part alone (reaches)
+  double peak_outflow_m3s = kNotApplicable;
+  double peak_outflow_time_s = kNotApplicable;
+  double attenuation_m3s = kNotApplicable;          // peak inflow - peak outflow
+  double attenuation_percent = kNotApplicable;      // 100 (1 - peak outflow / peak inflow)
+  double peak_delay_s = kNotApplicable;             // outflow peak time - inflow peak time
+  double peak_storage_m3 = kNotApplicable;          // largest volume stored in the element
+  double peak_storage_time_s = kNotApplicable;
+  double storage_at_outflow_peak_m3 = kNotApplicable;
+  double inflow_volume_m3 = kNotApplicable;         // upstream + lateral, over the run
+  double lateral_volume_m3 = kNotApplicable;        // the lateral part
+  double outflow_volume_m3 = kNotApplicable;
+  double storage_change_m3 = kNotApplicable;        // stored at the end - stored at the start
+};
+
+// A stretch the study file names (upstream and downstream element on one flow path): the
+// upstream element's outflow peak against the downstream element's outflow peak, and what
+// entered the path between them (the "side inflow": lateral inflow along its reaches and every
+// tributary joining it, i.e. at each element after the upstream one, its total inflow minus
+// the outflow of the path element above it). The combined inflow is the upstream outflow plus
+// the side inflow, summed at every coupling step with no travel time; its peak against the
+// downstream peak is the stretch's attenuation.
+struct StretchRecord {
   std::string upstream_id;
   std::string downstream_id;
-  double peak_attenuation_m3s = kNotApplicable;     // Qp_up - Qp_down
-  double peak_attenuation_percent = kNotApplicable; // 100 (Qp_up - Qp_down) / Qp_up
-  double peak_time_shift_s = kNotApplicable;        // tp_down - tp_up
-  double volume_change_m3 = kNotApplicable;         // V_down - V_up
+  std::vector<std::string> path;  // upstream ... downstream, in flow order
+  double upstream_peak_m3s = kNotApplicable;  // outflow of the upstream element
+  double upstream_peak_time_s = kNotApplicable;
+  double downstream_peak_m3s = kNotApplicable;  // outflow of the downstream element
+  double downstream_peak_time_s = kNotApplicable;
+  double peak_shift_s = kNotApplicable;         // downstream - upstream peak time
+  double side_inflow_volume_m3 = kNotApplicable;
+  double side_inflow_peak_m3s = kNotApplicable;
+  double side_inflow_peak_time_s = kNotApplicable;
+  double combined_inflow_peak_m3s = kNotApplicable;
+  double attenuation_m3s = kNotApplicable;      // combined inflow peak - downstream peak
+  double attenuation_percent = kNotApplicable;  // 100 (1 - downstream / combined inflow peak)
 };
 
 // Where and when the flood wave of a reach (or of an overland plane of a subcatchment) breaks,
@@ -121,7 +159,8 @@ struct RunSummary {
   std::string source;  // freshet version string
   std::string time_origin_iso;  // what every time in seconds counts from (ISO 8601); "" unknown
   std::vector<StationSummary> stations;
-  std::vector<PairSummary> pairs;
+  std::vector<AttenuationRecord> attenuation;  // every reach, pond and culvert, model order
+  std::vector<StretchRecord> stretches;         // as the study file names them
   std::vector<BreakingRecord> breaking;
   std::vector<ShockRecord> shocks;
   std::vector<MassBalanceRecord> mass_balance;
@@ -129,20 +168,6 @@ struct RunSummary {
   std::vector<ReachMethodRecord> methods;  // one per reach, network order
   std::vector<ApplicabilityWarning> warnings;
 };
-
-// Attenuation, timing and volume change from upstream to downstream.
-inline PairSummary compare_stations(const StationSummary& up, const StationSummary& down) {
-  PairSummary p;
-  p.upstream_id = up.station_id;
-  p.downstream_id = down.station_id;
-  p.peak_attenuation_m3s = up.peak_discharge_m3s - down.peak_discharge_m3s;
-  p.peak_attenuation_percent = up.peak_discharge_m3s > 0.0
-                                   ? 100.0 * p.peak_attenuation_m3s / up.peak_discharge_m3s
-                                   : kNotApplicable;
-  p.peak_time_shift_s = down.peak_time_s - up.peak_time_s;
-  p.volume_change_m3 = down.runoff_volume_m3 - up.runoff_volume_m3;
-  return p;
-}
 
 // Tracks a station's peak, volume and centroid from streamed samples, in O(1) memory.
 //

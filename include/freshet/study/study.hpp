@@ -73,6 +73,15 @@ struct StormDefinition {
   std::optional<Problem> ends_after_run;
 };
 
+// A stretch the basin file names ([[stretch]]): two elements on one flow path, the upstream
+// one first; `path` holds every element from upstream to downstream (model order indices of
+// the base network; scenarios cannot relink elements, so the path is the same in each).
+struct StretchDefinition {
+  std::string upstream;
+  std::string downstream;
+  std::vector<std::size_t> path;
+};
+
 struct ScenarioDefinition {
   std::string id;
   std::string description;
@@ -98,6 +107,7 @@ class Study {
   [[nodiscard]] const std::vector<Problem>& warnings() const noexcept;
   [[nodiscard]] const std::vector<StormDefinition>& storms() const noexcept;
   [[nodiscard]] const std::vector<ScenarioDefinition>& scenarios() const noexcept;
+  [[nodiscard]] const std::vector<StretchDefinition>& stretches() const noexcept;
   [[nodiscard]] const StormDefinition& storm(std::string_view id) const;  // InputError if unknown
   [[nodiscard]] const ScenarioDefinition& scenario(std::string_view id) const;  // likewise
   // Stations of the base network (scenario_id empty) or of a scenario, in model order (one per

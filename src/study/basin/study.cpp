@@ -33,6 +33,7 @@ struct Study::Impl {
   StudySettings settings;
   std::vector<StormDefinition> storms;
   std::vector<ScenarioDefinition> scenarios;
+  std::vector<StretchDefinition> stretches;
   // scenario id -> its [scenario.change] table, inside `root` (toml++ copies lose positions)
   std::map<std::string, const toml::table*, std::less<>> changes;
   std::vector<StationDescription> stations;  // the base network's
@@ -43,6 +44,7 @@ struct Study::Impl {
   void read_settings(FieldReader& r, std::vector<Problem>& problems);
   void read_storms(std::vector<Problem>& problems);
   void read_scenarios(std::vector<Problem>& problems);
+  void read_stretches(std::vector<Problem>& problems);
   [[nodiscard]] const toml::table* checked_changes(std::string_view scenario_id,
                                                    std::vector<Problem>& problems) const;
   network::Model build(std::string_view scenario_id, const StormDefinition& storm,
@@ -429,6 +431,69 @@ void Study::Impl::read_scenarios(std::vector<Problem>& problems) {
   }
 }
 
+// ---- stretches -------------------------------------------------------------------------------
+
+namespace {
+
+// The elements from `up` down to `down` following each element's `to`; empty when `down` is
+// not downstream of `up`.
+std::vector<std::size_t> flow_path(const std::vector<StationDescription>& stations,
+                                   std::size_t up, std::size_t down) {
+  std::map<std::string_view, std::size_t> index;
+  for (std::size_t i = 0; i < stations.size(); ++i) index.emplace(stations[i].id, i);
+  std::vector<std::size_t> path{up};
+  while (path.back() != down && path.size() <= stations.size()) {
+    const auto next = index.find(stations[path.back()].to);
+    if (next == index.end()) return {};
+    path.push_back(next->second);
+  }
+  return path.back() == down ? path : std::vector<std::size_t>{};
+}
+
+}  // namespace
+
+// Needs the base network's stations (read after it is built).
+void Study::Impl::read_stretches(std::vector<Problem>& problems) {
+  const toml::array* list = root.get_as<toml::array>("stretch");
+  std::size_t n = 0;
+  for (const toml::node& node : detail::items_of(list)) {
+    const toml::table* t = node.as_table();
+    ++n;
+    if (!t) continue;
+    FieldReader r(*t, file, "stretch " + std::to_string(n), problems);
+    StretchDefinition d;
+    d.upstream = r.text("upstream");
+    d.downstream = r.text("downstream");
+    r.finish();
+    const auto find = [this](const std::string& id) {
+      for (std::size_t i = 0; i < stations.size(); ++i) {
+        if (stations[i].id == id) return i;
+      }
+      return stations.size();
+    };
+    const std::size_t up = find(d.upstream), down = find(d.downstream);
+    if (!d.upstream.empty() && up == stations.size()) {
+      r.report("upstream", "= '" + d.upstream + "': no element has this id");
+    }
+    if (!d.downstream.empty() && down == stations.size()) {
+      r.report("downstream", "= '" + d.downstream + "': no element has this id");
+    }
+    if (up == stations.size() || down == stations.size()) continue;
+    if (up == down) {
+      r.report("downstream", "= '" + d.downstream + "': the same element as upstream");
+      continue;
+    }
+    d.path = flow_path(stations, up, down);
+    if (d.path.empty()) {
+      r.report("downstream", "= '" + d.downstream + "': not downstream of '" + d.upstream +
+                                 "' (following each element's 'to'): the two must lie on one "
+                                 "flow path, upstream first");
+      continue;
+    }
+    stretches.push_back(std::move(d));
+  }
+}
+
 namespace {
 
 bool element_exists(const toml::table& root, std::string_view id) {
@@ -517,6 +582,7 @@ Study Study::load(const std::filesystem::path& basin_file) {
   for (std::string_view key : detail::kElementArrays) top.optional_node(key);
   top.optional_node("storm");
   top.optional_node("scenario");
+  top.optional_node("stretch");
   top.finish();
   impl->read_storms(problems);
   impl->read_scenarios(problems);
@@ -531,6 +597,7 @@ Study Study::load(const std::filesystem::path& basin_file) {
   const std::size_t before = problems.size();
   std::vector<Problem> warnings;
   impl->build("", rain, problems, &impl->stations, &warnings);
+  if (problems.size() == before) impl->read_stretches(problems);
   if (problems.size() == before) {  // scenarios only add news when the base is sound
     for (const auto& s : impl->scenarios) {
       impl->build(s.id, rain, problems, &impl->scenario_stations[s.id], &warnings);
@@ -554,6 +621,9 @@ const std::vector<Problem>& Study::warnings() const noexcept { return impl_->war
 const std::vector<StormDefinition>& Study::storms() const noexcept { return impl_->storms; }
 const std::vector<ScenarioDefinition>& Study::scenarios() const noexcept {
   return impl_->scenarios;
+}
+const std::vector<StretchDefinition>& Study::stretches() const noexcept {
+  return impl_->stretches;
 }
 std::vector<StationDescription> Study::stations(std::string_view scenario_id) const {
   if (scenario_id.empty()) return impl_->stations;
