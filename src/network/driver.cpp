@@ -222,6 +222,7 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
   const auto wall_start = std::chrono::steady_clock::now();
   for (auto& e : model.elements) e->reset(clock.start_s);
   prime(model);
+  couple_backwater(model, clock.start_s);
 
   // validate() has bounded both counts by kMaxCouplingSteps, so the conversions are exact.
   const double dt_s = clock.coupling_step_s();
@@ -241,6 +242,7 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
     for (long long j = 1; j <= steps_per_output; ++j) {
       const double t1 = (j == steps_per_output) ? output_end
                                                 : output_start + static_cast<double>(j) * dt_s;
+      couple_backwater(model, t0);
       sweep(model, t0, t1, outflow);
       t0 = t1;
       ++steps;

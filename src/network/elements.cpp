@@ -61,6 +61,11 @@ ReachElement::ReachElement(std::string id,
 
 void ReachElement::reset(double start_s) {
   reach_->set_uniform_discharge(0.0);  // dry; restarts the reach's clock and ledger
+  drowned_ = 0;
+  routed_ledger_ = VolumeLedger{};
+  const bool represented = backwater_facts_.represented;
+  const std::string pool_id = backwater_facts_.pool_id;
+  backwater_facts_ = {represented, pool_id, 0.0, 0, start_s, 0.0};
   start_s_ = start_s;
   inflow_end_m3s_ = 0.0;
   watch_.start(start_s, 0.0, 0.0);
@@ -73,6 +78,7 @@ void ReachElement::reset(double start_s) {
 void ReachElement::prime(double inflow_m3s) {
   if (!(inflow_m3s > 0.0)) return;
   reach_->set_uniform_discharge(inflow_m3s);
+  routed_ledger_.initial_storage_m3 = routed_ledger_.storage_m3 = routed_storage_m3();
   inflow_end_m3s_ = inflow_m3s;
   watch_.start(start_s_, inflow_m3s, reach_->cell_area_m2().front());
 }
@@ -84,6 +90,7 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
           ? routing::LateralInflow::uniform(
                 length_m, PiecewiseLinearSeries::constant(in.lateral_mean_m3s / length_m))
           : routing::LateralInflow::none();
+  const double routed_before_m3 = backwater_pool_ ? routed_storage_m3() : 0.0;
   routing::AdvanceResult r;
   try {
     r = reach_->advance(in.t0_s, in.t1_s, in.inflow_mean_m3s, lateral);
@@ -112,15 +119,107 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
       peak_above_full_s_ = in.t1_s;
     }
   }
+  if (backwater_pool_) {
+    // The routed cells' update is conservative, so what crossed into the drowned length is
+    // what entered less what they now hold more; lateral inflow onto the drowned length goes
+    // straight to the pool.
+    const double dt_s = in.dt_s();
+    const double routed_after_m3 = routed_storage_m3();
+    const double in_m3 = in.inflow_mean_m3s * dt_s, lateral_m3 = in.lateral_mean_m3s * dt_s;
+    const double out_m3 = std::max(0.0, in_m3 + lateral_m3 - (routed_after_m3 - routed_before_m3));
+    routed_ledger_.inflow_m3 += in_m3;
+    routed_ledger_.lateral_m3 += lateral_m3;
+    routed_ledger_.outflow_m3 += out_m3;
+    routed_ledger_.storage_m3 = routed_after_m3;
+    const int edge = last - drowned_;
+    const double drowned_fraction = static_cast<double>(drowned_) / (last + 1);
+    const double end_m3s = (edge >= 0 ? reach_->cell_discharge_m3s(edge) : in.inflow_end_m3s) +
+                           drowned_fraction * in.lateral_end_m3s;
+    peak_outflow_m3s_ = std::max(peak_outflow_m3s_, end_m3s);
+    return {out_m3 / dt_s, end_m3s};
+  }
   const double end_m3s = reach_->cell_discharge_m3s(last);
   peak_outflow_m3s_ = std::max(peak_outflow_m3s_, end_m3s);
   return {r.mean_outflow_m3s, end_m3s};
+}
+
+// ---- backwater ---------------------------------------------------------------------------
+
+void ReachElement::attach_backwater(const PoolElement& pool) {
+  FRESHET_ASSERT(outlet_invert_m_.has_value(), "backwater needs the reach's outlet invert");
+  backwater_pool_ = &pool;
+  backwater_facts_.represented = true;
+  backwater_facts_.pool_id = pool.id();
+}
+
+ReachWedge ReachElement::wedge() const {
+  FRESHET_ASSERT(outlet_invert_m_.has_value(), "a reach's wedge needs its outlet invert");
+  return {section_.section, *outlet_invert_m_, section_.bed_slope, reach_->spec().length_m};
+}
+
+double ReachElement::cell_bed_m(int cell) const {
+  const double dx = reach_->cell_width_m();
+  const double upstream_of_outlet_m = (reach_->spec().cell_count - cell - 0.5) * dx;
+  return *outlet_invert_m_ + section_.bed_slope * upstream_of_outlet_m;
+}
+
+double ReachElement::routed_storage_m3() const {
+  const auto areas = reach_->cell_area_m2();
+  const std::size_t routed = areas.size() - static_cast<std::size_t>(drowned_);
+  double sum = 0.0;
+  for (std::size_t k = 0; k < routed; ++k) sum += areas[k];
+  return sum * reach_->cell_width_m();
+}
+
+double ReachElement::drown(double stage_m, double pool_storage_m3, double time_s) {
+  const auto areas = reach_->cell_area_m2();
+  const int n = reach_->spec().cell_count;
+  const double dx = reach_->cell_width_m();
+  int below = 0;  // cells from the outlet whose computed water surface is below the level
+  while (below < n) {
+    const int k = n - 1 - below;
+    if (!(stage_m > cell_bed_m(k) + section_.depth_m(areas[static_cast<std::size_t>(k)]))) break;
+    ++below;
+  }
+  double moved_m3 = 0.0;
+  for (; drowned_ < below; ++drowned_) {
+    moved_m3 += areas[static_cast<std::size_t>(n - 1 - drowned_)] * dx;
+  }
+  // Cells emerge from the upstream edge of the drowned length, each taking back the water
+  // the routing holds in it, while the pool has that water.
+  while (drowned_ > below) {
+    const double cell_m3 = areas[static_cast<std::size_t>(n - drowned_)] * dx;
+    if (cell_m3 - moved_m3 > pool_storage_m3) break;
+    moved_m3 -= cell_m3;
+    --drowned_;
+  }
+  routed_ledger_.outflow_m3 += moved_m3;
+  routed_ledger_.storage_m3 = routed_storage_m3();
+  const double drowned_m = drowned_ * dx;
+  if (drowned_ > backwater_facts_.most_drowned_cells) {
+    backwater_facts_.most_drowned_cells = drowned_;
+    backwater_facts_.longest_drowned_m = drowned_m;
+    backwater_facts_.time_longest_drowned_s = time_s;
+    backwater_facts_.stage_then_m = stage_m;
+  }
+  return moved_m3;
 }
 
 StationSample ReachElement::sample() const {
   const auto areas = reach_->cell_area_m2();
   const double a = areas.back();
   StationSample s;
+  if (backwater_pool_ && drowned_ > 0) {
+    // The outlet lies in the drowned length: the pool's level is the stage there, and the
+    // discharge is what enters the drowned length.
+    const int edge = reach_->spec().cell_count - 1 - drowned_;
+    s.stage_m = backwater_pool_->stage_m();
+    s.depth_m = std::max(0.0, s.stage_m - *outlet_invert_m_);
+    s.discharge_m3s = edge >= 0 ? reach_->cell_discharge_m3s(edge) : inflow_end_m3s_;
+    const double area_m2 = section_.section->area_m2(s.depth_m);
+    s.velocity_m_s = area_m2 > 0.0 ? s.discharge_m3s / area_m2 : 0.0;
+    return s;
+  }
   s.discharge_m3s = reach_->cell_discharge_m3s(reach_->spec().cell_count - 1);
   s.depth_m = section_.depth_m(a);
   s.velocity_m_s = section_.velocity_m_s(a);
@@ -128,7 +227,9 @@ StationSample ReachElement::sample() const {
   return s;
 }
 
-VolumeLedger ReachElement::ledger() const { return reach_->ledger(); }
+VolumeLedger ReachElement::ledger() const {
+  return backwater_pool_ ? routed_ledger_ : reach_->ledger();
+}
 
 WaveFacts ReachElement::wave_facts() const {
   return make_wave_facts(
@@ -149,6 +250,7 @@ ElementReport ReachElement::report() const {
   f.peak_volume_above_full_m3 = peak_above_full_m3_;
   f.time_of_peak_volume_above_full_s = peak_above_full_s_;
   f.diagnostics = reach_->diagnostics();
+  f.backwater = backwater_facts_;
   return {kind(), std::move(f)};
 }
 
@@ -161,6 +263,17 @@ std::vector<CellSample> ReachElement::cell_samples() const {
     out[k].discharge_m3s = reach_->cell_discharge_m3s(static_cast<int>(k));
     out[k].depth_m = section_.depth_m(areas[k]);
     out[k].velocity_m_s = section_.velocity_m_s(areas[k]);
+  }
+  // Cells in the drowned length stand at the pool's level and pass what enters it.
+  const int n = static_cast<int>(areas.size());
+  for (int k = n - drowned_; k < n && backwater_pool_; ++k) {
+    const auto i = static_cast<std::size_t>(k);
+    const double depth_m = std::max(0.0, backwater_pool_->stage_m() - cell_bed_m(k));
+    const double area_m2 = section_.section->area_m2(depth_m);
+    out[i].discharge_m3s = n - drowned_ > 0 ? out[static_cast<std::size_t>(n - drowned_ - 1)].discharge_m3s
+                                            : inflow_end_m3s_;
+    out[i].depth_m = depth_m;
+    out[i].velocity_m_s = area_m2 > 0.0 ? out[i].discharge_m3s / area_m2 : 0.0;
   }
   return out;
 }
@@ -239,6 +352,10 @@ PoolElement::PoolElement(std::string id,
       std::move(basin),
       [r](double stage_m) { return r->discharge_m3s(stage_m); },
       options);
+}
+
+void PoolElement::add_backwater_storage(const ReachWedge& wedge) {
+  pool_->add_storage([wedge](double stage_m) { return wedge.volume_m3(stage_m); });
 }
 
 void PoolElement::reset(double start_s) {

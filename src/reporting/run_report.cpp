@@ -262,6 +262,7 @@ void add_backwater_warning(const network::Model& model,
                            const RunRecorder& recorder,
                            const std::vector<StationDescription>& stations,
                            std::size_t i,
+                           const network::ReachFacts& reach,
                            RunSummary& summary,
                            bool diffusion_wave) {
   const std::ptrdiff_t down = model.topology.downstream[i];
@@ -276,6 +277,23 @@ void add_backwater_warning(const network::Model& model,
                                     "backwater from the pond could not be checked"});
     return;
   }
+  if (reach.backwater.represented) {
+    // backwater = "level-pool": the drowned length follows the pool's level (its stations
+    // report that level), so the warning says what was represented and what was not.
+    const network::BackwaterFacts& b = reach.backwater;
+    if (b.most_drowned_cells == 0) return;
+    summary.warnings.push_back(
+        {id, "the pond at '" + model.links[d].id + "' drowned up to " +
+                 format_fixed(b.longest_drowned_m, 0) + " m of this reach's " +
+                 format_fixed(reach.length_m, 0) + " m (at t = " +
+                 format_fixed(b.time_longest_drowned_s / 60.0, 0) + " min, pond level " +
+                 format_fixed(b.stage_then_m, 2) +
+                 " m): represented as a level pool over the drowned length (flat water "
+                 "surface, the reach's volume below the level added to the pond's storage); "
+                 "the backwater curve above it is not: check with a dynamic-wave model where "
+                 "stages upstream matter"});
+    return;
+  }
   const double excess_m = recorder.backwater_excess_m(i);
   if (!(excess_m > 0.0)) return;
   summary.warnings.push_back({id,
@@ -284,7 +302,9 @@ void add_backwater_warning(const network::Model& model,
                                   " m above this reach's computed outlet water level (at t = " +
                                   format_fixed(recorder.backwater_time_s(i) / 60.0, 0) +
                                   " min): backwater into the "
-                                  "reach is not represented by the kinematic wave" +
+                                  "reach is not represented by the kinematic wave (set "
+                                  "backwater = \"level-pool\" in [study] to represent it as a "
+                                  "level pool)" +
                                   (diffusion_wave ? " (nor by the diffusion wave this reach "
                                                     "was routed with)"
                                                   : std::string())});
@@ -366,7 +386,7 @@ void add_warnings(const network::Model& model,
       }
       summary.warnings.push_back({model.links[i].id, std::move(message)});
     }
-    add_backwater_warning(model, recorder, stations, i, summary, routes_diffusion(reach));
+    add_backwater_warning(model, recorder, stations, i, reach, summary, routes_diffusion(reach));
   }
 }
 

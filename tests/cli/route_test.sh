@@ -28,7 +28,8 @@ status=$?
 grep -q '^Stations$' "$log" || fail "no station summary printed"
 grep -q '^mill-lane  *Mill Lane culvert ' "$log" || fail "culvert row missing from the summary"
 grep -q '^Mass balance$' "$log" || fail "no mass balance printed"
-tail -n 6 "$log" | grep -q '^CAUTION: ' || fail "the output does not end with the caution"
+# The caution is the last paragraph (9 lines at 92 columns since it names every method).
+tail -n 12 "$log" | grep -q '^CAUTION: ' || fail "the output does not end with the caution"
 
 base="$out/base/aep1-30min"
 for f in "$base.nc" "${base}_subcatchments.nc" "${base}_summary_stations.csv" \

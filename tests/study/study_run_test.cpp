@@ -144,12 +144,13 @@ TEST(RunSummary, ApplicabilityNumberDoesNotDependOnWhenTheFloodArrives) {
   EXPECT_NEAR(late, early, 0.1 * early);
 }
 
-// Backwater: a pond kept above the reach's outlet water level by a tailwater (and a small
-// barrel) must be reported, even though its peak is below the reach's own peak level.
-TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
-  TempDir dir;
+// A reach draining into a culvert pond that a tailwater keeps at 11.2 m, 1.2 m above the
+// reach's outlet invert (and a small barrel), with `study_keys` added to [study].
+RunOutcome run_pond_study(const TempDir& dir, const std::string& study_keys) {
   write_text(dir / "q.csv", "time_min,discharge_m3s\n0,0.5\n30,6.0\n90,0.5\n240,0.5\n");
-  const RunOutcome r = run(dir, head(4.0) +
+  std::string study = head(4.0);
+  study.insert(study.find("[[storm]]"), study_keys);
+  return run(dir, study +
       "[[inflow]]\nid = \"spring\"\nto = \"r1\"\nfile = \"q.csv\"\n"
       "[[reach]]\nid = \"r1\"\nto = \"c1\"\n" + kChannel + "outlet_invert = 10.0\n"
       "[[culvert]]\nid = \"c1\"\nto = \"out\"\ntailwater = 11.2\n"
@@ -157,7 +158,25 @@ TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
       "outlet_invert = 9.95, manning_n = 0.012, inlet = \"concrete-square-edge-headwall\" }\n"
       "ponding = { bottom = 10.0, area = 4000.0 }\n"
       "[[outlet]]\nid = \"out\"\n");
+}
+
+// Backwater: a pond kept above the reach's outlet water level by a tailwater must be
+// reported, even though its peak is below the reach's own peak level.
+TEST(RunSummary, BackwaterFromAPondIsReportedWheneverThePondStandsHigher) {
+  TempDir dir;
+  const RunOutcome r = run_pond_study(dir, "");
   EXPECT_TRUE(has_warning(r, "r1", "backwater"));
+  EXPECT_TRUE(has_warning(r, "r1", "set backwater = \"level-pool\" in [study]"));
+}
+
+// The same pond with backwater = "level-pool": the reach's lower length is drowned (with
+// S0 = 0.002 up to 600 m of the 1200 m reach lies below 11.2 m), the warning says so instead,
+// and the run's volume balance holds (the run would refuse to write otherwise).
+TEST(RunSummary, BackwaterAsALevelPoolSaysHowMuchOfTheReachWasDrowned) {
+  TempDir dir;
+  const RunOutcome r = run_pond_study(dir, "backwater = \"level-pool\"\n");
+  EXPECT_TRUE(has_warning(r, "r1", "represented as a level pool over the drowned length"));
+  EXPECT_FALSE(has_warning(r, "r1", "not represented by the kinematic wave"));
 }
 
 // A run that ends while the flood is still rising warns at every station still at its peak;

@@ -13,6 +13,7 @@
 #include <vector>
 
 #include "freshet/core/error.hpp"
+#include "freshet/network/backwater.hpp"
 #include "freshet/network/element.hpp"
 #include "freshet/network/topology.hpp"
 
@@ -23,6 +24,9 @@ struct Model {
   std::vector<Link> links;
   std::vector<std::unique_ptr<Element>> elements;
   Topology topology;
+  // Reaches whose drowned length a pool's level takes over (backwater.hpp); empty unless
+  // represent_backwater() was called.
+  std::vector<BackwaterLink> backwater;
 
   // Checks the links (throws InputError listing every problem) and orders the network.
   void finalize();

@@ -55,6 +55,16 @@ struct WaveFacts {
 inline constexpr double kSignificantShockFraction = 0.1;  // our criterion, no source
 
 // A reach routed by the kinematic wave.
+// Backwater from the pool a reach drains into, represented as a level pool (backwater.hpp).
+struct BackwaterFacts {
+  bool represented = false;  // the reach follows its pool's level
+  std::string pool_id;
+  double longest_drowned_m = 0.0;  // whole drowned cells, from the outlet
+  int most_drowned_cells = 0;
+  double time_longest_drowned_s = 0.0;
+  double stage_then_m = 0.0;  // the pool's level at that time
+};
+
 struct ReachFacts {
   double bed_slope = 0.0;  // m/m
   double length_m = 0.0;
@@ -71,6 +81,7 @@ struct ReachFacts {
   double peak_volume_above_full_m3 = 0.0;
   double time_of_peak_volume_above_full_s = 0.0;
   routing::RunDiagnostics diagnostics;  // scheme, steps, Courant numbers, shocks, wall time
+  BackwaterFacts backwater;
 };
 
 // One overland plane of a subcatchment (per metre of width: discharges in m2/s).

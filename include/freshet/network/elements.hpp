@@ -8,12 +8,15 @@
 #include <optional>
 
 #include "freshet/geometry/section_flux.hpp"
+#include "freshet/network/backwater.hpp"
 #include "freshet/hydrology/subcatchment.hpp"
 #include "freshet/network/element.hpp"
 #include "freshet/network/structures/level_pool.hpp"
 #include "freshet/routing/reach_model.hpp"
 
 namespace freshet::network {
+
+class PoolElement;
 
 // A reach routed by the kinematic wave. Its station is the downstream end: discharge,
 // depth and velocity of the last cell, and stage = outlet invert elevation + depth when
@@ -35,6 +38,7 @@ class ReachElement final : public Element {
 
   [[nodiscard]] const routing::ReachModel& reach() const { return *reach_; }
   [[nodiscard]] const geometry::FlowSection& section() const { return section_; }
+  [[nodiscard]] std::optional<double> outlet_invert_m() const { return outlet_invert_m_; }
   // Coupling steps at whose end some cell held the conduit's capacity area (the kinematic
   // wave at its limit: surcharge is not represented).
   [[nodiscard]] long capacity_steps() const { return capacity_steps_; }
@@ -52,7 +56,23 @@ class ReachElement final : public Element {
   [[nodiscard]] WaveFacts wave_facts() const;
   [[nodiscard]] const routing::PredictedBreaking& breaking() const { return watch_.result(); }
 
+  // Backwater (backwater.hpp). attach_backwater: the pool this reach drains into backs water
+  // into it (the reach needs an outlet invert). From then on the reach keeps its own ledger
+  // over its routed (not drowned) cells.
+  void attach_backwater(const PoolElement& pool);
+  [[nodiscard]] bool has_backwater() const noexcept { return backwater_pool_ != nullptr; }
+  // The reach's volume below a level (needs an outlet invert).
+  [[nodiscard]] ReachWedge wedge() const;
+  // Drowns the cells, from the outlet upstream, whose computed water surface lies below
+  // stage_m, and lets emerge those that no longer do (taking back no more than
+  // pool_storage_m3). Returns the volume handed to the pool (< 0: taken from it).
+  double drown(double stage_m, double pool_storage_m3, double time_s);
+  [[nodiscard]] int drowned_cells() const noexcept { return drowned_; }
+
  private:
+  [[nodiscard]] double routed_storage_m3() const;
+  [[nodiscard]] double cell_bed_m(int cell) const;
+  StepOutflow advance_drowned(const StepInflow& in, double mean_outflow_m3s);
   geometry::FlowSection section_;
   std::unique_ptr<routing::ReachModel> reach_;
   std::optional<double> outlet_invert_m_;
@@ -65,6 +85,12 @@ class ReachElement final : public Element {
   double full_volume_m3_ = 0.0;
   double peak_above_full_m3_ = 0.0;
   double peak_above_full_s_ = 0.0;
+  // Backwater: the pool, the drowned cells (counted from the outlet), the ledger of the
+  // routed cells, and the longest drowned length with its time.
+  const PoolElement* backwater_pool_ = nullptr;
+  int drowned_ = 0;
+  VolumeLedger routed_ledger_;
+  BackwaterFacts backwater_facts_;
 };
 
 // A subcatchment: rain, losses and overland planes. Its station reports the runoff, the
@@ -107,6 +133,12 @@ class PoolElement final : public Element {
   [[nodiscard]] ElementReport report() const override;
 
   [[nodiscard]] const structures::LevelPool& pool() const { return *pool_; }
+  // Backwater (backwater.hpp): the pool's storage gains a reach's wedge (before the run);
+  // volume handed over by a drowning reach (> 0) or taken back (< 0) at the current time.
+  void add_backwater_storage(const ReachWedge& wedge);
+  void exchange_volume(double volume_m3) { pool_->exchange(volume_m3); }
+  [[nodiscard]] double stage_m() const { return pool_->state().stage_m; }
+  [[nodiscard]] double storage_m3() const { return pool_->state().storage_m3; }
   [[nodiscard]] const structures::CulvertCrossing* crossing() const { return crossing_.get(); }
 
  private:

@@ -52,6 +52,10 @@ struct StudySettings {
   // wave_choice = "automatic": each reach routed by the kinematic or the diffusion wave as
   // Ponce's criteria judge its flood (a first pass with the kinematic wave measures it).
   bool automatic_wave_choice = false;
+  // backwater = "level-pool": a pond or culvert pool backs water into the reach that feeds
+  // it as a level pool over the reach's drowned length (network/backwater.hpp); the default
+  // "warn-only" routes reaches without it and warns where the pond stood higher.
+  bool level_pool_backwater = false;
 
   // The clock of every run: from time 0 to duration_s, samples at the output interval,
   // elements coupled at the step the driver takes.

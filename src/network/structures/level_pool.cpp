@@ -39,7 +39,7 @@ void LevelPool::reset(double time_s, double stage_m) {
   p.require_finite("initial_stage_m", stage_m);
   p.throw_if_any();
   const double h = std::max(stage_m, storage_.bottom_stage_m());
-  state_ = {time_s, h, storage_.storage_m3(h), outflow_(h)};
+  state_ = {time_s, h, total_storage_m3(h), outflow_(h)};
   ledger_ = VolumeLedger{};
   ledger_.initial_storage_m3 = ledger_.storage_m3 = state_.storage_m3;
   peaks_ = {};
@@ -50,10 +50,58 @@ void LevelPool::reset(double time_s, double stage_m) {
   peaks_.peak_storage_m3 = state_.storage_m3;
 }
 
+void LevelPool::add_storage(std::function<double(double)> storage_m3) {
+  FRESHET_ASSERT(static_cast<bool>(storage_m3), "level pool: added storage must be callable");
+  added_storage_.push_back(std::move(storage_m3));
+}
+
+double LevelPool::total_storage_m3(double stage_m) const {
+  double s = storage_.storage_m3(stage_m);
+  for (const auto& extra : added_storage_) s += extra(stage_m);
+  return s;
+}
+
+void LevelPool::exchange(double volume_m3) {
+  if (volume_m3 == 0.0) return;
+  const double target = state_.storage_m3 + volume_m3;
+  if (!(target >= 0.0)) {
+    throw NumericalError(name_ + ": at t = " + format_value(state_.time_s) + " s a reach asked " +
+                         format_value(-volume_m3) + " m3 back from a pool holding " +
+                         format_value(state_.storage_m3) + " m3");
+  }
+  const double bottom = storage_.bottom_stage_m();
+  auto g = [&](double h) { return total_storage_m3(h) - target; };
+  const LevelPoolState before = state_;
+  double h = bottom;
+  if (g(bottom) < 0.0) {
+    const double base = std::max(state_.stage_m, bottom);
+    double hi = base + 0.01;
+    for (int k = 0; g(hi) < 0.0; ++k) {
+      if (k > 80 || !std::isfinite(hi)) {
+        throw NumericalError(name_ + ": no level holds " + format_value(target) + " m3");
+      }
+      hi = base + 0.01 * std::ldexp(1.0, k + 1);
+    }
+    const RootResult r = detail::solve_monotone(g, bottom, hi, 1e-14);
+    if (!r.converged || !std::isfinite(r.x)) {
+      throw NumericalError(name_ + ": the level holding " + format_value(target) +
+                           " m3 was not found");
+    }
+    h = r.x;
+  }
+  // The storage is the target itself, not S(h): the ledger keeps exactly what was moved.
+  state_.stage_m = h;
+  state_.storage_m3 = target;
+  state_.outflow_m3s = outflow_(h);
+  ledger_.inflow_m3 += volume_m3;
+  ledger_.storage_m3 = target;
+  record(before, state_);
+}
+
 bool LevelPool::try_substep(double dt_s, double inflow_m3s, LevelPoolState& next,
                             bool& floored) const {
   const double rhs = state_.storage_m3 + dt_s * (inflow_m3s - 0.5 * state_.outflow_m3s);
-  auto g = [&](double h) { return storage_.storage_m3(h) + 0.5 * dt_s * outflow_(h) - rhs; };
+  auto g = [&](double h) { return total_storage_m3(h) + 0.5 * dt_s * outflow_(h) - rhs; };
   const double bottom = storage_.bottom_stage_m();
   next.time_s = state_.time_s + dt_s;
   floored = rhs < 0.0;
@@ -70,7 +118,7 @@ bool LevelPool::try_substep(double dt_s, double inflow_m3s, LevelPoolState& next
     if (!r.converged || !std::isfinite(r.x)) return false;
     next.stage_m = r.x;
   }
-  next.storage_m3 = storage_.storage_m3(next.stage_m);
+  next.storage_m3 = total_storage_m3(next.stage_m);
   next.outflow_m3s = outflow_(next.stage_m);
   return std::isfinite(next.outflow_m3s) && next.outflow_m3s >= 0.0;
 }

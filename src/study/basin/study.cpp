@@ -192,6 +192,8 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   settings.plane_routing.implicit_courant = implicit_courant;
   settings.automatic_wave_choice =
       r.choice("wave_choice", {"as-given", "automatic"}, "as-given") == "automatic";
+  settings.level_pool_backwater =
+      r.choice("backwater", {"warn-only", "level-pool"}, "warn-only") == "level-pool";
   // The run budget (network/run_budget.hpp): refused runs name these keys to lift the limit.
   if (auto w = r.optional_positive("max_cell_steps")) settings.budget.max_cell_steps = *w;
   if (auto mb = r.optional_positive("max_memory_mb")) {
@@ -553,6 +555,9 @@ network::Model Study::Impl::build(std::string_view scenario_id,
                                 warnings_out);
   if (reach_scheme && *reach_scheme) builder.set_reach_scheme(reach_scheme);
   network::Model model = builder.build();
+  if (settings.level_pool_backwater && !model.elements.empty()) {
+    network::represent_backwater(model);  // reaches without an invert are warned about
+  }
   if (stations_out) *stations_out = builder.stations();
   return model;
 }

@@ -82,6 +82,16 @@ class LevelPool {
 
   // Starts (or restarts) at time_s with the given stage; clears the ledger and peaks.
   void reset(double time_s, double stage_m);
+  // Adds storage to the stage-storage relation (m3 at a stage: continuous, non-decreasing, 0
+  // at the relation's bottom stage), e.g. the wedge of a reach the pool backs water into.
+  // Call before reset(): the state is not recomputed.
+  void add_storage(std::function<double(double stage_m)> storage_m3);
+  // Moves volume into (> 0) or out of (< 0) the pool at the current time, counted as inflow,
+  // and sets the level that holds the new storage. Throws NumericalError if it would leave
+  // less than no water.
+  void exchange(double volume_m3);
+  // The augmented relation: the StageStorage plus every added storage.
+  [[nodiscard]] double total_storage_m3(double stage_m) const;
   // Watches a stage: peaks().time_above_watch_stage_s accumulates the time above it.
   void watch_stage(std::optional<double> stage_m) { watch_stage_m_ = stage_m; }
 
@@ -110,6 +120,7 @@ class LevelPool {
   VolumeLedger ledger_;
   PoolPeaks peaks_;
   std::optional<double> watch_stage_m_;
+  std::vector<std::function<double(double)>> added_storage_;
 };
 
 // Textbook storage-indication routing with a fixed interval dt (Chow, Maidment and Mays
