@@ -22,6 +22,7 @@
 #include "freshet/study/study_run.hpp"
 #include "freshet/network/driver.hpp"
 #include "../io/temp_dir.hpp"
+#include "manning_closed_form.hpp"
 
 namespace freshet::study {
 namespace {
@@ -989,22 +990,8 @@ TEST(StudyUnits, SiAndUsCustomaryInputRouteToTheSamePeaks) {
 // ---- 3. end-to-end physics through the basin-file path --------------------------------------
 
 // (a) Uniform flow. A prismatic rectangular reach fed a constant discharge settles to uniform
-// flow: outflow = inflow, and the depth is the Manning normal depth,
-//   Q = (1/n) A R^(2/3) S^(1/2), A = b y, R = b y / (b + 2 y)   (SI; Manning's formula,
-// Chow 1959, Open-Channel Hydraulics, eq. 5-6 and sec. 6-2 normal depth; numbers from memory).
-// The depth is found here by plain bisection, independent of freshet's root finders.
-double manning_normal_depth_rectangular(double q_m3s, double b_m, double n, double slope) {
-  const auto q_of = [&](double y) {
-    const double a = b_m * y;
-    return a * std::pow(a / (b_m + 2.0 * y), 2.0 / 3.0) * std::sqrt(slope) / n;
-  };
-  double lo = 0.0, hi = 100.0;
-  for (int k = 0; k < 200; ++k) {
-    const double mid = 0.5 * (lo + hi);
-    (q_of(mid) < q_m3s ? lo : hi) = mid;
-  }
-  return 0.5 * (lo + hi);
-}
+// flow: outflow = inflow, and the depth is the Manning normal depth (manning_closed_form.hpp).
+using testing::manning_normal_depth_rectangular;
 
 TEST(StudyPhysics, RectangularReachReachesManningNormalDepth) {
   const double q = 5.0, b = 4.0, n = 0.03, slope = 0.002, invert = 100.0;

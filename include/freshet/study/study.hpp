@@ -32,6 +32,7 @@
 #include "freshet/network/run_budget.hpp"
 #include "freshet/reporting/station.hpp"
 #include "freshet/routing/routing_options.hpp"
+#include "freshet/study/ensemble.hpp"
 
 namespace freshet::study {
 
@@ -123,6 +124,18 @@ class Study {
   [[nodiscard]] network::Model build_model(std::string_view scenario_id,
                                            const StormDefinition& storm,
                                            const ReachSchemeFn& reach_scheme = {}) const;
+
+  // The [uncertainty] section, if the file has one (docs/uncertainty.md).
+  [[nodiscard]] const std::optional<EnsembleDefinition>& ensemble() const noexcept;
+  // Member `member` (0-based, < ensemble()->members) of the base network or of a scenario: the
+  // model with every varied parameter at the member's value, and those values. The members'
+  // extremes are built once at load, so a member's build does not fail on the input.
+  [[nodiscard]] network::Model build_member_model(std::string_view scenario_id,
+                                                  const StormDefinition& storm,
+                                                  std::size_t member,
+                                                  const ReachSchemeFn& reach_scheme = {}) const;
+  [[nodiscard]] std::vector<MemberValue> member_values(std::string_view scenario_id,
+                                                       std::size_t member) const;
 
   Study(Study&&) noexcept;
   Study& operator=(Study&&) noexcept;

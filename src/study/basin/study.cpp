@@ -16,6 +16,7 @@
 #include "freshet/io/input_units.hpp"
 #include "freshet/io/iso_time.hpp"
 #include "gauge_storm.hpp"
+#include "ensemble_reader.hpp"
 #include "network_reader.hpp"
 
 namespace freshet::study {
@@ -40,6 +41,7 @@ struct Study::Impl {
   std::map<std::string, std::vector<StationDescription>, std::less<>> scenario_stations;
   std::vector<Problem> warnings;  // values outside their plausible ranges
   std::unique_ptr<detail::CrossingCache> crossings = std::make_unique<detail::CrossingCache>();
+  std::optional<EnsembleDefinition> ensemble;  // [uncertainty]
 
   void read_settings(FieldReader& r, std::vector<Problem>& problems);
   void read_storms(std::vector<Problem>& problems);
@@ -51,7 +53,10 @@ struct Study::Impl {
                        std::vector<Problem>& problems,
                        std::vector<StationDescription>* stations_out = nullptr,
                        std::vector<Problem>* warnings_out = nullptr,
-                       const ReachSchemeFn* reach_scheme = nullptr) const;
+                       const ReachSchemeFn* reach_scheme = nullptr,
+                       const std::vector<double>* member_probabilities = nullptr) const;
+  void check_ensemble_extremes(const StormDefinition& storm,
+                               std::vector<Problem>& problems) const;
 };
 
 // ---- settings ------------------------------------------------------------------------------
@@ -546,13 +551,25 @@ network::Model Study::Impl::build(std::string_view scenario_id,
                                   std::vector<Problem>& problems,
                                   std::vector<StationDescription>* stations_out,
                                   std::vector<Problem>* warnings_out,
-                                  const ReachSchemeFn* reach_scheme) const {
+                                  const ReachSchemeFn* reach_scheme,
+                                  const std::vector<double>* member_probabilities) const {
   const std::size_t before = problems.size();
   const toml::table* changes_table = checked_changes(scenario_id, problems);
   if (problems.size() != before) return {};
+  // An ensemble member lays its values over the scenario's changes. Its culvert crossings are
+  // built for it alone (a member may vary their fields), not kept in the study's cache.
+  toml::table member_table;
+  std::string scope(scenario_id);
+  detail::CrossingCache* cache = crossings.get();
+  if (member_probabilities) {
+    member_table = detail::member_changes(root, changes_table, *ensemble, *member_probabilities,
+                                          nullptr);
+    changes_table = &member_table;
+    scope = scope.empty() ? "ensemble member" : scope + ", ensemble member";
+    cache = nullptr;
+  }
   detail::NetworkReader builder(root, changes_table, file, path.parent_path(), settings, storm,
-                                problems, crossings.get(), std::string(scenario_id),
-                                warnings_out);
+                                problems, cache, scope, warnings_out);
   if (reach_scheme && *reach_scheme) builder.set_reach_scheme(reach_scheme);
   network::Model model = builder.build();
   if (settings.level_pool_backwater && !model.elements.empty()) {
@@ -560,6 +577,52 @@ network::Model Study::Impl::build(std::string_view scenario_id,
   }
   if (stations_out) *stations_out = builder.stations();
   return model;
+}
+
+// Every member's values are valid input if each parameter's lowest and highest drawn values
+// are (with the other parameters at their middle member): the quantiles rise with the
+// probability, and the basin reader's range checks are per field. Problems are the varied
+// parameter's, at its line.
+void Study::Impl::check_ensemble_extremes(const StormDefinition& storm,
+                                          std::vector<Problem>& problems) const {
+  const EnsembleDefinition& e = *ensemble;
+  if (e.probabilities.empty()) return;
+  const std::size_t n = e.parameters.size();
+  std::vector<double> middle(n);
+  std::vector<double> lowest(n, 1.0);
+  std::vector<double> highest(n, 0.0);
+  for (std::size_t k = 0; k < n; ++k) {
+    std::vector<double> column;
+    for (const auto& member : e.probabilities) column.push_back(member[k]);
+    std::sort(column.begin(), column.end());
+    middle[k] = column[column.size() / 2];
+    lowest[k] = column.front();
+    highest[k] = column.back();
+  }
+  std::vector<std::string> scenario_ids = {""};
+  for (const auto& s : scenarios) scenario_ids.push_back(s.id);
+  for (std::size_t k = 0; k < n; ++k) {
+    for (const double p : {lowest[k], highest[k]}) {
+      std::vector<double> probabilities = middle;
+      probabilities[k] = p;
+      for (const std::string& scenario_id : scenario_ids) {
+        std::vector<Problem> found;
+        (void)build(scenario_id, storm, found, nullptr, nullptr, nullptr, &probabilities);
+        const VariedParameter& varied = e.parameters[k];
+        const std::string entry = varied.name.substr(0, varied.name.find(' '));  // "vary[2]"
+        const std::string where =
+            scenario_id.empty() ? "" : " in scenario '" + scenario_id + "'";
+        for (const Problem& q : found) {
+          problems.push_back({file, varied.line, 0, "uncertainty " + entry, "distribution",
+                              "the member with " + varied.field + " at its " +
+                                  (p == lowest[k] ? "lowest" : "highest") +
+                                  " drawn value is not valid input" + where + ": " +
+                                  q.to_string()});
+        }
+        if (!found.empty()) break;
+      }
+    }
+  }
 }
 
 // ---- Study -----------------------------------------------------------------------------------
@@ -588,9 +651,13 @@ Study Study::load(const std::filesystem::path& basin_file) {
   top.optional_node("storm");
   top.optional_node("scenario");
   top.optional_node("stretch");
+  top.optional_node("uncertainty");
   top.finish();
   impl->read_storms(problems);
   impl->read_scenarios(problems);
+  const std::size_t before_ensemble = problems.size();
+  impl->ensemble = detail::read_ensemble(impl->root, impl->file, problems);
+  const bool ensemble_sound = problems.size() == before_ensemble;
   if (!impl->root.get("storm")) {
     problems.push_back({impl->file, 0, 0, "", "storm", "no [[storm]] is defined"});
   }
@@ -608,6 +675,9 @@ Study Study::load(const std::filesystem::path& basin_file) {
       impl->build(s.id, rain, problems, &impl->scenario_stations[s.id], &warnings);
     }
   }
+  if (problems.size() == before && impl->ensemble && ensemble_sound) {
+    impl->check_ensemble_extremes(rain, problems);
+  }
   if (!problems.empty()) throw InputError(std::move(problems));
   // Each scenario reads the whole network again: an element it leaves alone repeats the
   // base's warnings word for word, and is listed once.
@@ -621,6 +691,34 @@ Study Study::load(const std::filesystem::path& basin_file) {
 }
 
 const std::filesystem::path& Study::file() const noexcept { return impl_->path; }
+const std::optional<EnsembleDefinition>& Study::ensemble() const noexcept {
+  return impl_->ensemble;
+}
+
+network::Model Study::build_member_model(std::string_view scenario_id,
+                                         const StormDefinition& storm, std::size_t member,
+                                         const ReachSchemeFn& reach_scheme) const {
+  FRESHET_ASSERT(impl_->ensemble && member < impl_->ensemble->members,
+                 "ensemble member out of range");
+  std::vector<Problem> problems;
+  network::Model model = impl_->build(scenario_id, storm, problems, nullptr, nullptr,
+                                      &reach_scheme, &impl_->ensemble->probabilities[member]);
+  if (!problems.empty()) throw InputError(std::move(problems));
+  return model;
+}
+
+std::vector<MemberValue> Study::member_values(std::string_view scenario_id,
+                                              std::size_t member) const {
+  FRESHET_ASSERT(impl_->ensemble && member < impl_->ensemble->members,
+                 "ensemble member out of range");
+  std::vector<Problem> problems;
+  const toml::table* changes = impl_->checked_changes(scenario_id, problems);
+  if (!problems.empty()) throw InputError(std::move(problems));
+  std::vector<MemberValue> values;
+  (void)detail::member_changes(impl_->root, changes, *impl_->ensemble,
+                               impl_->ensemble->probabilities[member], &values);
+  return values;
+}
 const StudySettings& Study::settings() const noexcept { return impl_->settings; }
 const std::vector<Problem>& Study::warnings() const noexcept { return impl_->warnings; }
 const std::vector<StormDefinition>& Study::storms() const noexcept { return impl_->storms; }
