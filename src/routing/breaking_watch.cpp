@@ -26,6 +26,7 @@ void BreakingWatch::start(double t_s, double inflow_m3s, double initial_area_m2)
   // them all.
   chars_.push_back({0.0, initial_area_m2, geometry::celerity_m_s(flux_, initial_area_m2), t_s,
                     inflow_m3s});
+  fastest_m_s_ = chars_.back().celerity_m_s;
 }
 
 void BreakingWatch::reset() {
@@ -34,6 +35,7 @@ void BreakingWatch::reset() {
   result_ = PredictedBreaking{};
   result_.length_m = length_m_;
   t_now_ = std::numeric_limits<double>::quiet_NaN();
+  fastest_m_s_ = 0.0;
 }
 
 void BreakingWatch::advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s,
@@ -51,6 +53,10 @@ void BreakingWatch::advance(double t0_s, double t1_s, double inflow_t0_m3s,
                             double inflow_t1_m3s, double lateral_m2s) {
   if (std::isnan(t_now_)) start(t0_s, inflow_t0_m3s, geometry::area_for_discharge_m2(flux_, inflow_t0_m3s));
   result_.watched = true;
+  if (done_) {
+    fastest_m_s_ = std::max(fastest_m_s_, geometry::celerity_m_s(
+                                              flux_, geometry::area_for_discharge_m2(flux_, inflow_t1_m3s)));
+  }
   if (done_ || !(t1_s > t0_s)) {
     t_now_ = std::max(t_now_, t1_s);
     result_.watched_to_s = t_now_;
@@ -92,6 +98,7 @@ void BreakingWatch::launch(double t_s, double discharge_m3s) {
     if (n > 1 && chars_[n - 2].area_m2 == area) chars_.pop_back();
   }
   chars_.push_back({0.0, area, geometry::celerity_m_s(flux_, area), t_s, discharge_m3s});
+  fastest_m_s_ = std::max(fastest_m_s_, chars_.back().celerity_m_s);
 }
 
 // Moves every characteristic to t_s: x += c(A) dt, with A gaining lateral_m2s x dt (the
@@ -144,4 +151,57 @@ void BreakingWatch::check_crossings(double t0_s, double t1_s) {
   if (result_.breaks) done_ = true;
 }
 
+// ---- ReachBreakingOutlook ------------------------------------------------------------------
+
+namespace detail {
+
+void ReachBreakingOutlook::restart(double t_s, double inflow_m3s, double inlet_area_m2,
+                                   const BreakingPrediction& from_profile) {
+  watch_.start(t_s, inflow_m3s, inlet_area_m2);
+  outlook_ = BreakingOutlook{};
+  profile_ = PredictedBreaking{};
+  if (from_profile.breaks && from_profile.position_m <= length_m_) {
+    profile_.watched = profile_.breaks = true;
+    profile_.time_s = t_s + from_profile.time_s;
+    profile_.chainage_m = from_profile.position_m;
+    profile_.length_m = length_m_;
+  }
+  update();
+}
+
+void ReachBreakingOutlook::advance(double t0_s, double t1_s,
+                                   const PiecewiseLinearSeries& inflow_m3s, bool lateral) {
+  watch_.advance(t0_s, t1_s, inflow_m3s, 0.0);
+  outlook_.longest_interval_s = std::max(outlook_.longest_interval_s, t1_s - t0_s);
+  if (lateral) outlook_.exact = false;
+  update();
+}
+
+double ReachBreakingOutlook::earliest_birth_s() const noexcept {
+  if (!outlook_.exact) return -std::numeric_limits<double>::infinity();
+  return outlook_.prediction.breaks ? outlook_.prediction.time_s
+                                    : std::numeric_limits<double>::infinity();
+}
+
+// The earlier of the watch's and the profile's breaking, then whether the grid can show it.
+void ReachBreakingOutlook::update() {
+  BreakingOutlook& o = outlook_;
+  const PredictedBreaking& w = watch_.result();
+  o.prediction = profile_.breaks && !(w.breaks && w.time_s < profile_.time_s) ? profile_ : w;
+  const double dx = length_m_ / std::max(1, cells_);
+  o.cells_needed = 2 * options_.plateau_cells + 2;
+  if (!o.prediction.breaks) {
+    o.resolvable = cells_ >= o.cells_needed;
+    o.time_in_view_s = std::numeric_limits<double>::quiet_NaN();
+    return;
+  }
+  const double c_max = watch_.fastest_celerity_m_s();
+  const double view_end_m = length_m_ - (options_.plateau_cells + 1) * dx;
+  o.time_in_view_s = c_max > 0.0 ? std::max(0.0, view_end_m - o.prediction.chainage_m) / c_max
+                                 : std::numeric_limits<double>::infinity();
+  o.resolvable = cells_ >= o.cells_needed &&
+                 o.time_in_view_s >= options_.persistence * o.longest_interval_s;
+}
+
+}  // namespace detail
 }  // namespace freshet::routing

@@ -181,7 +181,16 @@ void ShockDetector::look_for_new_front(double t_s, std::span<const double> a,
                                        const DischargeAt& q) {
   ShockSample s;
   s.time_s = t_s;
-  if (find_front(a, q, {0, n_ - 2}, tracked_faces(t_s), s) != FrontTest::kSteep) {
+  // Once the characteristics say the first shock exists (t >= a finite earliest birth) where
+  // this grid can show it, a front smeared wider than front_cells (the rest of the rising
+  // limb right behind it) is that shock; otherwise only a steep front is.
+  const bool predicted = reports_.empty() && predicted_resolvable_ &&
+                         std::isfinite(earliest_birth_s_) && t_s >= earliest_birth_s_;
+  const FrontTest test =
+      t_s < earliest_birth_s_ ? FrontTest::kNone : find_front(a, q, {0, n_ - 2}, tracked_faces(t_s), s);
+  // A shock cannot lie upstream of the first crossing of the characteristics.
+  const bool where_predicted = s.position_m >= earliest_birth_position_m_ - options_.front_cells * dx_;
+  if (test == FrontTest::kNone || (test == FrontTest::kNotSteep && !(predicted && where_predicted))) {
     pending_.clear();
     return;
   }
@@ -199,7 +208,7 @@ void ShockDetector::form_shock() {
   r.formed = true;
   r.formation_time_s = pending_.front().time_s;
   r.formation_position_m = pending_.front().position_m;
-  if (estimated_break_time_s_ <= r.formation_time_s) {
+  if (estimated_break_time_s_ <= r.formation_time_s && estimated_break_time_s_ >= earliest_birth_s_) {
     r.formation_time_s = estimated_break_time_s_;
     r.formation_position_m = estimated_break_position_m_;
   }

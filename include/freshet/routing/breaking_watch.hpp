@@ -31,6 +31,8 @@
 
 #include "freshet/core/time_series.hpp"
 #include "freshet/geometry/section_flux.hpp"
+#include "freshet/routing/routing_options.hpp"
+#include "freshet/routing/shock.hpp"
 
 namespace freshet::routing {
 
@@ -81,6 +83,10 @@ class BreakingWatch {
 
   [[nodiscard]] const PredictedBreaking& result() const noexcept { return result_; }
   [[nodiscard]] std::size_t characteristics() const noexcept { return chars_.size(); }
+  // The fastest celerity of the inflow so far (m/s): of every characteristic launched and,
+  // once the watch has found its crossing and launches no more, of the inflow at the end of
+  // every piece.
+  [[nodiscard]] double fastest_celerity_m_s() const noexcept { return fastest_m_s_; }
 
  private:
   struct Characteristic {
@@ -105,6 +111,64 @@ class BreakingWatch {
   std::vector<double> x_before_;
   std::vector<double> launch_times_;
   PredictedBreaking result_;
+  double fastest_m_s_ = 0.0;
 };
+
+// Breaking as a grid reach sees it: the watch's prediction from the inflow the reach has been
+// given (and from its initial profile when that is not uniform), and whether the reach's grid
+// and coupling step can show that shock. KinematicReach keeps one
+// (ReachModel::breaking_outlook()) and holds its shock detector back until the predicted birth
+// (ShockDetector::set_earliest_birth; docs/shock-detection.md).
+struct BreakingOutlook {
+  PredictedBreaking prediction;  // breaks: a crossing inside the reach so far
+  // False once lateral inflow has entered: its characteristics curve and can break a wave by
+  // themselves, so the prediction is no longer a bound on the first shock.
+  bool exact = true;
+  // Whether the reach's shock detector can show the predicted shock: its plateau windows fit
+  // in the reach, and a shock born at the predicted place, moving at the fastest celerity of
+  // the inflow so far, stays in view (upstream of the last plateau window) for at least
+  // `persistence` observations at the longest advance() interval so far.
+  bool resolvable = true;
+  double time_in_view_s = std::numeric_limits<double>::quiet_NaN();
+  double longest_interval_s = 0.0;
+  int cells_needed = 0;  // 2 plateau windows + 2 (cells)
+};
+
+namespace detail {
+// Keeps a reach's BreakingOutlook: a BreakingWatch fed with every advance()'s inflow series
+// (a network driver hands over one constant mean per coupling step: a staircase whose steps
+// launch one characteristic each), plus the initial profile's own breaking.
+class ReachBreakingOutlook {
+ public:
+  ReachBreakingOutlook() = default;
+  ReachBreakingOutlook(geometry::SectionFlux flux, double length_m, int cells,
+                       const ShockDetectionOptions& resolved)
+      : watch_(std::move(flux), length_m), length_m_(length_m), cells_(cells), options_(resolved) {}
+
+  // A new initial state, seen at the first advance from t_s: the inlet's area and discharge
+  // then, and the breaking of the initial profile (time relative to its start).
+  void restart(double t_s, double inflow_m3s, double inlet_area_m2,
+               const BreakingPrediction& from_profile);
+  void advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s, bool lateral);
+
+  [[nodiscard]] const BreakingOutlook& outlook() const noexcept { return outlook_; }
+  // Earliest time a shock may be born: +infinity while nothing crosses inside the reach,
+  // -infinity (no bound) once lateral inflow has entered; and where (0 when unbounded).
+  [[nodiscard]] double earliest_birth_s() const noexcept;
+  [[nodiscard]] double earliest_birth_position_m() const noexcept {
+    return outlook_.exact && outlook_.prediction.breaks ? outlook_.prediction.chainage_m : 0.0;
+  }
+
+ private:
+  void update();
+
+  BreakingWatch watch_;
+  double length_m_ = 0.0;
+  int cells_ = 0;
+  ShockDetectionOptions options_;
+  PredictedBreaking profile_;  // the initial profile's breaking, in run time
+  BreakingOutlook outlook_;
+};
+}  // namespace detail
 
 }  // namespace freshet::routing

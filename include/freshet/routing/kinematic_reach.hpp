@@ -84,6 +84,9 @@ class KinematicReach final : public ReachModel {
   [[nodiscard]] const std::vector<ShockReport>& shock_reports() const noexcept override {
     return detector_.reports();
   }
+  [[nodiscard]] const BreakingOutlook& breaking_outlook() const noexcept override {
+    return breaking_.outlook();
+  }
   [[nodiscard]] double memory_bytes_per_cell() const noexcept override;
   [[nodiscard]] const F& law(std::size_t cell) const noexcept { return state_.law(cell); }
 
@@ -112,6 +115,8 @@ class KinematicReach final : public ReachModel {
   double dt_cap_ = std::numeric_limits<double>::infinity();  // shrinks after rejections
   ShockDetector detector_;
   bool detect_shocks_ = true;  // the options' choice, off for a scheme whose waves do not break
+  detail::ReachBreakingOutlook breaking_;
+  BreakingPrediction profile_breaking_;  // of the initial state, relative to its start
 };
 
 // ---------------------------------------------------------------------------------------------
@@ -133,6 +138,8 @@ KinematicReach<F>::KinematicReach(ReachSpec spec, std::vector<F> laws, RoutingOp
   const ShockDetectionOptions shock = resolved_shock_options(opt_);
   detect_shocks_ = shock.enabled;
   detector_ = ShockDetector(shock, state_.dx_m, spec_.cell_count);
+  breaking_ = detail::ReachBreakingOutlook(geometry::SectionFlux{law(0)}, spec_.length_m,
+                                          spec_.cell_count, shock);
   state_.diag.scheme = std::string(to_string(opt_.scheme));
   restart_ledger();
 }
@@ -152,6 +159,9 @@ void KinematicReach<F>::set_initial_areas(std::span<const double> area_m2) {
   problems.throw_if_any();
   std::copy(area_m2.begin(), area_m2.end(), state_.area_m2.begin());
   restart_ledger();
+  std::vector<double> x_m(n());
+  for (std::size_t i = 0; i < n(); ++i) x_m[i] = (static_cast<double>(i) + 0.5) * state_.dx_m;
+  profile_breaking_ = predict_breaking_from_profile(law(0), x_m, state_.area_m2);
 }
 
 template <geometry::FluxLaw F>
@@ -176,6 +186,7 @@ void KinematicReach<F>::restart_ledger() {
   time_s_ = std::numeric_limits<double>::quiet_NaN();
   state_.c_max_m_s = state_.current_c_max();
   detector_.reset();
+  profile_breaking_ = BreakingPrediction{};
 }
 
 template <geometry::FluxLaw F>
@@ -186,6 +197,12 @@ AdvanceResult KinematicReach<F>::advance(double t0_s, double t1_s,
   ProblemList problems(detail::reach_label(spec_));
   problems.append(detail::validate_advance(t0_s, t1_s, time_s_, inflow_m3s));
   problems.throw_if_any();
+  if (std::isnan(time_s_)) {  // first advance since the initial state: inlet sample of it
+    breaking_.restart(t0_s, inflow_m3s.value_at(t0_s), state_.area_m2.front(), profile_breaking_);
+  }
+  breaking_.advance(t0_s, t1_s, inflow_m3s, !lateral.is_none());
+  detector_.set_earliest_birth(breaking_.earliest_birth_s(), breaking_.earliest_birth_position_m(),
+                               breaking_.outlook().resolvable);
   if (lateral.is_none()) {
     if (!state_.lateral_map.is_none()) state_.lateral_map = CellLateralMap{};
   } else if (!state_.lateral_map.fits(lateral, spec_.cell_count, state_.dx_m)) {

@@ -23,6 +23,7 @@
 #include "freshet/core/error.hpp"
 #include "freshet/core/time_series.hpp"
 #include "freshet/geometry/cross_section.hpp"
+#include "freshet/routing/breaking_watch.hpp"
 #include "freshet/routing/diagnostics.hpp"
 #include "freshet/routing/lateral_inflow.hpp"
 #include "freshet/routing/routing_options.hpp"
@@ -74,6 +75,9 @@ class ReachModel {
   // order of formation.
   [[nodiscard]] virtual const ShockReport& shock_report() const noexcept = 0;
   [[nodiscard]] virtual const std::vector<ShockReport>& shock_reports() const noexcept = 0;
+  // Breaking predicted from the characteristics of the inflow (and initial profile) so far,
+  // and whether this reach's grid and coupling step can show that shock (shock.hpp).
+  [[nodiscard]] virtual const BreakingOutlook& breaking_outlook() const noexcept = 0;
   // Bytes of per-cell arrays held (state, faces, the scheme's scratch, per-cell laws, lateral
   // map) divided by N. Per-reach constants (a 6.4 kB celerity envelope for laws whose
   // celerity may fall with area) are not included.

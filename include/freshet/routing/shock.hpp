@@ -171,6 +171,16 @@ class ShockDetector {
   }
   [[nodiscard]] int shocks_found() const noexcept { return static_cast<int>(reports_.size()); }
   void reset();
+  // No new shock is formed from observations before t_s, the earliest birth the
+  // characteristics allow (-infinity: no bound), at position_m. A steep compression seen
+  // earlier is a front the grid cannot tell from a shock, not a shock. After it, when the
+  // grid can resolve it (BreakingOutlook::resolvable), the first shock may be a front
+  // smeared wider than front_cells, at or below position_m.
+  void set_earliest_birth(double t_s, double position_m, bool resolvable) noexcept {
+    earliest_birth_s_ = t_s;
+    earliest_birth_position_m_ = position_m;
+    predicted_resolvable_ = resolvable;
+  }
 
   // The steep-front test on one profile, exposed for tests: returns true and fills `sample`
   // (time_s left 0) when the profile has a front resolved within options.front_cells cells.
@@ -214,6 +224,9 @@ class ShockDetector {
   std::vector<ShockReport> reports_;
   std::vector<Track> tracks_;
   ShockReport empty_;
+  double earliest_birth_s_ = -std::numeric_limits<double>::infinity();
+  double earliest_birth_position_m_ = 0.0;
+  bool predicted_resolvable_ = false;
   // Latest breaking estimate from a resolved compression (NaN when none yet).
   double estimated_break_time_s_ = std::numeric_limits<double>::quiet_NaN();
   double estimated_break_position_m_ = std::numeric_limits<double>::quiet_NaN();
