@@ -283,3 +283,63 @@ TEST(Characteristics, OverlandPlaneMatchesWoodingWithinATenthOfAPercent) {
 
 }  // namespace
 }  // namespace freshet::routing
+
+namespace freshet::routing {
+namespace {
+
+// The shocks of the characteristics scheme come from its fronts. A channel at Q_r = 50 m3/s
+// receives Q_l = 300 m3/s from t = 0: one shock formed at the inlet at t = 0, moving at the
+// Rankine-Hugoniot speed U = [Q]/[A] (Lighthill & Whitham 1955, sec. 2.3), reaching the
+// outlet at L / U. Node spacing 1e-6: Q_pl is within ~1e-13 of Manning's law at the states.
+TEST(CharacteristicsShocks, ARiemannShockIsRecordedWithItsRankineHugoniotSpeedAndArrival) {
+  const RectangularFlux law = p1_channel();
+  const double q_l = 300.0, q_r = 50.0, length = 20000.0;
+  KinematicReach<RectangularFlux> reach({"riemann-shock", length, 400}, law,
+                                        characteristics_options(1e-6));
+  reach.set_uniform_discharge(q_r);
+  const double a_l = law.area_for_discharge_m2(q_l), a_r = law.area_for_discharge_m2(q_r);
+  const double u = (q_l - q_r) / (a_l - a_r);
+  for (double t = 0.0; t < 1.2 * length / u; t += 300.0) {
+    (void)reach.advance(t, t + 300.0, PiecewiseLinearSeries::constant(q_l), LateralInflow::none());
+  }
+  ASSERT_EQ(reach.shock_reports().size(), 1u);
+  const ShockReport& s = reach.shock_reports().front();
+  std::printf("front shock: formed %.3f s at %.3f m, speed %.9f (RH %.9f, exact %.9f), outlet "
+              "%.3f s (exact %.3f), %zu samples\n", s.formation_time_s, s.formation_position_m,
+              s.speed_m_s, s.rankine_hugoniot_m_s, u, s.outlet_arrival_time_s, length / u,
+              s.path.size());
+  EXPECT_EQ(s.formation_time_s, 0.0);
+  EXPECT_EQ(s.formation_position_m, 0.0);
+  EXPECT_NEAR(s.speed_m_s, u, 1e-9 * u);
+  EXPECT_NEAR(s.rankine_hugoniot_m_s, u, 1e-9 * u);
+  ASSERT_TRUE(s.reached_outlet);
+  EXPECT_NEAR(s.outlet_arrival_time_s, length / u, 1e-6 * length / u);
+}
+
+// P1's rising limb (20 -> 500 m3/s over 3 h): the fronts' shock forms where the
+// characteristics of the inflow first cross, t_b = tau + c / (dc/dtau), x_b = c^2 / (dc/dtau)
+// at the foot of the rise (Whitham 1974, sec. 2.1-2.2): 1158.7 s, 1235 m (closed form in
+// breaking_watch_test.cpp); within 1 % with node spacing 1e-3 (the inflow enters as node
+// steps; the first collision whose front carries 1 % of the discharge behind it is the
+// discrete breaking, FrontTracker::kBirthJumpFraction).
+TEST(CharacteristicsShocks, P1ShockFormsWhereTheCharacteristicsFirstCross) {
+  const RectangularFlux law = p1_channel();
+  const PiecewiseLinearSeries inflow({0.0, 10800.0, 21600.0}, {20.0, 500.0, 20.0});
+  KinematicReach<RectangularFlux> reach({"P1", 20000.0, 200}, law, characteristics_options());
+  reach.set_uniform_discharge(20.0);
+  for (double t = 0.0; t < 21600.0; t += 60.0) {
+    (void)reach.advance(t, t + 60.0, inflow, LateralInflow::none());
+  }
+  ASSERT_FALSE(reach.shock_reports().empty());
+  const ShockReport& s = reach.shock_reports().front();
+  std::printf("P1 front shock: formed %.1f s at %.1f m; speed %.4f (RH %.4f); outlet %d at %.1f s;"
+              " %zu shocks\n", s.formation_time_s, s.formation_position_m, s.speed_m_s,
+              s.rankine_hugoniot_m_s, s.reached_outlet, s.outlet_arrival_time_s,
+              reach.shock_reports().size());
+  EXPECT_NEAR(s.formation_time_s, 1158.7, 0.01 * 1158.7);
+  EXPECT_NEAR(s.formation_position_m, 1235.2, 0.01 * 1235.2);
+  EXPECT_TRUE(s.reached_outlet);
+}
+
+}  // namespace
+}  // namespace freshet::routing

@@ -78,10 +78,13 @@ class KinematicReach final : public ReachModel {
   [[nodiscard]] double time_s() const noexcept override { return time_s_; }
   [[nodiscard]] const VolumeLedger& ledger() const noexcept override { return state_.ledger; }
   [[nodiscard]] RunDiagnostics diagnostics() const override;
+  // The grid detector's shocks, or the fronts' own with the characteristics scheme.
   [[nodiscard]] const ShockReport& shock_report() const noexcept override {
-    return detector_.report();
+    const std::vector<ShockReport>& all = shock_reports();
+    return all.empty() ? no_shock_ : all.front();
   }
   [[nodiscard]] const std::vector<ShockReport>& shock_reports() const noexcept override {
+    if (const auto* c = std::get_if<schemes::Characteristics>(&scheme_)) return c->shock_reports();
     return detector_.reports();
   }
   [[nodiscard]] const BreakingOutlook& breaking_outlook() const noexcept override {
@@ -117,6 +120,7 @@ class KinematicReach final : public ReachModel {
   bool detect_shocks_ = true;  // the options' choice, off for a scheme whose waves do not break
   detail::ReachBreakingOutlook breaking_;
   BreakingPrediction profile_breaking_;  // of the initial state, relative to its start
+  ShockReport no_shock_;
 };
 
 // ---------------------------------------------------------------------------------------------
@@ -348,7 +352,7 @@ RunDiagnostics KinematicReach<F>::diagnostics() const {
   RunDiagnostics d = state_.diag;
   d.mass_balance_error_m3 = state_.ledger.balance_error_m3();
   d.mass_balance_error_rel = state_.ledger.relative_balance_error();
-  d.shocks_found = detector_.shocks_found();
+  d.shocks_found = static_cast<int>(shock_reports().size());
   return d;
 }
 

@@ -20,6 +20,8 @@
 //     length are joined, volume-weighted, which bounds the segments by 2 length / merge
 //     length + 1 and the fronts by that plus the fans of one rebuild. The splitting error is second order in the sub-step on
 //     smooth parts of the solution (first order at fronts).
+// Shocks: the reach reports the fronts' own shocks (shock_reports(); formation at the first
+// collision, exact outlet arrival, merging and decay), not the grid detector's.
 // Sampling: after every advance the reach's cell areas are the exact cell averages of the
 // fronts and the face fluxes are Q_pl of the state at each face (face N: the outlet), so
 // stations, profiles and the shock detector read the same arrays as for the grid schemes.
@@ -59,6 +61,11 @@ class Characteristics {
             switch_time_s_.capacity() + switch_area_m2_.capacity()) * sizeof(double);
   }
   [[nodiscard]] const detail::FrontTracker& tracker() const noexcept { return tracker_; }
+  // The shocks of the solution itself, from the fronts (detail::FrontTracker::shocks()), each
+  // path sampled at the end of every advance().
+  [[nodiscard]] const std::vector<ShockReport>& shock_reports() const noexcept {
+    return tracker_.shocks();
+  }
 
   template <geometry::FluxLaw F>
   AdvanceResult advance(detail::ReachState<F>& s, double t0, double t1,
@@ -237,6 +244,7 @@ class Characteristics {
   template <geometry::FluxLaw F>
   void write_cells(detail::ReachState<F>& s) {
     tracker_.cell_averages(s.area_m2, s.face_flux_m3s);
+    tracker_.sample_shocks(s.laws.front());
     s.diag.cell_updates += static_cast<long>(s.n());
     s.diag.max_fronts = std::max(s.diag.max_fronts, tracker_.front_count());
   }
