@@ -173,10 +173,12 @@ class GaugeParser {
       problems_.add(line_no, f.column, name + " = " + format_value(*v) + ": must be >= 0");
       return std::nullopt;
     }
-    const auto& limit = detail::range_of(quantity_of(format_.value_unit) ==
-                                                 SeriesQuantity::rain_depth
+    const SeriesQuantity q = quantity_of(format_.value_unit);
+    const auto& limit = detail::range_of(q == SeriesQuantity::rain_depth
                                              ? detail::Quantity::series_rain_depth
-                                             : detail::Quantity::series_rain_intensity);
+                                         : q == SeriesQuantity::rain_intensity
+                                             ? detail::Quantity::series_rain_intensity
+                                             : detail::Quantity::series_discharge);
     const double factor = to_si_factor(format_.value_unit);
     if (*v * factor > limit.hard_max) {
       problems_.add(line_no, f.column, name + " = " + format_value(*v) +
@@ -260,9 +262,7 @@ std::optional<MissingRule> parse_missing_rule(std::string_view text) {
 
 SeriesTable parse_gauge_csv(std::string_view text, const std::string& file_name,
                             const GaugeFormat& format) {
-  FRESHET_ASSERT(!is_time_unit(format.value_unit) &&
-                     quantity_of(format.value_unit) != SeriesQuantity::discharge,
-                 "a gauge record holds rain depth or intensity");
+  FRESHET_ASSERT(!is_time_unit(format.value_unit), "a record's value column is not a time");
   LocatedProblems problems(file_name);
   GaugeParser parser(format, problems);
   const int lines = detail::for_each_line(

@@ -71,6 +71,13 @@ std::string storms_overlaid(ReportPage& c, std::size_t i, const std::string& sce
     chart.series.push_back({storm, hours(r->series.times_s), r->series.stations[j].discharge_m3s,
                             static_cast<int>(k), false, series_key("discharge", st.id, scenario, storm)});
     storms += (storms.empty() ? "" : ", ") + storm;
+    for (const ObservedFit& o : r->observed) {
+      if (o.station_id != st.id || o.times_s.empty()) continue;
+      chart.series.push_back({"observed, " + storm, hours(o.times_s), o.observed_m3s,
+                              static_cast<int>(k) + 1, false,
+                              series_key("observed", st.id, scenario, storm), true});
+      storms += " (with its observed hydrograph)";
+    }
   }
   if (chart.series.empty()) return {};
   chart.description = "Line chart of the discharge in cubic metres per second against hours "

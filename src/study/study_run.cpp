@@ -1,4 +1,5 @@
 #include "freshet/study/study_run.hpp"
+#include "observed_compare.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -216,6 +217,9 @@ struct RunPaths {
   [[nodiscard]] std::filesystem::path export_csv(const std::string& station_id) const {
     return folder / (storm + "_" + station_id + "_hydrograph.csv");
   }
+  [[nodiscard]] std::filesystem::path observed_csv(const std::string& station_id) const {
+    return folder / (storm + "_" + station_id + "_observed.csv");
+  }
 };
 
 RunPaths run_paths(const RunRequest& request) { return {run_folder(request), request.storm_id}; }
@@ -228,6 +232,9 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
   std::vector<std::filesystem::path> files = summary_csv_paths(at.summary_prefix());
   files.push_back(at.summary_json());
   for (const auto& id : request.export_stations) files.push_back(at.export_csv(id));
+  for (const ObservedSeries& o : study.observed()) {
+    if (o.storm_id == request.storm_id) files.push_back(at.observed_csv(o.station_id));
+  }
   bool channel = false, subcatchment = false;
   for (const auto& s : study.stations(request.scenario_id)) {
     (is_subcatchment(s.kind) ? subcatchment : channel) = true;
@@ -394,6 +401,41 @@ std::filesystem::path write_export(const Study& study,
   const auto path = RunPaths{results.folder(), req.storm_id}.export_csv(station.id);
   write_series_csv(path, table, options);
   return path;
+}
+
+// The stations with an observed hydrograph for the request's storm.
+std::vector<std::size_t> observed_indices(const Study& study, const RunRequest& req,
+                                          const std::vector<StationDescription>& stations) {
+  std::vector<std::size_t> out;
+  for (const ObservedSeries& o : study.observed()) {
+    if (o.storm_id != req.storm_id) continue;
+    for (std::size_t k = 0; k < stations.size(); ++k) {
+      if (stations[k].id == o.station_id) out.push_back(k);
+    }
+  }
+  return out;
+}
+
+// Routed against observed: pairs, statistics, a note each, and the CSV of the pairs.
+void compare_observed(const Study& study, const RunRequest& req,
+                      const reporting::RunRecorder& recorder,
+                      const std::vector<StationDescription>& stations, OutputSet& results,
+                      RunOutcome& out) {
+  for (const ObservedSeries& o : study.observed()) {
+    if (o.storm_id != req.storm_id) continue;
+    std::size_t i = 0;
+    while (i < stations.size() && stations[i].id != o.station_id) ++i;
+    if (i == stations.size()) continue;  // not in this scenario's network
+    const PiecewiseLinearSeries routed =
+        recorder.series(i, "station '" + o.station_id + "' discharge");
+    reporting::ObservedFit fit =
+        detail::pair_observed(o, routed, study.settings().duration_s);
+    out.notes.emplace_back(o.station_id, detail::fit_note(fit));
+    detail::write_observed_csv(RunPaths{results.folder(), req.storm_id}.observed_csv(o.station_id),
+                               fit, study.settings().start_iso, req.source, req.overwrite,
+                               &results);
+    out.observed.push_back(std::move(fit));
+  }
 }
 
 // The NetCDF files of one run, open and defined, under their temporary names.
@@ -625,6 +667,7 @@ RunOutcome run_study(const Study& study,
   RunFiles files;
   open_run_files(study, req, model, stations, results, sink, files);
   for (std::size_t i : exported) recorder.keep_series(i);
+  for (std::size_t i : observed_indices(study, req, stations)) recorder.keep_series(i);
   if (report_series_fit(study, stations)) recorder.keep_output_series();
 
   RunOutcome out;
@@ -638,6 +681,7 @@ RunOutcome run_study(const Study& study,
       reporting::report_run(model, out.numerics, recorder,
                             {title, req.source, clock, study.settings().start_iso});
   if (choices) report_choices(*choices, out.summary);
+  compare_observed(study, req, recorder, stations, results, out);
   write_run_files(study, req, recorder, stations, exported, results, files, out);
   // The commit point: every file is complete in the staging folder.
   if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");

@@ -9,10 +9,11 @@ src=$2
 dir=$3
 fail() { echo "gauge_record_test: $*"; exit 1; }
 fresh() {
-  rm -rf "$dir" && mkdir -p "$dir/gauges" || fail "cannot create $dir"
+  rm -rf "$dir" && mkdir -p "$dir/gauges" "$dir/observed" || fail "cannot create $dir"
   cp "$src/basins/rookery-vale.toml" "$dir/basin.toml" || fail "cannot copy the basin"
   cp "$src/basins/gauges/heron-hill.csv" "$src/basins/gauges/mill-cross.csv" "$dir/gauges/" ||
     fail "cannot copy the gauges"
+  cp "$src/basins/observed/village-bridge.csv" "$dir/observed/" || fail "cannot copy the observed record"
 }
 # refused <file to edit> <sed expression> <regex>
 refused() {
@@ -35,6 +36,7 @@ fresh
 "$freshet" --quiet route "$dir/basin.toml" --storm may-2026 --out "$dir/results" > "$dir/log" 2>&1 ||
   { cat "$dir/log"; fail "the demonstration did not route"; }
 [ -f "$dir/results/base/may-2026.nc" ] || fail "no may-2026.nc written"
+[ -f "$dir/results/base/may-2026_village-bridge_observed.csv" ] || fail "no observed CSV written"
 
 # A repeated timestamp (line 7 of Mill Cross made equal to line 6).
 refused gauges/mill-cross.csv 's/^2026-05-14T05:40:00Z;2,2$/2026-05-14T05:20:00Z;2,2/' \

@@ -1,4 +1,4 @@
-// Rain-gauge records as they come from a logger or an agency's download: a header row naming
+// Rain-gauge records (and observed hydrographs, dated the same way) as they come from a logger or an agency's download: a header row naming
 // the columns, one dated row per reading, ISO 8601 timestamps (with or without a zone),
 // RFC 4180 quoting, ',' or ';' between fields, rain depth or intensity, intervals of any
 // length, and gaps. The user says which columns to read, the value's unit and what to do with
@@ -39,7 +39,9 @@ struct GaugeFormat {
   char separator = 0;         // ',' or ';'; 0: detected from the header row
   std::string time_column;    // the header's name of the timestamp column; "": the first column
   std::string value_column;   // the header's name of the rain column; "": the second column
-  // The rain column's unit: depth_mm, depth_in, intensity_mm_per_h or intensity_in_per_h.
+  // The value column's unit: depth_mm, depth_in, intensity_mm_per_h or intensity_in_per_h
+  // for rain; discharge_m3s or discharge_cfs for an observed hydrograph (read like an
+  // intensity: instants, linear between them).
   ColumnUnit value_unit = ColumnUnit::depth_mm;
   int default_offset_min = 0;  // zone of timestamps written without one (minutes ahead of UTC)
   double origin_epoch_s = 0.0;  // the study start, s since the epoch: time 0 of the result

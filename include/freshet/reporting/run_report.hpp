@@ -18,6 +18,7 @@
 #include <vector>
 
 #include "freshet/network/driver.hpp"
+#include "freshet/reporting/fit_statistics.hpp"
 #include "freshet/reporting/run_recorder.hpp"
 #include "freshet/reporting/run_series.hpp"
 #include "freshet/reporting/station.hpp"
@@ -49,6 +50,15 @@ struct ReportContext {
   std::string time_origin_iso;  // time 0 of the run as ISO 8601, e.g. "2000-01-01T00:00:00Z"
 };
 
+// A station's routed discharge against an observed hydrograph, paired at the observed
+// readings within the run, with the fit statistics (fit_statistics.hpp).
+struct ObservedFit {
+  std::string station_id;
+  std::string source;  // the observed record's file
+  std::vector<double> times_s, observed_m3s, routed_m3s;
+  FitStatistics fit;
+};
+
 struct RunReport {
   RunSummary summary;             // peaks, attenuation, shocks, mass balance, warnings
   std::vector<StationPeak> peaks;  // one per station, model order
@@ -62,6 +72,9 @@ struct RunReport {
   std::vector<network::ElementReport> elements;
   // The output-time series, when the recorder kept them (RunRecorder::keep_output_series).
   RunSeries series;
+  // Routed against observed, one per observed hydrograph of the run's storm (set by the
+  // study's run; the report draws them on the station's hydrograph).
+  std::vector<ObservedFit> observed;
 };
 
 // `numerics` is what network::simulate returned for `model`; `recorder` recorded that run.

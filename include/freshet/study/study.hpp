@@ -26,6 +26,7 @@
 #include <vector>
 
 #include "freshet/core/error.hpp"
+#include "freshet/core/time_series.hpp"
 #include "freshet/core/units.hpp"
 #include "freshet/hydrology/hyetograph.hpp"
 #include "freshet/network/driver.hpp"
@@ -87,6 +88,16 @@ struct StretchDefinition {
   std::vector<std::size_t> path;
 };
 
+// An observed hydrograph ([[observed]], docs/inputs.md): a dated discharge record attached to
+// a station for one storm; routed against it in the run's outputs and report.
+struct ObservedSeries {
+  std::string station_id;
+  std::string storm_id;
+  std::string file;                  // as named in messages and outputs
+  PiecewiseLinearSeries flow;        // m3 s-1, times in s since the study start
+  std::vector<std::string> notes;    // gaps filled
+};
+
 struct ScenarioDefinition {
   std::string id;
   std::string description;
@@ -113,6 +124,8 @@ class Study {
   [[nodiscard]] const std::vector<StormDefinition>& storms() const noexcept;
   [[nodiscard]] const std::vector<ScenarioDefinition>& scenarios() const noexcept;
   [[nodiscard]] const std::vector<StretchDefinition>& stretches() const noexcept;
+  // Observed hydrographs, in file order.
+  [[nodiscard]] const std::vector<ObservedSeries>& observed() const noexcept;
   [[nodiscard]] const StormDefinition& storm(std::string_view id) const;  // InputError if unknown
   [[nodiscard]] const ScenarioDefinition& scenario(std::string_view id) const;  // likewise
   // Stations of the base network (scenario_id empty) or of a scenario, in model order (one per

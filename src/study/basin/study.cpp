@@ -17,6 +17,7 @@
 #include "freshet/io/iso_time.hpp"
 #include "gauge_storm.hpp"
 #include "ensemble_reader.hpp"
+#include "observed_reader.hpp"
 #include "network_reader.hpp"
 
 namespace freshet::study {
@@ -35,6 +36,7 @@ struct Study::Impl {
   std::vector<StormDefinition> storms;
   std::vector<ScenarioDefinition> scenarios;
   std::vector<StretchDefinition> stretches;
+  std::vector<ObservedSeries> observed;
   // scenario id -> its [scenario.change] table, inside `root` (toml++ copies lose positions)
   std::map<std::string, const toml::table*, std::less<>> changes;
   std::vector<StationDescription> stations;  // the base network's
@@ -652,9 +654,21 @@ Study Study::load(const std::filesystem::path& basin_file) {
   top.optional_node("scenario");
   top.optional_node("stretch");
   top.optional_node("uncertainty");
+  top.optional_node("observed");
   top.finish();
   impl->read_storms(problems);
   impl->read_scenarios(problems);
+  {
+    std::vector<std::string> element_ids;
+    for (std::string_view array : detail::kElementArrays) {
+      for (const toml::node& node : detail::items_of(impl->root.get_as<toml::array>(array))) {
+        const toml::table* t = node.as_table();
+        if (t && t->get("id")) element_ids.push_back(t->get("id")->value_or(std::string{}));
+      }
+    }
+    impl->observed = detail::read_observed(impl->root, impl->file, impl->path.parent_path(),
+                                           impl->settings, impl->storms, element_ids, problems);
+  }
   const std::size_t before_ensemble = problems.size();
   impl->ensemble = detail::read_ensemble(impl->root, impl->file, problems);
   const bool ensemble_sound = problems.size() == before_ensemble;
@@ -722,6 +736,7 @@ std::vector<MemberValue> Study::member_values(std::string_view scenario_id,
 const StudySettings& Study::settings() const noexcept { return impl_->settings; }
 const std::vector<Problem>& Study::warnings() const noexcept { return impl_->warnings; }
 const std::vector<StormDefinition>& Study::storms() const noexcept { return impl_->storms; }
+const std::vector<ObservedSeries>& Study::observed() const noexcept { return impl_->observed; }
 const std::vector<ScenarioDefinition>& Study::scenarios() const noexcept {
   return impl_->scenarios;
 }
