@@ -254,7 +254,7 @@ void bench_p1(int repeats) {
   const P1Run m = run_p1(SchemeKind::kMusclHeun, 600, repeats);
   std::printf("  %-18s %7d %11.3f %9.3f %10.1f %11.4g\n", "muscl-heun", 600, m.peak_m3s,
               100.0 * (m.peak_m3s / 500.0 - 1.0), m.peak_time_s / 60.0, m.cpu_s);
-  // The diffusion wave attenuates the peak physically (Q / (2 B S0) = 5 m2/s at 500 m3/s):
+  // The diffusion wave attenuates the peak physically (Q / (2 B S0) = 5000 m2/s at 500 m3/s):
   // its "error" against the kinematic peak is that attenuation, not a fault.
   for (int cells : {150, 600}) {
     const P1Run d = run_p1(SchemeKind::kMuskingumCunge, cells, repeats);
