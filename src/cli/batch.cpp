@@ -188,6 +188,18 @@ std::string format_input_warnings(const study::Study& study, std::string_view in
   return out;
 }
 
+void record_runs(io::CommandResult& result, const study::Study& study, const std::string& basin,
+                 const std::vector<study::RunOutcome>& runs,
+                 const std::vector<std::filesystem::path>& extra_files) {
+  result.basin = basin;
+  for (const Problem& w : study.warnings()) result.input_warnings.push_back(w.to_string());
+  for (const study::RunOutcome& r : runs) {
+    result.runs.push_back({r.scenario_id, r.storm_id, r.summary});
+    for (const auto& f : r.files) result.files.push_back(f.string());
+  }
+  for (const auto& f : extra_files) result.files.push_back(f.string());
+}
+
 std::string wrapped_caution() {
   std::string out;
   std::size_t line = 0;

@@ -3,6 +3,8 @@
 // print.
 #pragma once
 
+#include "freshet/io/command_result.hpp"
+
 #include <CLI/CLI.hpp>
 #include <string>
 #include <vector>
@@ -70,6 +72,12 @@ std::string format_notes(const study::RunOutcome& run);
 // The basin file's plausibility warnings (study::Study::warnings), one "warning: ..." line each
 // after `indent`; empty when there are none.
 std::string format_input_warnings(const study::Study& study, std::string_view indent = "");
+
+// For --format json (io::CommandResult): the basin, its plausibility warnings, every run's
+// summary and files, and `extra_files` (the study report, a comparison table).
+void record_runs(io::CommandResult& result, const study::Study& study, const std::string& basin,
+                 const std::vector<study::RunOutcome>& runs,
+                 const std::vector<std::filesystem::path>& extra_files);
 
 // The caution, wrapped for a terminal.
 std::string wrapped_caution();

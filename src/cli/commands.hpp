@@ -5,9 +5,11 @@
 
 #include <CLI/CLI.hpp>
 #include <functional>
+#include <memory>
 #include <string>
 
 #include "exit_codes.hpp"
+#include "freshet/io/command_result.hpp"
 
 namespace freshet::cli {
 
@@ -16,6 +18,9 @@ struct GlobalOptions {
   // The command line as typed (program name "freshet", arguments with spaces quoted), for
   // the NetCDF history attribute.
   std::string command_line;
+  // --format json: route, compare and check fill this in; main() prints it as one JSON
+  // document on stdout (io::format_command_json) instead of their text. Null for text.
+  std::shared_ptr<io::CommandResult> result;
 };
 
 using Action = std::function<int()>;

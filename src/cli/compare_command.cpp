@@ -80,6 +80,7 @@ std::string warnings_by_run(const std::vector<study::RunOutcome>& runs) {
 }
 
 int compare(const CompareArgs& a, const GlobalOptions& global) {
+  if (global.result) global.result->basin = a.basin;  // also when loading fails
   const study::Study study = load_basin(a.basin);
   const std::vector<std::string> storms = storm_ids(study, a);
   std::vector<std::string> scenarios{""};
@@ -138,6 +139,9 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
                        {study.settings().title, std::string("freshet ") + FRESHET_VERSION,
                         study.settings().start_iso},
                        overwrite);
+  if (global.result) {
+    record_runs(*global.result, study, a.basin, runs, {report.path, files.csv, files.json});
+  }
   std::cout << warnings_by_run(runs);
   std::cout << "\nEach run's full results: " << options.out_dir.string()
             << "/<base or scenario>/<storm>.nc and <storm>_summary.*\n"

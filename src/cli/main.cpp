@@ -2,6 +2,7 @@
 // maps failures to the documented exit codes.
 #include <cstdlib>
 #include <iostream>
+#include <sstream>
 
 #include "commands.hpp"
 #include "stop_signals.hpp"
@@ -28,14 +29,49 @@ bool report_unknown_subcommand(const CLI::App& app, int argc, char** argv) {
   return false;
 }
 
-// Runs the selected action; maps any exception to an exit code and prints its message.
-int run_action(const Action& action, bool& library_state_unknown) {
+// Runs the selected action; maps any exception to an exit code and prints its message (also
+// kept in `message`).
+int run_action(const Action& action, bool& library_state_unknown, std::string& message) {
   try {
     return action ? action() : kExitOk;
   } catch (...) {
-    return report_failure(std::current_exception(), std::cerr, library_state_unknown);
+    std::ostringstream text;
+    const int code = report_failure(std::current_exception(), text, library_state_unknown);
+    message = text.str();
+    std::cerr << message;
+    return code;
   }
 }
+
+// With --format json, stdout holds one JSON document: the command's text goes nowhere while
+// it runs, and the result is printed at the end, whatever the exit status.
+class JsonStdout {
+ public:
+  explicit JsonStdout(std::shared_ptr<freshet::io::CommandResult> result)
+      : result_(std::move(result)) {
+    if (result_) saved_ = std::cout.rdbuf(sink_.rdbuf());
+  }
+  ~JsonStdout() { restore(); }
+  JsonStdout(const JsonStdout&) = delete;
+  JsonStdout& operator=(const JsonStdout&) = delete;
+  void finish(int code, const std::string& message) {
+    restore();
+    if (!result_) return;
+    result_->exit_status = code;
+    result_->error = message;
+    while (!result_->error.empty() && result_->error.back() == '\n') result_->error.pop_back();
+    std::cout << freshet::io::format_command_json(*result_);
+  }
+
+ private:
+  void restore() {
+    if (saved_) std::cout.rdbuf(saved_);
+    saved_ = nullptr;
+  }
+  std::shared_ptr<freshet::io::CommandResult> result_;
+  std::ostringstream sink_;
+  std::streambuf* saved_ = nullptr;
+};
 
 int run_main(int argc, char** argv);
 
@@ -78,6 +114,11 @@ int run_main(int argc, char** argv) {
     global.command_line += " " + quoted + "'";
   }
   app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
+  std::string format = "text";
+  app.add_option("--format", format,
+                 "stdout of route, compare and check: text (default) or json (one JSON "
+                 "document: peaks, warnings, caution, files written, exit status)")
+      ->check(CLI::IsMember({"text", "json"}));
   app.set_version_flag("-V,--version", version_text,
                        "Print version and build information and exit (as freshet version)");
   Action action;
@@ -94,15 +135,25 @@ int run_main(int argc, char** argv) {
     const int code = app.exit(e);
     return code == 0 ? kExitOk : kExitUsage;
   }
+  const std::string command =
+      app.get_subcommands().empty() ? std::string() : app.get_subcommands().front()->get_name();
+  if (format == "json" && (command == "route" || command == "compare" || command == "check")) {
+    global.result = std::make_shared<freshet::io::CommandResult>();
+    global.result->command = command;
+  }
+  JsonStdout json(global.result);
   bool library_state_unknown = false;
-  int code = run_action(action, library_state_unknown);
+  std::string message;
+  int code = run_action(action, library_state_unknown, message);
   const int signal = stop_signal();
   if (signal != 0) {
-    std::cerr << "freshet: stopped by " << signal_name(signal)
-              << "; runs that had not finished left no file (their temporary files were "
-                 "removed); runs that had finished kept their complete results\n";
+    message = std::string("freshet: stopped by ") + signal_name(signal) +
+              "; runs that had not finished left no file (their temporary files were "
+              "removed); runs that had finished kept their complete results\n";
+    std::cerr << message;
     code = 128 + signal;
   }
+  json.finish(code, message);
   if (library_state_unknown || signal != 0) {
     // After a failed write HDF5 may still hold the file it could not close, and its exit
     // handler then crashes (seen with a file-size limit). The temporary files were already

@@ -21,6 +21,7 @@ struct RouteArgs : RunArgs {
 };
 
 int route(const RouteArgs& a, const GlobalOptions& global) {
+  if (global.result) global.result->basin = a.basin;  // also when loading fails
   const study::Study study = load_basin(a.basin);
   if (!a.scenario.empty()) (void)study.scenario(a.scenario);  // InputError if unknown
   const std::vector<std::string> storms = storm_ids(study, a);
@@ -41,6 +42,7 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   io::require_absent(report.path, report.overwrite);  // refused before anything is routed
   const std::vector<study::RunOutcome> runs = run_batch(study, requests, options);
   study::write_study_report(study, runs, report);
+  if (global.result) record_runs(*global.result, study, a.basin, runs, {report.path});
   for (const auto& r : runs) {
     std::cout << io::format_summary_table(r.summary, false);
     const std::string notes = format_notes(r);

@@ -197,6 +197,21 @@ void NetcdfTimeSeriesWriter::Impl::put_global_attributes(const NetcdfRunMetadata
   file->putAtt("comment", m.comment.empty() ? caution : m.comment + "\n" + caution);
   file->putAtt("caution", caution);
   if (!m.date_created.empty()) file->putAtt("date_created", m.date_created);
+  const std::pair<const char*, const std::string*> acdd[] = {
+      {"time_coverage_start", &m.time_coverage_start},
+      {"time_coverage_end", &m.time_coverage_end},
+      {"time_coverage_duration", &m.time_coverage_duration},
+      {"time_coverage_resolution", &m.time_coverage_resolution},
+      {"keywords", &m.keywords},
+      {"processing_level", &m.processing_level},
+      {"product_version", &m.product_version},
+      {"license", &m.license},
+      {"creator_name", &m.creator_name},
+      {"creator_email", &m.creator_email},
+      {"creator_institution", &m.creator_institution}};
+  for (const auto& [name, value] : acdd) {
+    if (!value->empty()) file->putAtt(name, *value);
+  }
   file->putAtt("standard_name_vocabulary", "CF Standard Name Table v83");
 }
 

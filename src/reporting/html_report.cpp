@@ -157,6 +157,7 @@ std::string header(const HtmlReportInput& in) {
        "<li><a href=\"#hyetographs\">Rain, losses and excess</a></li>"
        "<li><a href=\"#long-sections\">Long sections</a></li>"
        "<li><a href=\"#schematic\">Network schematic</a></li>"
+       "<li><a href=\"#attenuation\">Attenuation</a></li>"
        "<li><a href=\"#findings\">Shocks and element findings</a></li>"
        "<li><a href=\"#checks\">Applicability, numerics, mass balance</a></li>"
        "<li><a href=\"#provenance\">Run settings and provenance</a></li></ol></nav>\n";
@@ -402,6 +403,60 @@ std::string sci(double v) {
   return b;
 }
 
+// Every reach, pond and culvert: the peak of its total inflow (upstream plus lateral) against
+// its peak outflow, per run; then the stretches the basin file names.
+std::string attenuation_section(const ReportPage& c) {
+  std::string s =
+      "<section id=\"attenuation\">\n<h2>Attenuation</h2>\n<p>For every reach, culvert and "
+      "pond: the peak of everything flowing into it (upstream elements and runoff along a "
+      "reach, summed into one hydrograph), the part of that peak that is lateral inflow, the "
+      "peak outflow, the attenuation as a share of the inflow peak, the delay of the peak, and "
+      "the water stored when the outflow peaked. Runoff along a reach is inflow, not negative "
+      "attenuation.</p>\n<table class=\"attenuation\"><thead><tr><th>run</th><th>element</th>"
+      "<th>kind</th><th>peak in (m³/s)</th><th>of it lateral (m³/s)</th><th>peak out (m³/s)</th>"
+      "<th>attenuation (%)</th><th>delay (min)</th><th>stored at peak out (m³)</th></tr></thead>"
+      "<tbody>\n";
+  bool any_stretch = false;
+  for (const ReportedRun& r : c.in().runs) {
+    if (!r.report) continue;
+    any_stretch = any_stretch || !r.report->summary.stretches.empty();
+    for (const AttenuationRecord& a : r.report->summary.attenuation) {
+      s += "<tr data-element=\"" + escape_html(a.element) + "\"><td>" +
+           escape_html(c.run_label(r)) + "</td><td>" + escape_html(a.element) + "</td><td>" +
+           escape_html(a.kind) + "</td><td class=\"n\">" + fixed(a.peak_inflow_m3s, 3) +
+           "</td><td class=\"n\">" + fixed(a.peak_lateral_inflow_m3s, 3) + "</td><td class=\"n\">" +
+           fixed(a.peak_outflow_m3s, 3) + "</td><td class=\"n\">" + fixed(a.attenuation_percent, 1) +
+           "</td><td class=\"n\">" + fixed(a.peak_delay_s / 60.0, 1) + "</td><td class=\"n\">" +
+           fixed(a.storage_at_outflow_peak_m3, 0) + "</td></tr>\n";
+    }
+  }
+  s += "</tbody></table>\n";
+  if (!any_stretch) return s + "</section>\n";
+  s += "<h3>Stretches named in the basin file</h3>\n<p>The upstream element's peak outflow, the "
+       "water that joined the path between the two (runoff and tributaries: its volume and "
+       "peak), the peak of the two together, the downstream element's peak outflow, and the "
+       "attenuation against that combined peak.</p>\n<table><thead><tr><th>run</th><th>path</th>"
+       "<th>peak up (m³/s)</th><th>side inflow (m³)</th><th>side peak (m³/s)</th>"
+       "<th>combined in (m³/s)</th><th>peak down (m³/s)</th><th>attenuation (%)</th>"
+       "<th>shift (min)</th></tr></thead><tbody>\n";
+  for (const ReportedRun& r : c.in().runs) {
+    if (!r.report) continue;
+    for (const StretchRecord& t : r.report->summary.stretches) {
+      std::string path;
+      for (const auto& id : t.path) path += (path.empty() ? "" : " → ") + escape_html(id);
+      s += "<tr><td>" + escape_html(c.run_label(r)) + "</td><td>" + path + "</td><td class=\"n\">" +
+           fixed(t.upstream_peak_m3s, 3) + "</td><td class=\"n\">" +
+           fixed(t.side_inflow_volume_m3, 0) + "</td><td class=\"n\">" +
+           fixed(t.side_inflow_peak_m3s, 3) + "</td><td class=\"n\">" +
+           fixed(t.combined_inflow_peak_m3s, 3) + "</td><td class=\"n\">" +
+           fixed(t.downstream_peak_m3s, 3) + "</td><td class=\"n\">" +
+           fixed(t.attenuation_percent, 1) + "</td><td class=\"n\">" +
+           fixed(t.peak_shift_s / 60.0, 1) + "</td></tr>\n";
+    }
+  }
+  return s + "</tbody></table>\n</section>\n";
+}
+
 // Ponce numbers and reach numerics per run; volume balance as one table (element x run).
 std::string checks_section(const ReportPage& c) {
   const HtmlReportInput& in = c.in();
@@ -478,6 +533,7 @@ std::string compose_html_report(const HtmlReportInput& input) {
   body += detail::hyetograph_section(c);
   body += detail::long_section_section(c);
   body += detail::schematic_section(c);
+  body += attenuation_section(c);
   body += findings_section(c) + checks_section(c) + provenance_section(input);
   return html_head(input) + "<body>\n<main data-figures=\"" + std::to_string(c.figures()) +
          "\">\n" + body + "</main>\n</body>\n</html>\n";

@@ -401,16 +401,14 @@ std::string long_section_section(ReportPage& c) {
 
 namespace {
 
-// Attenuation of station i in one run: 100 (1 - peak outflow / peak total inflow), from the
-// output-time series; NaN where nothing flows in or the series were not kept.
+// Attenuation of station i in one run: 100 (1 - peak outflow / peak total inflow), the run's
+// attenuation record (summary.hpp; the report's Attenuation table shows the same number); NaN
+// where the element has none.
 double attenuation_percent(const ReportPage& c, const RunReport& r, std::size_t i) {
-  const std::size_t j = c.index_in(r, c.stations()[i].id);
-  if (j >= r.series.stations.size() || c.upstream(i).empty()) return NAN;
-  const std::vector<double> in = inflow_series(c, r, i);
-  const double peak_in = in.empty() ? 0.0 : *std::max_element(in.begin(), in.end());
-  const std::vector<double>& out = r.series.stations[j].discharge_m3s;
-  const double peak_out = out.empty() ? 0.0 : *std::max_element(out.begin(), out.end());
-  return peak_in > 0.0 ? 100.0 * (1.0 - peak_out / peak_in) : NAN;
+  for (const AttenuationRecord& a : r.summary.attenuation) {
+    if (a.element == c.stations()[i].id) return a.attenuation_percent;
+  }
+  return NAN;
 }
 
 // Classes of attenuation and their fills: light to dark, readable in grey.

@@ -157,6 +157,59 @@ constexpr const char* kReferences =
     "NRCS (1986) TR-55, Chow, Maidment & Mays (1988) Applied Hydrology, Keifer & Chu (1957); "
     "culverts: FHWA HDS-5 (Schall et al. 2012); applicability: Ponce, Li & Simons (1978).";
 
+// An ISO 8601 duration of whole seconds: "PT6H", "PT5M", "P1DT2H30M", "PT90S"; fractions of a
+// second are rounded.
+std::string iso_duration(double seconds) {
+  auto s = static_cast<long long>(std::llround(seconds));
+  const long long d = s / 86400, h = s % 86400 / 3600, m = s % 3600 / 60;
+  s %= 60;
+  std::string out = "P" + (d ? std::to_string(d) + "D" : std::string());
+  if (h || m || s || !d) out += "T";
+  if (h) out += std::to_string(h) + "H";
+  if (m) out += std::to_string(m) + "M";
+  if (s || (!d && !h && !m)) out += std::to_string(s) + "S";
+  return out;
+}
+
+// "YYYY-MM-DDThh:mm:ssZ" plus whole seconds, in the same form.
+std::string iso_plus(const std::string& start_iso, double seconds) {
+  int y = 0, mo = 0, d = 0, h = 0, mi = 0, s = 0;
+  if (std::sscanf(start_iso.c_str(), "%d-%d-%dT%d:%d:%d", &y, &mo, &d, &h, &mi, &s) != 6) return "";
+  using namespace std::chrono;
+  const sys_days day{year_month_day{year{y}, month{static_cast<unsigned>(mo)},
+                                    std::chrono::day{static_cast<unsigned>(d)}}};
+  const sys_seconds t = day + hours{h} + minutes{mi} + std::chrono::seconds{s} +
+                        std::chrono::seconds{std::llround(seconds)};
+  const sys_days end_day = floor<days>(t);
+  const year_month_day ymd{end_day};
+  const hh_mm_ss hms{t - end_day};
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%04d-%02u-%02uT%02ld:%02ld:%02ldZ", static_cast<int>(ymd.year()),
+                static_cast<unsigned>(ymd.month()), static_cast<unsigned>(ymd.day()),
+                static_cast<long>(hms.hours().count()), static_cast<long>(hms.minutes().count()),
+                static_cast<long>(hms.seconds().count()));
+  return buf;
+}
+
+// The ACDD 1.3 attributes freshet knows (docs/outputs.md): time coverage of the run, keywords,
+// processing level, product version, and the study file's creator and licence when it gives
+// them.
+void add_discovery_attributes(const StudySettings& s, const RunRequest& req, NetcdfRunMetadata& m) {
+  m.time_coverage_start = s.start_iso;
+  m.time_coverage_end = iso_plus(s.start_iso, s.duration_s);
+  m.time_coverage_duration = iso_duration(s.duration_s);
+  m.time_coverage_resolution = iso_duration(s.output_interval_s);
+  m.keywords = "flood routing, kinematic wave, hydrograph, discharge, water level, rainfall, "
+               "runoff, culvert, detention basin, design storm";
+  m.processing_level = "model output: simulated by freshet, not observed, not reviewed";
+  m.product_version =
+      req.source.starts_with("freshet ") ? req.source.substr(8) : req.source;  // "0.1.0"
+  m.license = s.license;
+  m.creator_name = s.creator_name;
+  m.creator_email = s.creator_email;
+  m.creator_institution = s.creator_institution;
+}
+
 NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std::string& what) {
   NetcdfRunMetadata m;
   m.title = study.settings().title + " - " + what + ", storm " + req.storm_id +
@@ -168,6 +221,7 @@ NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std:
   m.comment = "Times are seconds since the study start; design storms begin at the study start.";
   m.time_origin = study.settings().start_iso;
   m.date_created = now_iso();
+  add_discovery_attributes(study.settings(), req, m);
   return m;
 }
 

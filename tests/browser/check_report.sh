@@ -48,7 +48,7 @@ for k, svg in enumerate(svgs):
     if not re.search(r"<(polyline|rect|line|g) ", svg):
         problems.append(f"figure {k + 1} draws nothing")
 for section in ("caution", "answer", "hydrographs", "hyetographs", "long-sections",
-                "schematic", "findings", "checks", "provenance"):
+                "schematic", "attenuation", "findings", "checks", "provenance"):
     if f'<section id="{section}">' not in dom:
         problems.append(f"section {section} missing")
 if problems:

@@ -26,6 +26,20 @@ check(raw.featureType == "timeSeries", "featureType")
 check("CAUTION" in raw.caution, "caution attribute")
 check(raw["time"].units == "seconds since 2026-03-01 06:00:00", f"time units {raw['time'].units}")
 check(raw["time"].calendar == "proleptic_gregorian", "calendar")
+# ACDD 1.3 global attributes (Attribute Convention for Data Discovery 1.3, "Recommended"
+# and "Suggested" attributes): time coverage of the 3 h run from 06:00 at 1 min outputs,
+# the creator and licence the study file states, the rest as freshet writes them.
+acdd = {"time_coverage_start": "2026-03-01T06:00:00Z", "time_coverage_end": "2026-03-01T09:00:00Z",
+        "time_coverage_duration": "PT3H", "time_coverage_resolution": "PT1M",
+        "creator_name": "Wren Dyke test team (invented)", "creator_email": "wren-dyke@example.org",
+        "license": "CC-BY-4.0 (test value)"}
+for name, value in acdd.items():
+    check(getattr(raw, name, None) == value, f"{name} = {getattr(raw, name, None)!r}, expected {value!r}")
+check("kinematic wave" in raw.keywords, f"keywords {raw.keywords!r}")
+check(raw.processing_level.startswith("model output"), f"processing_level {raw.processing_level!r}")
+check(raw.product_version[0].isdigit() and raw.product_version in raw.source, "product_version")
+check("ACDD-1.3" in raw.Conventions, "Conventions names ACDD-1.3")
+check(not hasattr(raw, "creator_institution"), "creator_institution written though not given")
 roles = [v for v in raw.variables if getattr(raw[v], "cf_role", None) == "timeseries_id"]
 check(roles == ["station_id"], f"cf_role variables {roles}")
 q = raw["discharge"]

@@ -22,6 +22,7 @@
 #include <vector>
 
 #include "freshet/core/caution.hpp"
+#include "freshet/core/error.hpp"
 #include "freshet/geometry/section_flux.hpp"
 #include "freshet/network/elements.hpp"
 #include "freshet/network/simple_elements.hpp"
@@ -109,9 +110,18 @@ TEST(HtmlReport, HasEverySectionAndFigureWithBalancedTags) {
   const std::string& h = p.html;
   EXPECT_EQ(h.rfind("<!DOCTYPE html>", 0), 0u);
   for (const char* id : {"caution", "answer", "hydrographs", "hyetographs", "long-sections",
-                         "schematic", "findings", "checks", "provenance"}) {
+                         "schematic", "attenuation", "findings", "checks", "provenance"}) {
     EXPECT_NE(h.find(std::string("<section id=\"") + id + "\">"), std::string::npos) << id;
   }
+  // The attenuation table: one row per run for the one reach (not for the junction, a source
+  // or the outlet), its percentage that of the run's attenuation record.
+  EXPECT_EQ(count(h, "<tr data-element=\"ch\">"), 2u);
+  EXPECT_EQ(count(h, "<tr data-element=\"meet\">"), 0u);
+  ASSERT_EQ(p.small->report.summary.attenuation.size(), 1u);
+  const std::size_t row = h.find("<tr data-element=\"ch\">");
+  const std::string pct = format_fixed(p.small->report.summary.attenuation[0].attenuation_percent, 1);
+  EXPECT_NE(h.substr(row, h.find("</tr>", row) - row).find("<td class=\"n\">" + pct + "</td>"),
+            std::string::npos);
   // Hydrographs at meet, ch and out (the inflow is a source, not a point); the long section
   // to out (ch has a bed level); the schematic. No subcatchment: no hyetograph.
   const std::size_t figures = count(h, "<svg ");

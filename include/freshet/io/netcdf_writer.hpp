@@ -61,6 +61,20 @@ struct NetcdfRunMetadata {
   std::string comment;       // free text; the caution text is appended
   std::string time_origin;   // required: "YYYY-MM-DD", "YYYY-MM-DDThh:mm:ss[Z]" (UTC)
   std::string date_created;  // ISO 8601, optional
+  // ACDD 1.3 (Attribute Convention for Data Discovery) attributes; each written when
+  // non-empty. Time coverage as ISO 8601: start and end date-times, duration and resolution
+  // as durations ("PT6H", "PT5M").
+  std::string time_coverage_start;
+  std::string time_coverage_end;
+  std::string time_coverage_duration;
+  std::string time_coverage_resolution;
+  std::string keywords;          // comma-separated
+  std::string processing_level;  // what kind of data this is
+  std::string product_version;   // the freshet version that wrote it
+  std::string license;           // of this output, as the study file states it
+  std::string creator_name;
+  std::string creator_email;
+  std::string creator_institution;
 };
 
 // One reporting point. Optional numbers are NaN when unknown.

@@ -39,6 +39,13 @@ namespace freshet::study {
 
 struct StudySettings {
   std::string title;
+  // Who made the study and on what terms its outputs may be used (optional keys; written as
+  // the ACDD attributes creator_name, creator_email, creator_institution and license of every
+  // NetCDF file; empty = not written).
+  std::string creator_name;
+  std::string creator_email;
+  std::string creator_institution;
+  std::string license;
   units::System units = units::System::si;
   std::string start_iso = "2000-01-01T00:00:00Z";  // the time origin of every output
   // time_zone: how far local time is ahead of UTC (min); dated records (gauges, observed

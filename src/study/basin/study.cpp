@@ -147,6 +147,10 @@ void Study::Impl::read_settings(FieldReader& top, std::vector<Problem>& problems
   r.set_warnings(&warnings);
   const std::size_t before = problems.size();
   settings.title = r.text("title");
+  settings.creator_name = r.optional_text("creator_name").value_or("");
+  settings.creator_email = r.optional_text("creator_email").value_or("");
+  settings.creator_institution = r.optional_text("creator_institution").value_or("");
+  settings.license = r.optional_text("license").value_or("");
   const std::string system = r.choice("units", {"si", "us"});
   settings.units = units::parse_system(system).value_or(units::System::si);
   const InputUnits u{settings.units};
