@@ -13,6 +13,7 @@
 #include "../io/temp_dir.hpp"
 #include "manning_closed_form.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/study/ensemble_run.hpp"
 #include "freshet/study/study.hpp"
 #include "freshet/uncertainty/ensemble_statistics.hpp"
 
@@ -219,6 +220,62 @@ TEST(Ensemble, EachMemberRoutesWithItsOwnValues) {
   EXPECT_GT(*std::max_element(depths.begin(), depths.end()) -
                 *std::min_element(depths.begin(), depths.end()),
             0.01);
+}
+
+TEST(EnsembleRun, PeakDepthsFollowTheClosedFormDistribution) {
+  // Reach r1 carries a steady 5 m3/s at Manning's normal depth y(n) (Chow 1959, eq. 5-6), and n
+  // is triangular(0.025, 0.030, 0.033). y rises with n, so the peak depth's distribution is
+  // F_y(y) = F_n(n(y)), n(y) = A R^(2/3) S^(1/2) / Q: the members' peak depths must pass the
+  // Kolmogorov-Smirnov test against it (Press et al. 2007, sec. 14.3.3), at the 1 % level.
+  Fixture f(kBasin + kUncertainty);
+  const Study study = Study::load(f.basin);
+  const EnsembleOutcome e = run_ensemble(study, {"", "s1", 2});
+  ASSERT_EQ(e.members, 40u);
+  const auto r1 = std::find_if(e.stations.begin(), e.stations.end(),
+                               [](const StationEnsemble& s) { return s.id == "r1"; });
+  ASSERT_NE(r1, e.stations.end());
+  const uncertainty::Triangular n_dist{0.025, 0.030, 0.033};
+  const auto cdf_of_depth = [&](double y) {
+    const double a = 4.0 * y;
+    const double n = a * std::pow(a / (4.0 + 2.0 * y), 2.0 / 3.0) * std::sqrt(0.002) / 5.0;
+    return uncertainty::cdf(n_dist, n);
+  };
+  const uncertainty::KsResult ks = uncertainty::kolmogorov_smirnov(r1->peak_stage_m, cdf_of_depth);
+  EXPECT_GT(ks.p_value, 0.01) << "D " << ks.statistic;
+  // And it would see a wrong distribution: the depths of a 10 % rougher channel.
+  const uncertainty::KsResult wrong = uncertainty::kolmogorov_smirnov(
+      r1->peak_stage_m, [&](double y) { return cdf_of_depth(y / 1.1); });
+  EXPECT_LT(wrong.p_value, 1e-3) << "D " << wrong.statistic;
+  RecordProperty("ks_p_value", format_value(ks.p_value));
+  RecordProperty("ks_p_value_wrong", format_value(wrong.p_value));
+  // Every member's steady outflow volume is 5 m3/s over the run.
+  for (double v : r1->outflow_volume_m3) EXPECT_NEAR(v, 5.0 * 3.0 * 3600.0, 1e-6 * v);
+  // The bands are ordered: 5th <= 50th <= 95th at every time, at every station.
+  for (const StationEnsemble& s : e.stations) {
+    for (std::size_t t = 0; t < e.times_s.size(); ++t) {
+      EXPECT_LE(s.discharge_band_m3s[0][t], s.discharge_band_m3s[1][t]) << s.id;
+      EXPECT_LE(s.discharge_band_m3s[1][t], s.discharge_band_m3s[2][t]) << s.id;
+    }
+  }
+}
+
+TEST(EnsembleRun, ResultsDoNotDependOnTheNumberOfThreads) {
+  Fixture f(kBasin + kUncertainty);
+  const Study study = Study::load(f.basin);
+  const EnsembleOutcome one = run_ensemble(study, {"steeper-hill", "s1", 1});
+  const EnsembleOutcome three = run_ensemble(study, {"steeper-hill", "s1", 3});
+  ASSERT_EQ(one.stations.size(), three.stations.size());
+  for (std::size_t k = 0; k < one.stations.size(); ++k) {
+    EXPECT_EQ(one.stations[k].peak_discharge_m3s, three.stations[k].peak_discharge_m3s);
+    EXPECT_EQ(one.stations[k].discharge_band_m3s, three.stations[k].discharge_band_m3s);
+  }
+  // The curve number varies by member, so the hill's peaks spread.
+  const auto hill = std::find_if(one.stations.begin(), one.stations.end(),
+                                 [](const StationEnsemble& s) { return s.id == "hill"; });
+  ASSERT_NE(hill, one.stations.end());
+  const auto [lo, hi] = std::minmax_element(hill->peak_discharge_m3s.begin(),
+                                            hill->peak_discharge_m3s.end());
+  EXPECT_GT(*hi, 1.2 * *lo);
 }
 
 TEST(Ensemble, BadDeclarationsNameTheEntryAndField) {
