@@ -60,10 +60,14 @@ for t in $targets; do
     continue
   fi
   echo "fuzz: $t: fuzzing for ${seconds} s from $dir/seeds"
+  # A target with no saved regression yet has no folder for them in a clean clone (git keeps
+  # no empty folder), and libFuzzer stops on a corpus folder that does not exist.
+  regressions=""
+  [ -d "$dir/regressions" ] && regressions="$dir/regressions"
   # shellcheck disable=SC2086
   if "$build/fuzz_$t" -max_total_time="$seconds" -timeout="$timeout" -rss_limit_mb=2048 \
       -print_final_stats=1 -artifact_prefix="$build/artifacts/$t/" $dict \
-      ${FRESHET_FUZZ_FLAGS:-} "$build/corpus/$t" "$dir/seeds" $data_seeds "$dir/regressions" >"$build/artifacts/$t/fuzz.log" 2>&1; then
+      ${FRESHET_FUZZ_FLAGS:-} "$build/corpus/$t" "$dir/seeds" $data_seeds $regressions >"$build/artifacts/$t/fuzz.log" 2>&1; then
     runs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$build/artifacts/$t/fuzz.log" | tail -n 1)
     echo "fuzz: $t: ok, ${runs:-?} executions, 0 crashes"
   else
