@@ -13,20 +13,8 @@
 #include "freshet/io/netcdf_writer.hpp"
 #include "temp_dir.hpp"
 
-// AddressSanitizer keeps freed memory in quarantine (256 MB by default) and adds shadow memory,
-// so the peak resident set grows with the number of allocations whatever the writer does; the
-// check means nothing there and is skipped. GCC defines __SANITIZE_ADDRESS__, clang reports
-// the feature through __has_feature.
-#if defined(__SANITIZE_ADDRESS__)
-#define FRESHET_UNDER_ASAN 1
-#elif defined(__has_feature)
-#if __has_feature(address_sanitizer)
-#define FRESHET_UNDER_ASAN 1
-#endif
-#endif
-#ifndef FRESHET_UNDER_ASAN
-#define FRESHET_UNDER_ASAN 0
-#endif
+// Under AddressSanitizer the memory check is skipped (under_asan.hpp).
+#include "under_asan.hpp"
 
 namespace freshet::io {
 namespace {

@@ -22,19 +22,8 @@
 #include "freshet/study/study_run.hpp"
 #include "../io/temp_dir.hpp"
 
-// AddressSanitizer keeps freed memory in quarantine and adds shadow memory, so the resident
-// set grows with the number of allocations whatever the run does; the memory check means
-// nothing there and is skipped (as in tests/io/netcdf_memory_test.cpp).
-#if defined(__SANITIZE_ADDRESS__)
-#define FRESHET_UNDER_ASAN 1
-#elif defined(__has_feature)
-#if __has_feature(address_sanitizer)
-#define FRESHET_UNDER_ASAN 1
-#endif
-#endif
-#ifndef FRESHET_UNDER_ASAN
-#define FRESHET_UNDER_ASAN 0
-#endif
+// Under AddressSanitizer the memory check is skipped (under_asan.hpp).
+#include "../io/under_asan.hpp"
 
 namespace freshet::study {
 namespace {
