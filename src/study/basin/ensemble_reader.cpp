@@ -17,21 +17,18 @@ double curve_number_wet(double cn_average) {
 }
 
 namespace detail {
-namespace {
 
-const toml::table* find_element(const toml::table& root, std::string_view id,
-                                std::string_view* kind = nullptr) {
+const toml::table* find_element(const toml::table& root, std::string_view id) {
   for (std::string_view array : kElementArrays) {
     for (const toml::node& node : items_of(root.get_as<toml::array>(array))) {
       const toml::table* t = node.as_table();
-      if (t && t->get("id") && t->get("id")->value_or(std::string{}) == id) {
-        if (kind) *kind = array;
-        return t;
-      }
+      if (t && t->get("id") && t->get("id")->value_or(std::string{}) == id) return t;
     }
   }
   return nullptr;
 }
+
+namespace {
 
 // The element's value of `key`: the member's (or scenario's) change if it has one, else the
 // base table's.
@@ -86,9 +83,8 @@ std::optional<std::string> vary_element(const toml::table& base, toml::table& ou
     return std::nullopt;
   }
   if (group == "loss") {
-    const toml::table* loss = effective(base, &changed, "loss")
-                                  ? effective(base, &changed, "loss")->as_table()
-                                  : nullptr;
+    const toml::node* loss_node = effective(base, &changed, "loss");
+    const toml::table* loss = loss_node ? loss_node->as_table() : nullptr;
     const auto own = loss ? number_of(loss->get(key)) : std::nullopt;
     if (!own) return "has no number '" + key + "' in its loss table";
     toml::table copy = *loss;
@@ -113,8 +109,7 @@ std::optional<std::string> vary_element(const toml::table& base, toml::table& ou
   return "field '" + field + "': give a key of the element, loss.<key> or plane.<key>";
 }
 
-uncertainty::Distribution read_distribution(FieldReader& r, const std::string& name,
-                                            VaryAs& as) {
+uncertainty::Distribution read_distribution(FieldReader& r, VaryAs& as) {
   const std::string d = r.choice(
       "distribution", {"uniform", "triangular", "normal", "lognormal", "antecedent-moisture"});
   if (d == "antecedent-moisture") {
@@ -136,7 +131,6 @@ uncertainty::Distribution read_distribution(FieldReader& r, const std::string& n
                                   r.optional_number("low").value_or(0.0),
                                   r.optional_number("high").value_or(inf)};
   }
-  (void)name;
   return uncertainty::Uniform{};  // unknown choice, already reported
 }
 
@@ -187,7 +181,7 @@ std::optional<EnsembleDefinition> read_ensemble(const toml::table& root, const s
     p.name = "vary[" + std::to_string(index) + "] " + p.field;
     const std::string as = v.choice("as", {"value", "factor"}, "value");
     p.as = as == "factor" ? VaryAs::factor : VaryAs::value;
-    p.distribution = read_distribution(v, p.name, p.as);
+    p.distribution = read_distribution(v, p.as);
     if (p.as == VaryAs::antecedent_moisture && p.field != "loss.curve_number") {
       v.report("distribution", "= 'antecedent-moisture' varies field 'loss.curve_number' only");
     }

@@ -14,6 +14,9 @@
 
 namespace freshet::study::detail {
 
+// The table of the element with this id in any element array of the basin file, or null.
+const toml::table* find_element(const toml::table& root, std::string_view id);
+
 // Reads [uncertainty] (nullopt when the file has none) and draws the members' probabilities.
 // Problems name the file, line, "uncertainty" or "uncertainty vary[k]", and the field.
 std::optional<EnsembleDefinition> read_ensemble(const toml::table& root, const std::string& file,

@@ -510,13 +510,7 @@ void Study::Impl::read_stretches(std::vector<Problem>& problems) {
 namespace {
 
 bool element_exists(const toml::table& root, std::string_view id) {
-  for (std::string_view array : detail::kElementArrays) {
-    for (const toml::node& node : detail::items_of(root.get_as<toml::array>(array))) {
-      const toml::table* t = node.as_table();
-      if (t && t->get("id") && t->get("id")->value_or(std::string{}) == id) return true;
-    }
-  }
-  return false;
+  return detail::find_element(root, id) != nullptr;
 }
 
 }  // namespace
