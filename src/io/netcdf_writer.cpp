@@ -35,6 +35,10 @@ namespace {
 // physical value, and what generic readers already treat as missing.
 constexpr float kFillFloat = NC_FILL_FLOAT;
 constexpr double kFillDouble = NC_FILL_DOUBLE;
+// WGS 84 geographic 2D, latitude and longitude in degrees (EPSG:4326), as OGC WKT 1.
+constexpr std::string_view kWgs84Wkt =
+    "GEOGCS[\"WGS 84\",DATUM[\"WGS_1984\",SPHEROID[\"WGS 84\",6378137,298.257223563]],"
+    "PRIMEM[\"Greenwich\",0],UNIT[\"degree\",0.0174532925199433],AUTHORITY[\"EPSG\",\"4326\"]]";
 constexpr double kMetresPerSecondToMmPerHour = 1000.0 * 3600.0;
 
 struct VariableSpec {
@@ -176,6 +180,7 @@ struct NetcdfTimeSeriesWriter::Impl {
               const std::vector<OutputVariable>& variables);
   void put_global_attributes(const NetcdfRunMetadata& m);
   std::string define_instance_variables(const InstanceSet& set, const nc::NcDim& dim);
+  void define_geographic_variables(const std::string& k);
   void define_data_variable(OutputVariable v, const InstanceSet& set, const nc::NcDim& time_dim,
                             const nc::NcDim& dim, const std::string& coordinates);
   void write_instance_values(const InstanceSet& set);
@@ -254,7 +259,35 @@ std::string NetcdfTimeSeriesWriter::Impl::define_instance_variables(const Instan
       crs.putAtt("long_name", "horizontal coordinate reference system of x and y");
     }
   }
+  if (std::any_of(in.begin(), in.end(), [](const auto& s) {
+        return std::isfinite(s.longitude_deg) && std::isfinite(s.latitude_deg);
+      })) {
+    define_geographic_variables(k);
+    coordinates += " lon lat";
+  }
   return coordinates;
+}
+
+// CF 1.11 sec. 4.1-4.2 (latitude and longitude coordinates) and sec. 5.6 with Appendix F
+// (grid mapping "latitude_longitude"); the WGS 84 ellipsoid's defining constants a and 1/f
+// are those of NIMA TR8350.2 (2000), World Geodetic System 1984, Table 3.1.
+void NetcdfTimeSeriesWriter::Impl::define_geographic_variables(const std::string& k) {
+  const nc::NcDim dim = file->getDim(k);
+  const std::pair<const char*, const char*> axes[] = {{"lon", "longitude"}, {"lat", "latitude"}};
+  for (const auto& [name, standard] : axes) {
+    auto v = file->addVar(name, nc::ncDouble, dim);
+    v.setFill(true, kFillDouble);
+    v.putAtt("standard_name", standard);
+    v.putAtt("long_name", std::string(standard) + " of the " + k + " (WGS 84)");
+    v.putAtt("units", std::string(name) == "lon" ? "degrees_east" : "degrees_north");
+  }
+  auto crs = file->addVar("wgs84", nc::ncInt);
+  crs.putAtt("grid_mapping_name", "latitude_longitude");
+  crs.putAtt("semi_major_axis", nc::ncDouble, 6378137.0);
+  crs.putAtt("inverse_flattening", nc::ncDouble, 298.257223563);
+  crs.putAtt("longitude_of_prime_meridian", nc::ncDouble, 0.0);
+  crs.putAtt("crs_wkt", std::string(kWgs84Wkt));
+  crs.putAtt("long_name", "WGS 84 geographic coordinates of lon and lat (EPSG:4326)");
 }
 
 void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const InstanceSet& set,
@@ -296,6 +329,8 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   var.putAtt("coverage_content_type", "modelResult");
   if (!set.crs_wkt.empty() && coordinates.find(" x y") != std::string::npos) {
     var.putAtt("grid_mapping", "crs");
+  } else if (coordinates.find(" lon lat") != std::string::npos) {
+    var.putAtt("grid_mapping", "wgs84");
   }
   data_vars.push_back(var);
   from_si.push_back(s.from_si);
@@ -367,6 +402,10 @@ void NetcdfTimeSeriesWriter::Impl::write_instance_values(const InstanceSet& set)
   if (const auto reach = file->getVar("reach_id"); !reach.isNull()) {
     put_strings(reach, &InstanceInfo::reach_id);
     put_doubles(file->getVar("chainage"), &InstanceInfo::chainage_m, true);
+  }
+  if (const auto lon = file->getVar("lon"); !lon.isNull()) {
+    put_doubles(lon, &InstanceInfo::longitude_deg, true);
+    put_doubles(file->getVar("lat"), &InstanceInfo::latitude_deg, true);
   }
   if (const auto x = file->getVar("x"); !x.isNull()) {
     put_doubles(x, &InstanceInfo::x_m, false);

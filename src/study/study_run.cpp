@@ -235,6 +235,8 @@ InstanceSet instances(const std::vector<StationDescription>& stations,
     info.id = stations[i].id;
     info.name = stations[i].name;
     if (is_reach(stations[i].kind)) info.reach_id = stations[i].id;
+    info.longitude_deg = stations[i].longitude_deg;
+    info.latitude_deg = stations[i].latitude_deg;
     set.instances.push_back(info);
   }
   // Stage mixes elevations and depths (see the variable's long_name), so no datum is claimed.

@@ -81,6 +81,36 @@ rain = sub.swap_dims({"subcatchment": "subcatchment_id"}).sel(subcatchment_id="w
 check(sub["rainfall_intensity"].units == "mm h-1", "rain units")
 check(float(rain["rainfall_intensity"].max()) > 0.0, "rain recorded")
 
+# Geolocation: CF 1.11 sec. 4.1 and 4.2 (latitude and longitude coordinate variables: units
+# degrees_north and degrees_east, standard names latitude and longitude), sec. 5.6 and
+# Appendix F (grid mapping "latitude_longitude", named by each data variable's grid_mapping),
+# read with netCDF4-python; the values are the study file's `location` tables.
+located = {"wren-field": (-3.2071, 54.6183), "wren-dyke": (-3.1985, 54.6122),
+           "wren-outfall": (-3.1985, 54.6122)}
+for path, kind in ((nc_path, "station"), (f"{folder}/base/burst_subcatchments.nc", "subcatchment")):
+    with netCDF4.Dataset(path) as geo:
+        lon, lat = geo["lon"], geo["lat"]
+        check(lon.standard_name == "longitude" and lon.units == "degrees_east", f"{path} lon attrs")
+        check(lat.standard_name == "latitude" and lat.units == "degrees_north", f"{path} lat attrs")
+        check(lon.dimensions == (kind,), f"{path} lon dimensions {lon.dimensions}")
+        mapping = geo["discharge"].grid_mapping
+        check(geo[mapping].grid_mapping_name == "latitude_longitude", f"{path} grid mapping")
+        check(geo[mapping].semi_major_axis == 6378137.0, f"{path} WGS 84 semi-major axis")
+        check(abs(geo[mapping].inverse_flattening - 298.257223563) < 1e-9, f"{path} WGS 84 1/f")
+        check("lon lat" in geo["discharge"].coordinates, f"{path} coordinates attribute")
+        ids = [str(x) for x in geo[f"{kind}_id"][:]]
+        lons, lats = lon[:], lat[:]
+        for k, sid in enumerate(ids):
+            if sid in located:
+                want = located[sid]
+                check(abs(float(lons[k]) - want[0]) < 1e-12 and abs(float(lats[k]) - want[1]) < 1e-12,
+                      f"{path} {sid} at ({lons[k]}, {lats[k]}), expected {want}")
+            else:
+                check(np.ma.is_masked(lons[k]) and np.ma.is_masked(lats[k]),
+                      f"{path} {sid} has no location but lon/lat = ({lons[k]}, {lats[k]})")
+# xarray takes lon/lat as coordinates of each station (CF coordinates attribute).
+check("lon" in ds["discharge"].coords and "lat" in ds["discharge"].coords, "xarray coords lon/lat")
+
 if failures:
     print("FAILED:\n  " + "\n  ".join(failures))
     sys.exit(1)

@@ -85,6 +85,11 @@ struct InstanceInfo {
   double chainage_m = std::numeric_limits<double>::quiet_NaN();  // from the reach's upstream end
   double x_m = std::numeric_limits<double>::quiet_NaN();         // projected easting
   double y_m = std::numeric_limits<double>::quiet_NaN();         // projected northing
+  // WGS 84 geographic position (degrees east, degrees north). When any instance of a set has
+  // one, the file holds `lon` and `lat` (CF standard names longitude and latitude, _FillValue
+  // where unknown) and a `crs` grid mapping "latitude_longitude" on the WGS 84 ellipsoid.
+  double longitude_deg = std::numeric_limits<double>::quiet_NaN();
+  double latitude_deg = std::numeric_limits<double>::quiet_NaN();
 };
 
 // What the points of a file are; the instance dimension and its variables are named after it

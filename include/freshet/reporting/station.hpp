@@ -6,6 +6,7 @@
 //                        "lower-reach", true};
 #pragma once
 
+#include <limits>
 #include <string>
 
 #include "freshet/network/topology.hpp"
@@ -18,6 +19,11 @@ struct StationDescription {
   std::string name;        // human label, e.g. "Mill Lane culvert"
   std::string to;          // downstream element id ("" for outlets)
   bool stage_is_elevation = false;  // stage is a water-surface elevation (else a depth)
+  // Where the element is on the map, WGS 84 (EPSG:4326) degrees; NaN when the study file
+  // does not say. A reach is placed at its downstream end, a subcatchment at its outlet or
+  // centroid, as the study file gives it.
+  double longitude_deg = std::numeric_limits<double>::quiet_NaN();
+  double latitude_deg = std::numeric_limits<double>::quiet_NaN();
 };
 
 }  // namespace freshet::reporting

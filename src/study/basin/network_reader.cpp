@@ -179,6 +179,32 @@ void NetworkReader::read_array(std::string_view key, ElementKind kind) {
   }
 }
 
+namespace {
+
+// `location = { longitude = .., latitude = .. }`: where the element is on the map, WGS 84
+// degrees (a GeoJSON position's order, RFC 7946 sec. 3.1.1).
+void read_location(FieldReader l, StationDescription& station) {
+  const double longitude = l.number("longitude");
+  const double latitude = l.number("latitude");
+  l.finish();
+  bool ok = std::isfinite(longitude) && std::isfinite(latitude);
+  if (std::isfinite(longitude) && (longitude < -180.0 || longitude > 180.0)) {
+    l.report("longitude", "= " + format_value(longitude) + ": must be in [-180, 180] degrees east "
+                          "(WGS 84)");
+    ok = false;
+  }
+  if (std::isfinite(latitude) && (latitude < -90.0 || latitude > 90.0)) {
+    l.report("latitude", "= " + format_value(latitude) + ": must be in [-90, 90] degrees north "
+                         "(WGS 84)");
+    ok = false;
+  }
+  if (!ok) return;
+  station.longitude_deg = longitude;
+  station.latitude_deg = latitude;
+}
+
+}  // namespace
+
 template <class ReadFn>
 void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&& read) {
   const auto* id_node = table.get("id");
@@ -201,6 +227,9 @@ void NetworkReader::element(const toml::table& table, ElementKind kind, ReadFn&&
   link.to = r.optional_text("to").value_or("");
   StationDescription station{link.id, kind,
                              r.optional_text("name").value_or(link.id), link.to, false};
+  if (const toml::table* where = r.optional_table("location")) {
+    read_location(r.nested(*where, "location"), station);
+  }
   const std::size_t before = problems_.size();
   element_start_ = before;
   std::unique_ptr<network::Element> e;
