@@ -1,6 +1,7 @@
 // The diffusion-wave scheme (variable-parameter Muskingum-Cunge, schemes/muskingum_cunge.hpp)
 // against the linear diffusion wave's closed form (Hayami 1951), its kinematic limit at large
-// Ponce numbers, and the volume balance on every section shape with lateral inflow.
+// Ponce numbers, the volume balance on every section shape with lateral inflow, and its
+// routing coefficients against a published worked problem.
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -13,6 +14,7 @@
 #include "freshet/geometry/section_flux.hpp"
 #include "freshet/routing/applicability.hpp"
 #include "freshet/routing/make_reach.hpp"
+#include "freshet/routing/schemes/muskingum_cunge.hpp"
 #include "routing_test_support.hpp"
 
 namespace freshet::routing {
@@ -257,6 +259,42 @@ TEST(MuskingumCunge, WithoutASectionSaysWhatItNeeds) {
             std::string::npos)
       << r.message;
   EXPECT_NE(r.message.find("reach 'bare'"), std::string::npos) << r.message;
+}
+
+// ---- A published worked problem ------------------------------------------------------------
+//
+// Ponce, V. M. (1989), Engineering Hydrology: Principles and Practices, Prentice Hall, ch. 9:
+// Muskingum-Cunge routing with constant parameters taken at the peak flow. The problem (with
+// its answer published in the author's solutions to the chapter 9 problems): a triangular
+// inflow from a base flow of 60 m3/s to a peak of 1110 m3/s at 7 h and back to base flow at
+// 21 h; bed slope 0.001; flow area 440 m2 and top width 115 m at the peak; rating exponent
+// beta = 1.58; one sub-reach of 14 km; time step 1 h. The parameters are c = beta Qp / Ap,
+// C = c dt / dx and R = (Qp / Tp) / (S0 c dx). Published answer: peak outflow 1,093.39 m3/s
+// at 8 h. The scheme's own coefficients and recursion (detail_mc) must reproduce it.
+TEST(MuskingumCunge, CoefficientsReproducePoncesWorkedProblem) {
+  const double peak_m3s = 1110.0, base_m3s = 60.0, rise_h = 7.0, base_time_h = 21.0;
+  const double celerity_m_s = 1.58 * peak_m3s / 440.0;
+  const double dx_m = 14000.0, dt_s = 3600.0;
+  const double courant = celerity_m_s * dt_s / dx_m;
+  const double reynolds = (peak_m3s / 115.0) / (0.001 * celerity_m_s * dx_m);
+  const auto k = schemes::detail_mc::coefficients(courant, reynolds);
+  EXPECT_NEAR(k.c0 + k.c1 + k.c2, 1.0, 1e-15);  // Ponce 1989, ch. 9: the coefficients sum to 1
+
+  const auto inflow_m3s = [&](double t_h) {
+    if (t_h <= rise_h) return base_m3s + (peak_m3s - base_m3s) * t_h / rise_h;
+    if (t_h <= base_time_h)
+      return base_m3s + (peak_m3s - base_m3s) * (base_time_h - t_h) / (base_time_h - rise_h);
+    return base_m3s;
+  };
+  double out_m3s = base_m3s, peak_out_m3s = 0.0;
+  int peak_hour = -1;
+  for (int hour = 1; hour <= 30; ++hour) {
+    out_m3s = schemes::detail_mc::route(k, inflow_m3s(hour), inflow_m3s(hour - 1.0), out_m3s, 0.0);
+    if (out_m3s > peak_out_m3s) peak_out_m3s = out_m3s, peak_hour = hour;
+  }
+  EXPECT_NEAR(peak_out_m3s, 1093.39, 0.005);  // the published answer, to its two decimals
+  EXPECT_EQ(peak_hour, 8);
+  EXPECT_NEAR(out_m3s, base_m3s, 1e-6);  // back to base flow, nothing created or lost
 }
 
 TEST(MuskingumCunge, IsARegisteredScheme) {

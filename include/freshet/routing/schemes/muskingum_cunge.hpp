@@ -9,18 +9,17 @@
 //   Q_{i+1}^{n+1} = C0 Q_i^{n+1} + C1 Q_i^n + C2 Q_{i+1}^n + C3 q_L dx,
 //   C0 = (C + R - 1) / (1 + C + R),  C1 = (1 + C - R) / (1 + C + R),
 //   C2 = (1 - C + R) / (1 + C + R),  C3 = 2 C / (1 + C + R),
-// with Courant number C = c dt / dx and cell Reynolds number R = Q / (B S0 c dx) (Ponce
-// 1989, Engineering Hydrology, sec. 9.3, from memory). The parameters vary: c = dQ/dA and the
-// top width B are taken at the reference discharge, the three-point average
-// (Q_i^n + Q_i^{n+1} + Q_{i+1}^n) / 3 (Ponce & Chaganti 1994), or the discharge the cell's
-// stored volume gives when that is larger (so that water stored from lateral inflow starts
-// to move). Volume: the cell's area is updated by continuity from the mean face discharges
-// over the step, A_i^{n+1} = A_i^n + dt/dx (F_i - F_{i+1}) + V_lat,i / dx with
-// F = (Q^n + Q^{n+1}) / 2 (the inlet face carries the exact inflow volume), so storage,
-// stage and the ledger agree to round-off; an outflow that would empty a cell below zero is
-// cut to what the cell holds (conservative). The scheme times itself: dt = courant x dx /
-// c_max (RoutingOptions::diffusion_courant_target, 1 by default), never longer than the
-// advance.
+// with Courant number C = c dt / dx and cell Reynolds number R = Q / (B S0 c dx) (Ponce 1989,
+// Engineering Hydrology, ch. 9; a worked problem of that chapter is reproduced in the tests).
+// The parameters vary: c = dQ/dA and the top width B are taken at the reference discharge, the
+// three-point average (Q_i^n + Q_i^{n+1} + Q_{i+1}^n) / 3 (Ponce & Chaganti 1994), or the
+// discharge the cell's stored volume gives when that is larger (so that water stored from
+// lateral inflow starts to move). Volume: the cell's area is updated by continuity from the
+// mean face discharges over the step, A_i^{n+1} = A_i^n + dt/dx (F_i - F_{i+1}) + V_lat,i / dx
+// with F = (Q^n + Q^{n+1}) / 2 (the inlet face carries the exact inflow volume), so storage,
+// stage and the ledger agree to round-off; an outflow that would empty a cell below zero is cut
+// to what the cell holds (conservative). The scheme times itself: dt = courant x dx / c_max
+// (RoutingOptions::diffusion_courant_target, 1 by default), never longer than the advance.
 //
 // Accuracy (docs/methods-routing.md): the recursion is second order where C + R >= 1 and
 // C <= 1 + R (all coefficients non-negative); otherwise it can dip below the true outflow.
@@ -54,6 +53,14 @@ struct Coefficients {
   const double den = 1.0 + courant + reynolds;
   return {(courant + reynolds - 1.0) / den, (1.0 + courant - reynolds) / den,
           (1.0 - courant + reynolds) / den, 2.0 * courant / den};
+}
+
+// The recursion: the discharge leaving a sub-reach at the end of a step from the discharge
+// entering it at the end (in_new) and start (in_old) of the step, the discharge leaving it at
+// the start (out_old) and the lateral inflow over its length (lateral_m3s).
+[[nodiscard]] inline double route(const Coefficients& k, double in_new_m3s, double in_old_m3s,
+                                  double out_old_m3s, double lateral_m3s) noexcept {
+  return k.c0 * in_new_m3s + k.c1 * in_old_m3s + k.c2 * out_old_m3s + k.c3 * lateral_m3s;
 }
 
 }  // namespace detail_mc
@@ -187,8 +194,7 @@ class MuskingumCunge {
     const detail_mc::Coefficients k =
         std::isfinite(reynolds) ? detail_mc::coefficients(courant, reynolds)
                                 : detail_mc::Coefficients{1.0, -1.0, 1.0, 0.0};
-    const double q = k.c0 * q_new_[i] + k.c1 * q_old_[i] + k.c2 * q_old_[i + 1] + k.c3 * lateral_m3s;
-    return std::max(q, 0.0);
+    return std::max(detail_mc::route(k, q_new_[i], q_old_[i], q_old_[i + 1], lateral_m3s), 0.0);
   }
 
   RoutingOptions options_;
