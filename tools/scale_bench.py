@@ -10,7 +10,8 @@ rate of the bare update loop (`freshet-bench --bare-update`: Q(A) and the upwind
 same trapezoidal channel, nothing else). Not a test; figures depend on the machine and its load.
 
     python3 tools/scale_bench.py --freshet build/freshet --bench build/freshet-bench \\
-        --reaches 100 1000 10000 [--shape binary] [--duration-h 24] [-- MAKE_NETWORK_ARGS...]
+        --reaches 100 1000 10000 [--shape binary] [--duration-h 24] [--threads N] \\
+        [-- MAKE_NETWORK_ARGS...]
 
 Standard-library Python 3 only. Arguments after `--` go to make_network.py unchanged.
 """
@@ -63,6 +64,9 @@ def main(argv):
     p.add_argument("--reaches", type=int, nargs="+", default=[100, 1000])
     p.add_argument("--shape", choices=("binary", "random"), default="binary")
     p.add_argument("--duration-h", type=float, default=24.0)
+    p.add_argument("--threads", type=int, default=1,
+                   help="threads of the one run (freshet route --jobs N on one storm: independent "
+                        "subtrees in parallel, results identical to one thread)")
     p.add_argument("--keep", help="keep the generated studies and results in this folder")
     args = p.parse_args(argv)
 
@@ -71,7 +75,7 @@ def main(argv):
     load = os.getloadavg()
     bare_before = bare_rate(args.bench)
     print(f"load average {load[0]:.2f} {load[1]:.2f} {load[2]:.2f}; {os.cpu_count()} CPUs; "
-          f"{args.shape} networks, {args.duration_h} h")
+          f"{args.shape} networks, {args.duration_h} h, {args.threads} thread(s) per run")
     print(f"{'reaches':>8} {'cells':>9} {'cell upd':>10} {'wall s':>8} {'CPU s':>8} "
           f"{'upd/CPU s':>10} {'vs bare':>8} {'peak MB':>8} {'B/cell':>7} {'output MB':>9}")
     for n in args.reaches:
@@ -82,7 +86,7 @@ def main(argv):
                         "--out", study] + extra, check=True, stderr=subprocess.DEVNULL)
         log = os.path.join(scratch, f"{args.shape}{n}.log")
         code, wall, usage = run_measured(
-            [args.freshet, "route", study, "--out", out, "--overwrite", "--jobs", "1"], log)
+            [args.freshet, "route", study, "--out", out, "--overwrite", "--jobs", str(args.threads)], log)
         text = open(log, encoding="utf-8").read()
         if code != 0:
             sys.exit(f"scale_bench.py: freshet route {study} exited {code}; see {log}")

@@ -38,7 +38,7 @@ void add_run_options(CLI::App* cmd, RunArgs& args) {
   cmd->add_option("-o,--out", args.out_dir, "Output folder (default: out/<basin name>)")
       ->check(kNonEmptyPath);
   cmd->add_flag("--overwrite", args.overwrite, "Replace existing result files");
-  cmd->add_option("-j,--jobs", args.jobs, "Runs in parallel (default 2)")->check(CLI::Range(1, 64));
+  cmd->add_option("-j,--jobs", args.jobs, "Threads: runs in parallel, and a run's independent subtrees when there are fewer runs (default 2)")->check(CLI::Range(1, 64));
 }
 
 BatchOptions batch_options(const RunArgs& args, bool quiet) {
@@ -102,12 +102,18 @@ std::vector<study::RunOutcome> run_batch(const study::Study& study,
   std::mutex fraction_mutex;
   Progress progress("freshet: routing " + std::to_string(n) + " run(s)", options.quiet);
   std::atomic<std::size_t> next{0};
+  // Runs share the threads; with fewer runs than threads, each run uses the spare ones for
+  // its own independent subtrees (same results as on one thread, bit for bit).
+  const auto threads = static_cast<std::size_t>(std::max(1, options.jobs));
+  const int threads_per_run = static_cast<int>(threads / std::max<std::size_t>(1, std::min(threads, n)));
 
   auto worker = [&] {
     for (std::size_t k = next++; k < n; k = next++) {
       try {
         if (stop_requested()) throw study::RunInterrupted("the run was stopped before it started");
-        results[k] = study::run_study(study, requests[k], [&, k](double f) {
+        study::RunRequest request = requests[k];
+        request.threads = threads_per_run;
+        results[k] = study::run_study(study, request, [&, k](double f) {
           double total = 0.0;
           {
             std::lock_guard lock(fraction_mutex);
@@ -121,7 +127,6 @@ std::vector<study::RunOutcome> run_batch(const study::Study& study,
       }
     }
   };
-  const auto threads = static_cast<std::size_t>(std::max(1, options.jobs));
   std::vector<std::thread> pool;
   for (std::size_t t = 1; t < std::min(threads, n); ++t) pool.emplace_back(worker);
   worker();

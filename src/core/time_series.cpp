@@ -39,6 +39,14 @@ PiecewiseLinearSeries PiecewiseLinearSeries::constant(double value) {
   return PiecewiseLinearSeries({0.0}, {value});
 }
 
+void PiecewiseLinearSeries::set_constant(double value) {
+  if (times_s_.size() == 1 && times_s_[0] == 0.0 && std::isfinite(value)) {
+    values_[0] = value;  // cumulative_ is {0} for one sample
+    return;
+  }
+  *this = constant(value);
+}
+
 double PiecewiseLinearSeries::value_at(double t_s) const {
   if (t_s <= times_s_.front()) return values_.front();
   if (t_s >= times_s_.back()) return values_.back();

@@ -187,14 +187,24 @@ void AtomicFile::close_descriptor() noexcept {
 
 void AtomicFile::write(std::string_view bytes) {
   FRESHET_ASSERT(fd_ >= 0, "AtomicFile::write after commit or failure");
+  if (bytes.size() >= kBufferBytes) {  // a large block goes straight out, not copied first
+    flush_buffer();
+    write_through(bytes);
+    return;
+  }
   buffer_.append(bytes);
   if (buffer_.size() >= kBufferBytes) flush_buffer();
 }
 
 void AtomicFile::flush_buffer() {
+  write_through(buffer_);
+  buffer_.clear();
+}
+
+void AtomicFile::write_through(std::string_view bytes) {
   std::size_t done = 0;
-  while (done < buffer_.size()) {
-    const ssize_t n = ::write(fd_, buffer_.data() + done, buffer_.size() - done);
+  while (done < bytes.size()) {
+    const ssize_t n = ::write(fd_, bytes.data() + done, bytes.size() - done);
     if (n < 0 && errno == EINTR) continue;
     if (n <= 0) {
       const int err = n < 0 ? errno : EIO;
@@ -203,7 +213,6 @@ void AtomicFile::flush_buffer() {
     }
     done += static_cast<std::size_t>(n);
   }
-  buffer_.clear();
 }
 
 void AtomicFile::commit() {

@@ -1,10 +1,15 @@
 #include "freshet/network/driver.hpp"
 
-#include <chrono>
 #include <algorithm>
+#include <barrier>
+#include <chrono>
 #include <cmath>
+#include <exception>
 #include <limits>
+#include <thread>
 #include <utility>
+
+#include "freshet/network/sweep_plan.hpp"
 
 namespace freshet::network {
 
@@ -119,19 +124,122 @@ void require_sound_run(const RunSummary& run, const BalanceTolerance& tolerance)
 
 namespace {
 
-// Advances every element over [t0, t1], upstream first, passing outflows downstream.
-void sweep(Model& model, double t0_s, double t1_s, std::vector<StepOutflow>& out) {
-  for (std::size_t i : model.topology.order) {
-    StepInflow in{t0_s, t1_s};
-    const bool lateral = model.elements[i]->takes_lateral_inflow();
-    for (std::size_t u : model.topology.upstream[i]) {
-      const bool along = lateral && model.links[u].kind == ElementKind::subcatchment;
-      (along ? in.lateral_mean_m3s : in.inflow_mean_m3s) += out[u].mean_m3s;
-      (along ? in.lateral_end_m3s : in.inflow_end_m3s) += out[u].end_m3s;
-    }
-    out[i] = model.elements[i]->advance(in);
+// Advances element i over [t0, t1] from the outflows of the elements draining into it.
+void advance_element(Model& model, std::size_t i, double t0_s, double t1_s,
+                     std::vector<StepOutflow>& out) {
+  StepInflow in{t0_s, t1_s};
+  const bool lateral = model.elements[i]->takes_lateral_inflow();
+  for (std::size_t u : model.topology.upstream[i]) {
+    const bool along = lateral && model.links[u].kind == ElementKind::subcatchment;
+    (along ? in.lateral_mean_m3s : in.inflow_mean_m3s) += out[u].mean_m3s;
+    (along ? in.lateral_end_m3s : in.inflow_end_m3s) += out[u].end_m3s;
   }
+  out[i] = model.elements[i]->advance(in);
 }
+
+// The work of one element per coupling step, for cutting the network between threads: its
+// cells where it has any (reaches), otherwise one.
+std::vector<double> element_weights(const Model& model) {
+  std::vector<double> w(model.elements.size());
+  for (std::size_t i = 0; i < w.size(); ++i) {
+    w[i] = 1.0 + static_cast<double>(model.elements[i]->cell_samples().size());
+  }
+  return w;
+}
+
+// Advances the network one coupling step at a time, upstream first: serially on the calling
+// thread, or with the lanes of a sweep plan on worker threads (the calling thread takes lane
+// 0, waits for the others at a barrier, then advances the trunk).
+class Sweeper {
+ public:
+  Sweeper(Model& model, int threads, std::vector<StepOutflow>& out)
+      : model_(model),
+        out_(out),
+        plan_(plan_sweep(model.topology, threads > 1 ? element_weights(model)
+                                                     : std::vector<double>(model.elements.size(), 1.0),
+                         threads)),
+        failures_(plan_.lanes.size()),
+        position_(model.elements.size()),
+        start_(static_cast<std::ptrdiff_t>(plan_.lanes.size())),
+        done_(static_cast<std::ptrdiff_t>(plan_.lanes.size())) {
+    for (std::size_t k = 0; k < model.topology.order.size(); ++k) position_[model.topology.order[k]] = k;
+    try {
+      for (std::size_t k = 1; k < plan_.lanes.size(); ++k) workers_.emplace_back([this, k] { work(k); });
+    } catch (...) {
+      // A thread could not be started: release the workers that were (the lanes without a
+      // thread drop out of the barrier) and let the error through.
+      stop_ = true;
+      for (std::size_t k = workers_.size() + 1; k < plan_.lanes.size(); ++k) (void)start_.arrive_and_drop();
+      start_.arrive_and_wait();
+      workers_.clear();
+      throw;
+    }
+  }
+  ~Sweeper() {
+    if (workers_.empty()) return;
+    stop_ = true;
+    start_.arrive_and_wait();
+  }
+  Sweeper(const Sweeper&) = delete;
+  Sweeper& operator=(const Sweeper&) = delete;
+
+  void sweep(double t0_s, double t1_s) {
+    t0_s_ = t0_s;
+    t1_s_ = t1_s;
+    if (!workers_.empty()) start_.arrive_and_wait();
+    run_lane(0);
+    if (!workers_.empty()) done_.arrive_and_wait();
+    rethrow_first_failure();
+    for (std::size_t i : plan_.trunk) advance_element(model_, i, t0_s_, t1_s_, out_);
+  }
+
+ private:
+  struct Failure {
+    std::exception_ptr error;
+    std::size_t position = 0;  // of the failed element in the topological order
+  };
+
+  void work(std::size_t lane) {
+    for (;;) {
+      start_.arrive_and_wait();
+      if (stop_) return;
+      run_lane(lane);
+      done_.arrive_and_wait();
+    }
+  }
+
+  // A lane stops at its first failure. The serial sweep would have failed at the failure
+  // earliest in the topological order (a lane's order is a subsequence of it), so that is
+  // the one rethrown, whatever the number of threads.
+  void run_lane(std::size_t lane) noexcept {
+    for (std::size_t i : plan_.lanes[lane]) {
+      try {
+        advance_element(model_, i, t0_s_, t1_s_, out_);
+      } catch (...) {
+        failures_[lane] = {std::current_exception(), position_[i]};
+        return;
+      }
+    }
+  }
+
+  void rethrow_first_failure() {
+    const Failure* first = nullptr;
+    for (const Failure& f : failures_) {
+      if (f.error && (!first || f.position < first->position)) first = &f;
+    }
+    if (first) std::rethrow_exception(first->error);
+  }
+
+  Model& model_;
+  std::vector<StepOutflow>& out_;
+  SweepPlan plan_;
+  std::vector<Failure> failures_;
+  std::vector<std::size_t> position_;
+  double t0_s_ = 0.0, t1_s_ = 0.0;
+  bool stop_ = false;  // read by the workers after the start barrier
+  std::barrier<> start_, done_;
+  std::vector<std::jthread> workers_;  // last: joined before the barriers go
+};
 
 // Hands every element the instantaneous inflow at the start (upstream first), so that the
 // first record of a junction shows what flows into it.
@@ -217,7 +325,7 @@ RunSummary summarise(const Model& model) {
 }  // namespace
 
 RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
-                    const ProgressFn& progress) {
+                    const ProgressFn& progress, const SweepOptions& sweep_options) {
   clock.validate();
   const auto wall_start = std::chrono::steady_clock::now();
   for (auto& e : model.elements) e->reset(clock.start_s);
@@ -230,6 +338,8 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
   const auto outputs = static_cast<long long>(clock.output_count());
   std::vector<StepOutflow> outflow(model.elements.size());
   std::vector<StationSample> samples(model.elements.size());
+  FRESHET_ASSERT(sweep_options.threads >= 1, "a run needs at least one thread");
+  Sweeper sweeper(model, sweep_options.threads, outflow);
 
   emit(model, clock.start_s, samples, sink);
   long long steps = 0;
@@ -242,8 +352,10 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
     for (long long j = 1; j <= steps_per_output; ++j) {
       const double t1 = (j == steps_per_output) ? output_end
                                                 : output_start + static_cast<double>(j) * dt_s;
+      // Backwater coupling stays on this thread, between sweeps: no lane runs while a
+      // drowned reach and its pool exchange water (backwater.hpp).
       couple_backwater(model, t0);
-      sweep(model, t0, t1, outflow);
+      sweeper.sweep(t0, t1);
       t0 = t1;
       ++steps;
       if (j < steps_per_output && sink.observes_every_step()) {

@@ -85,15 +85,14 @@ void ReachElement::prime(double inflow_m3s) {
 
 StepOutflow ReachElement::advance(const StepInflow& in) {
   const double length_m = reach_->spec().length_m;
-  const auto lateral =
-      in.lateral_mean_m3s > 0.0
-          ? routing::LateralInflow::uniform(
-                length_m, PiecewiseLinearSeries::constant(in.lateral_mean_m3s / length_m))
-          : routing::LateralInflow::none();
+  // The forcing's storage is kept from step to step (no allocation per step).
+  const bool along = in.lateral_mean_m3s > 0.0;
+  if (along) lateral_.set_uniform_constant(length_m, in.lateral_mean_m3s / length_m);
   const double routed_before_m3 = backwater_pool_ ? routed_storage_m3() : 0.0;
   routing::AdvanceResult r;
   try {
-    r = reach_->advance(in.t0_s, in.t1_s, in.inflow_mean_m3s, lateral);
+    inflow_.set_constant(in.inflow_mean_m3s);
+    r = reach_->advance(in.t0_s, in.t1_s, inflow_, along ? lateral_ : no_lateral_);
   } catch (const InputError& e) {
     throw NumericalError("reach '" + id() + "' at t = " + format_value(in.t0_s) +
                          " s received an invalid forcing: " + e.what());

@@ -13,6 +13,15 @@ LateralInflow LateralInflow::uniform(double length_m, PiecewiseLinearSeries rate
   return LateralInflow({0.0, length_m}, {std::move(rate_m2s)});
 }
 
+void LateralInflow::set_uniform_constant(double length_m, double rate_m2s) {
+  if (rate_m2s_.size() == 1 && station_m_.size() == 2 && station_m_[1] == length_m &&
+      rate_m2s_[0].times_s().size() == 1) {
+    rate_m2s_[0].set_constant(rate_m2s);
+    return;
+  }
+  *this = uniform(length_m, PiecewiseLinearSeries::constant(rate_m2s));
+}
+
 LateralInflow::LateralInflow(std::vector<double> station_m,
                              std::vector<PiecewiseLinearSeries> rate_m2s, const std::string& what)
     : station_m_(std::move(station_m)), rate_m2s_(std::move(rate_m2s)) {

@@ -574,7 +574,7 @@ network::RunSummary simulate_located(const Study& study,
   const std::string where = "storm '" + req.storm_id + "'" +
                             (req.scenario_id.empty() ? "" : ", scenario '" + req.scenario_id + "'");
   try {
-    return network::simulate(model, clock, sink, progress);
+    return network::simulate(model, clock, sink, progress, network::SweepOptions{req.threads});
   } catch (const InputError& e) {
     std::vector<Problem> located = e.problems();
     for (Problem& p : located) {

@@ -4,6 +4,7 @@
 // (continuity; e.g. Chow, Maidment & Mays 1988, Applied Hydrology, sec. 2.2, the integral
 // equation of continuity for a control volume); each element's own ledger is tested in its
 // module, this checks that nothing is lost or made where elements hand water on.
+#include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <random>
@@ -15,6 +16,7 @@
 
 #include "freshet/study/study.hpp"
 #include "freshet/network/driver.hpp"
+#include "freshet/network/sweep_plan.hpp"
 
 namespace freshet {
 namespace {
@@ -69,7 +71,7 @@ TEST(NetworkBalance, DemoStudyClosesForEveryStormAndScenario) {
 
 // A random tree of reaches, junctions, culverts and detention basins draining to one outlet,
 // fed by subcatchments and inflow hydrographs.
-std::string random_basin(std::mt19937& rng) {
+std::string random_basin(std::mt19937& rng, int max_elements = 12) {
   std::uniform_real_distribution<double> u(0.0, 1.0);
   std::ostringstream toml;
   toml << "[study]\ntitle = \"random\"\nunits = \"si\"\nduration_h = 3.0\n"
@@ -79,7 +81,7 @@ std::string random_basin(std::mt19937& rng) {
           "[[outlet]]\nid = \"e0\"\n";
   std::vector<std::string> nodes{"e0"};
   std::vector<int> fed(1, 0);
-  const int count = 4 + static_cast<int>(u(rng) * 8);
+  const int count = 4 + static_cast<int>(u(rng) * (max_elements - 4));
   for (int k = 1; k <= count; ++k) {
     const std::string id = "e" + std::to_string(k);
     const auto to_index = static_cast<std::size_t>(u(rng) * static_cast<double>(nodes.size()));
@@ -141,6 +143,116 @@ TEST(NetworkBalance, RandomNetworksClose) {
     EXPECT_LT(relative_imbalance(study, "", "s"), 1e-9) << "seed " << seed;
   }
   std::filesystem::remove_all(dir);
+}
+
+// Every sample a run hands its sink, kept as bit patterns (NaN compares equal to itself).
+class KeepingSink final : public network::RecordSink {
+ public:
+  void record(double time_s, std::span<const network::StationSample> samples) override {
+    keep(time_s, samples);
+  }
+  [[nodiscard]] bool observes_every_step() const override { return true; }
+  void observe(double time_s, std::span<const network::StationSample> samples) override {
+    keep(time_s, samples);
+  }
+  std::vector<std::uint64_t> bits;
+
+ private:
+  void put(double x) {
+    std::uint64_t b = 0;
+    std::memcpy(&b, &x, sizeof b);
+    bits.push_back(b);
+  }
+  void keep(double time_s, std::span<const network::StationSample> samples) {
+    put(time_s);
+    for (const network::StationSample& s : samples) {
+      for (double x : {s.discharge_m3s, s.stage_m, s.depth_m, s.velocity_m_s, s.rain_m_s,
+                       s.excess_m_s, s.outflow_volume_m3}) {
+        put(x);
+      }
+    }
+  }
+};
+
+KeepingSink route_with_threads(const study::Study& study, int threads) {
+  network::Model model = study.build_model("", study.storm("s"));
+  KeepingSink sink;
+  const auto& s = study.settings();
+  network::ClockOptions clock{0.0, s.duration_s, s.output_interval_s, s.coupling_step_s};
+  (void)network::simulate(model, clock, sink, {}, network::SweepOptions{threads});
+  return sink;
+}
+
+// The check for parallel routing: one run on 2 or 3 threads hands its sink exactly
+// the samples of the serial sweep (the reference), bit for bit, at every coupling step, on
+// random networks of reaches, culverts, detention basins, junctions, subcatchments and
+// inflow hydrographs (each element's arithmetic does not depend on which thread runs it).
+TEST(NetworkBalance, ThreadsGiveTheSerialResultsBitForBit) {
+  const auto dir = std::filesystem::temp_directory_path() /
+                   ("freshet-threaded-networks-" + std::to_string(::getpid()));
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir / "inflow.csv") << "time_min,discharge_m3s\n0,0.2\n30,2.5\n90,0.5\n180,0.2\n";
+  for (unsigned seed = 1; seed <= 6; ++seed) {
+    std::mt19937 rng(seed);
+    const auto file = dir / ("random-" + std::to_string(seed) + ".toml");
+    std::ofstream(file) << random_basin(rng, 60);
+    const study::Study study = study::Study::load(file);
+    const KeepingSink serial = route_with_threads(study, 1);
+    ASSERT_FALSE(serial.bits.empty());
+    for (int threads : {2, 3}) {
+      const KeepingSink parallel = route_with_threads(study, threads);
+      EXPECT_TRUE(parallel.bits == serial.bits) << "seed " << seed << ", " << threads << " threads";
+    }
+  }
+  std::filesystem::remove_all(dir);
+}
+
+// The cut of a network between threads: every element in exactly one lane or the trunk, each
+// lane closed upstream (whole subtrees) and in topological order, the trunk in topological
+// order, and lanes that share the work (a binary tree of 255 equal elements on 2 threads:
+// each lane within a quarter of a thread's share of the other).
+TEST(SweepPlan, CutsWholeSubtreesInTopologicalOrder) {
+  std::vector<network::Link> links;
+  for (int i = 0; i < 255; ++i) {
+    network::Link l;
+    l.id = "e" + std::to_string(i);
+    l.kind = i == 0 ? network::ElementKind::outlet
+             : i < 127 ? network::ElementKind::reach
+                       : network::ElementKind::inflow;  // the leaves are sources
+    if (i > 0) l.to = "e" + std::to_string((i - 1) / 2);
+    links.push_back(l);
+  }
+  const network::Topology topology = network::build_topology(links);
+  for (int threads : {1, 2, 3, 4}) {
+    const network::SweepPlan plan =
+        network::plan_sweep(topology, std::vector<double>(links.size(), 1.0), threads);
+    ASSERT_EQ(plan.lanes.size(), static_cast<std::size_t>(threads));
+    std::vector<std::size_t> position(links.size()), lane_of(links.size(), 99);
+    for (std::size_t k = 0; k < topology.order.size(); ++k) position[topology.order[k]] = k;
+    std::size_t seen = plan.trunk.size();
+    for (std::size_t k = 0; k < plan.lanes.size(); ++k) {
+      seen += plan.lanes[k].size();
+      for (std::size_t j = 0; j < plan.lanes[k].size(); ++j) {
+        lane_of[plan.lanes[k][j]] = k;
+        if (j > 0) EXPECT_LT(position[plan.lanes[k][j - 1]], position[plan.lanes[k][j]]);
+      }
+    }
+    EXPECT_EQ(seen, links.size());
+    for (std::size_t k = 0; k < plan.lanes.size(); ++k) {
+      for (std::size_t i : plan.lanes[k]) {
+        for (std::size_t u : topology.upstream[i]) EXPECT_EQ(lane_of[u], k) << threads;
+      }
+    }
+    for (std::size_t j = 1; j < plan.trunk.size(); ++j) {
+      EXPECT_LT(position[plan.trunk[j - 1]], position[plan.trunk[j]]);
+    }
+    if (threads == 1) EXPECT_TRUE(plan.trunk.empty());
+    if (threads == 2) {
+      const double a = static_cast<double>(plan.lanes[0].size());
+      const double b = static_cast<double>(plan.lanes[1].size());
+      EXPECT_LE(std::abs(a - b), 0.25 * 255.0 / 2.0) << a << " " << b;
+    }
+  }
 }
 
 }  // namespace

@@ -173,11 +173,33 @@ TEST(CelerityEnvelope, BoundsEverySmallerAreaForAPipe) {
   for (double a = 1e-6; a < 1.5 * full_area; a *= 1.001) {
     const double c = law.celerity_m_s(a);
     running_max = std::max(running_max, c);
-    const double bound = envelope.bound(a, c);
+    const double bound = envelope.bound(law, a, c);
     worst = std::min(worst, bound / running_max - 1.0);
   }
   std::printf("pipe celerity envelope: worst relative shortfall %.2e\n", -worst);
   EXPECT_GE(worst, 0.0);  // the table carries a 1e-3 margin for c between its nodes
+  EXPECT_GT(envelope.memory_bytes(), 0U);  // c falls towards the crown: the table is kept
+}
+
+// A trapezoid's celerity rises at every node of the table, so the envelope keeps no table
+// and evaluates c at the node below instead: the same bound as the running maximum of c over
+// the nodes (computed here directly), bit for bit, and never below c of a smaller area.
+TEST(CelerityEnvelope, RisingCelerityKeepsNoTableAndGivesTheRunningMaximum) {
+  const geometry::TrapezoidalFlux law(2.0, 2.0, 2.0, 0.035, 0.005);
+  const detail::CelerityEnvelope envelope(law);
+  EXPECT_EQ(envelope.memory_bytes(), 0U);
+  EXPECT_FALSE(envelope.empty());
+  double running_max = 0.0;
+  for (double a = 1e-6; a < 1e5; a *= 1.003) {
+    const double c = law.celerity_m_s(a);
+    running_max = std::max(running_max, c);
+    // The node strictly below a, as the envelope finds it, and 1.001 c there.
+    const int j = static_cast<int>(std::ceil(16.0 * std::log2(a))) + 16 * 25 - 1;
+    const double node_c = law.celerity_m_s(std::exp2(static_cast<double>(j - 16 * 25) / 16.0));
+    const double bound = envelope.bound(law, a, c);
+    EXPECT_EQ(bound, std::max(c, detail::CelerityEnvelope::kSamplingMargin * node_c)) << a;
+    EXPECT_GE(bound, running_max) << a;
+  }
 }
 
 // Breaking driven by the inflow hydrograph: a smooth (raised-cosine) rise from base flow,

@@ -23,6 +23,10 @@ class PiecewiseLinearSeries {
 
   // A constant value for all time.
   static PiecewiseLinearSeries constant(double value);
+  // Makes this series constant(value), reusing its storage when it already is a constant (a
+  // network reach's forcing, set at every coupling step, allocates nothing); a value that
+  // constant() refuses is refused the same way.
+  void set_constant(double value);
 
   [[nodiscard]] double value_at(double t_s) const;
   // Exact integral of the series over [t0_s, t1_s] (t0 <= t1).

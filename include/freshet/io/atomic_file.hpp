@@ -115,6 +115,7 @@ class AtomicFile {
 
  private:
   void flush_buffer();
+  void write_through(std::string_view bytes);  // every byte to the descriptor, or IoError
   void close_descriptor() noexcept;
 
   AtomicOutputPath path_;

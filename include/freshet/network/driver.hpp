@@ -129,7 +129,17 @@ void require_sound_run(const RunSummary& run, const BalanceTolerance& tolerance 
 // Progress callback: fraction of simulated time done, in [0, 1].
 using ProgressFn = std::function<void(double)>;
 
+// How one run uses threads.
+struct SweepOptions {
+  // Threads that advance the elements within each coupling step (>= 1). With more than one,
+  // independent subtrees are advanced in parallel (sweep_plan.hpp) and the elements below
+  // them on the driver's thread once they are done; every element does the same arithmetic
+  // on the same inputs as in the serial sweep, so the results are bit-identical. The driver's
+  // thread keeps the clock, the samples and the sink.
+  int threads = 1;
+};
+
 RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
-                    const ProgressFn& progress = {});
+                    const ProgressFn& progress = {}, const SweepOptions& sweep = {});
 
 }  // namespace freshet::network

@@ -77,6 +77,10 @@ class ReachElement final : public Element {
   std::unique_ptr<routing::ReachModel> reach_;
   std::optional<double> outlet_invert_m_;
   routing::BreakingWatch watch_;
+  // This step's forcing, kept between steps so that setting it allocates nothing.
+  PiecewiseLinearSeries inflow_ = PiecewiseLinearSeries::constant(0.0);
+  routing::LateralInflow lateral_ = routing::LateralInflow::none();
+  routing::LateralInflow no_lateral_ = routing::LateralInflow::none();
   double start_s_ = 0.0;
   double inflow_end_m3s_ = 0.0;  // upstream rate at the end of the last step
   long capacity_steps_ = 0;

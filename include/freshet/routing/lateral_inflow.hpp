@@ -23,6 +23,9 @@ class LateralInflow {
   static LateralInflow none();
   // One series over the whole reach [0, length_m].
   static LateralInflow uniform(double length_m, PiecewiseLinearSeries rate_m2s);
+  // Makes this uniform(length_m, constant(rate_m2s)), reusing its storage when it already is
+  // a constant rate over the same length (set at every coupling step by a network reach).
+  void set_uniform_constant(double length_m, double rate_m2s);
   // station_m: K+1 strictly increasing stations starting at 0; rate_m2s: K series.
   // Throws InputError (naming `what`) listing every problem found.
   LateralInflow(std::vector<double> station_m, std::vector<PiecewiseLinearSeries> rate_m2s,

@@ -41,6 +41,9 @@ struct RunRequest {
   // Along-reach profiles: every cell of these reaches at every output time, written to
   // <storm>_profiles.nc (CF timeSeries, one instance per cell, with reach id and chainage).
   std::vector<std::string> profile_reaches;
+  // Threads that advance this run's elements within each coupling step (network::SweepOptions):
+  // independent subtrees in parallel, results bit-identical to one thread.
+  int threads = 1;
 };
 
 // What report_run found (summary, peaks, reach numerics, element notes: run_report.hpp), with

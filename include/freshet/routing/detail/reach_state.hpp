@@ -48,7 +48,7 @@ struct ReachState {
                                       std::span<const double> areas) const noexcept {
     const double c_at_max = laws.front().celerity_m_s(max_area_m2);
     if (monotone) return c_at_max;
-    const double bound = envelope.bound(max_area_m2, c_at_max);
+    const double bound = envelope.bound(laws.front(), max_area_m2, c_at_max);
     if (bound >= 0.0) return bound;
     double c = 0.0;  // beyond the envelope table: evaluate every cell
     for (double a : areas) c = std::max(c, laws.front().celerity_m_s(a));
