@@ -34,6 +34,7 @@ inline const CLI::Validator kNonEmptyPath(
 
 void add_route_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_check_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_ensemble_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_compare_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_storm_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_verify_command(CLI::App& app, const GlobalOptions& global, Action& action);

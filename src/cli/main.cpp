@@ -116,7 +116,7 @@ int run_main(int argc, char** argv) {
   app.add_flag("-q,--quiet", global.quiet, "No progress messages on stderr");
   std::string format = "text";
   app.add_option("--format", format,
-                 "stdout of route, compare and check: text (default) or json (one JSON "
+                 "stdout of route, compare, check and ensemble: text (default) or json (one JSON "
                  "document: peaks, warnings, caution, files written, exit status)")
       ->check(CLI::IsMember({"text", "json"}));
   app.set_version_flag("-V,--version", version_text,
@@ -125,6 +125,7 @@ int run_main(int argc, char** argv) {
   add_route_command(app, global, action);
   add_check_command(app, global, action);
   add_compare_command(app, global, action);
+  add_ensemble_command(app, global, action);
   add_storm_command(app, global, action);
   add_verify_command(app, global, action);
   add_version_command(app, global, action);
@@ -137,7 +138,8 @@ int run_main(int argc, char** argv) {
   }
   const std::string command =
       app.get_subcommands().empty() ? std::string() : app.get_subcommands().front()->get_name();
-  if (format == "json" && (command == "route" || command == "compare" || command == "check")) {
+  if (format == "json" && (command == "route" || command == "compare" || command == "check" ||
+                           command == "ensemble")) {
     global.result = std::make_shared<freshet::io::CommandResult>();
     global.result->command = command;
   }

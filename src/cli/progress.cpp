@@ -20,8 +20,9 @@ std::string clock_text(double seconds) {
 }
 }  // namespace
 
-Progress::Progress(std::string label, bool quiet)
+Progress::Progress(std::string label, bool quiet, std::string measure)
     : label_(std::move(label)),
+      measure_(std::move(measure)),
       quiet_(quiet),
       terminal_(stderr_is_terminal()),
       start_(Clock::now()),
@@ -45,8 +46,8 @@ void Progress::update(double fraction) {
   } else {
     if (percent / 10 <= last_decile_) return;
     last_decile_ = percent / 10;
-    std::fprintf(stderr, "%s: %d%% of simulated time, elapsed %s, remaining %s\n",
-                 label_.c_str(), percent, clock_text(elapsed_s).c_str(),
+    std::fprintf(stderr, "%s: %d%% %s, elapsed %s, remaining %s\n", label_.c_str(), percent,
+                 measure_.c_str(), clock_text(elapsed_s).c_str(),
                  clock_text(remaining_s).c_str());
   }
   shown_ = true;

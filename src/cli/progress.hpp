@@ -13,7 +13,8 @@ namespace freshet::cli {
 
 class Progress {
  public:
-  Progress(std::string label, bool quiet);
+  // `measure`: what the percentage counts, in the plain lines ("of simulated time").
+  Progress(std::string label, bool quiet, std::string measure = "of simulated time");
   ~Progress();
   Progress(const Progress&) = delete;
   Progress& operator=(const Progress&) = delete;
@@ -25,6 +26,7 @@ class Progress {
  private:
   using Clock = std::chrono::steady_clock;
   std::string label_;
+  std::string measure_;
   bool quiet_;
   bool terminal_;
   bool shown_ = false;

@@ -50,6 +50,13 @@ std::string format_command_json(const CommandResult& r) {
   nlohmann::json runs = nlohmann::json::array();
   for (const CommandRun& run : r.runs) runs.push_back(run_json(run));
   j["runs"] = std::move(runs);
+  if (r.command == "ensemble") {
+    nlohmann::json ensembles = nlohmann::json::array();
+    for (const CommandEnsemble& e : r.ensembles) {
+      ensembles.push_back(nlohmann::json::parse(format_ensemble_json(e.summary, e.description)));
+    }
+    j["ensembles"] = std::move(ensembles);
+  }
   j["files"] = r.files;
   if (r.command == "check") {
     nlohmann::json facts = nlohmann::json::object();

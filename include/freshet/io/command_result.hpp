@@ -11,6 +11,7 @@
 #include <utility>
 #include <vector>
 
+#include "freshet/io/ensemble_writer.hpp"
 #include "freshet/reporting/summary.hpp"
 
 namespace freshet::io {
@@ -21,13 +22,20 @@ struct CommandRun {
   reporting::RunSummary summary;
 };
 
+// `ensemble`: one storm's summary of the members (the content of its <storm>_ensemble.json).
+struct CommandEnsemble {
+  uncertainty::EnsembleSummary summary;
+  EnsembleDescription description;
+};
+
 struct CommandResult {
-  std::string command;  // "route", "compare" or "check"
+  std::string command;  // "route", "compare", "check" or "ensemble"
   std::string basin;    // the basin file as given
   int exit_status = 0;
   std::string error;    // the failure's message when exit_status != 0
   std::vector<std::string> input_warnings;  // values outside their plausible ranges
   std::vector<CommandRun> runs;
+  std::vector<CommandEnsemble> ensembles;
   std::vector<std::string> files;  // written and renamed into place
   // `check`: what the file holds, e.g. {"title", ...}, {"units", "si"}.
   std::vector<std::pair<std::string, std::string>> facts;

@@ -22,6 +22,7 @@
 
 #include "freshet/core/error.hpp"
 #include "freshet/uncertainty/distribution.hpp"
+#include "freshet/uncertainty/ensemble_summary.hpp"
 #include "freshet/uncertainty/sampling.hpp"
 
 namespace freshet::study {
@@ -37,12 +38,20 @@ struct VariedParameter {
   int line = 0;                            // of its table in the basin file
 };
 
+// A level whose exceedance the outputs report ([[uncertainty.threshold]]): the probability that
+// a station's peak discharge or peak stage is above it. Value in SI (converted at load).
+struct ThresholdDefinition : uncertainty::Threshold {
+  int line = 0;  // of its table in the basin file
+};
+
 struct EnsembleDefinition {
   std::size_t members = 0;
+  int line = 0;  // of the [uncertainty] table
   uncertainty::SamplingMethod method = uncertainty::SamplingMethod::latin_hypercube;
   std::uint64_t seed = 0;
   std::vector<double> percentiles = {5.0, 50.0, 95.0};
   std::vector<VariedParameter> parameters;
+  std::vector<ThresholdDefinition> thresholds;
   uncertainty::SampleTable probabilities;  // [member][parameter], drawn at load
 };
 

@@ -6,12 +6,19 @@
 //
 //   EnsembleOutcome e = run_ensemble(study, {"", "aep1-60min", 2});
 //   e.stations[k].peak_discharge_m3s   // one value per member
+//
+// Running and collating are separate steps: route_member() routes one member and returns what
+// it left (MemberRecord, plain values), and collate_members() makes the outcome from the
+// records of every member, in member order. run_ensemble() is the two on a pool of threads; a
+// runner that spreads members over processes gathers their records and calls
+// collate_members() once.
 #pragma once
 
 #include <string>
 #include <vector>
 
 #include "freshet/study/study.hpp"
+#include "freshet/uncertainty/ensemble_summary.hpp"
 #include "freshet/study/study_run.hpp"
 
 namespace freshet::study {
@@ -22,13 +29,9 @@ struct EnsembleRequest {
   unsigned threads = 1;     // members routed at once; results do not depend on it
 };
 
-struct StationEnsemble {
-  std::string id;
-  // One value per member, in member order.
-  std::vector<double> peak_discharge_m3s;
-  std::vector<double> peak_stage_m;  // NaN where the element has no stage
-  std::vector<double> peak_time_s;
-  std::vector<double> outflow_volume_m3;
+// The member values (id, peak discharge, peak stage, time of peak, outflow volume: one value
+// per member, in member order; uncertainty/ensemble_summary.hpp) and the bands.
+struct StationEnsemble : uncertainty::MemberPeaks {
   // [percentile][output time]: pointwise bands.
   std::vector<std::vector<double>> discharge_band_m3s;
   std::vector<std::vector<double>> stage_band_m;
@@ -43,10 +46,33 @@ struct EnsembleOutcome {
   std::vector<StationEnsemble> stations;  // model order
 };
 
+// What one member's run leaves, per station in model order.
+struct MemberRecord {
+  std::vector<std::string> station_ids;
+  std::vector<double> times_s;                     // output times
+  std::vector<std::vector<double>> discharge_m3s;  // [station][output time]
+  std::vector<std::vector<double>> stage_m;        // NaN where the element has no stage
+  // Over every coupling step, not only the output times.
+  std::vector<double> peak_discharge_m3s, peak_stage_m, peak_time_s;
+  std::vector<double> outflow_volume_m3;
+};
+
+// Routes member `member` (0-based) in memory. Throws as run_ensemble.
+MemberRecord route_member(const Study& study, const EnsembleRequest& request, std::size_t member,
+                          const CancelFn& cancel = {});
+
+// The outcome from every member's record, in member order (at least one; all of one storm and
+// scenario, so the same stations and output times: FRESHET_ASSERT).
+EnsembleOutcome collate_members(const std::vector<MemberRecord>& members,
+                                const EnsembleRequest& request,
+                                const std::vector<double>& percentiles);
+
 // Throws InputError when the study has no [uncertainty] section or the storm/scenario is
 // unknown, NumericalError when a member's run fails (naming the member), RunInterrupted when
 // `cancel` returns true.
+// `progress` (called from the routing threads) receives the fraction of members routed.
 EnsembleOutcome run_ensemble(const Study& study, const EnsembleRequest& request,
-                             const CancelFn& cancel = {});
+                             const CancelFn& cancel = {},
+                             const network::ProgressFn& progress = {});
 
 }  // namespace freshet::study

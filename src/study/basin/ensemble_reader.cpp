@@ -134,14 +134,60 @@ uncertainty::Distribution read_distribution(FieldReader& r, VaryAs& as) {
   return uncertainty::Uniform{};  // unknown choice, already reported
 }
 
+// [[uncertainty.threshold]]: name, station, and one of stage or discharge (file units).
+std::vector<ThresholdDefinition> read_thresholds(const toml::table& root, FieldReader& r,
+                                                 units::System units) {
+  std::vector<ThresholdDefinition> out;
+  std::size_t index = 0;
+  for (const toml::node& node : items_of(r.optional_array("threshold"))) {
+    ++index;
+    const toml::table* t = node.as_table();
+    if (!t) {
+      r.report_item("threshold", index - 1, "must be a table");
+      continue;
+    }
+    FieldReader v(*t, r.file(), "uncertainty threshold[" + std::to_string(index) + "]",
+                  r.problems());
+    ThresholdDefinition d;
+    d.line = v.line();
+    d.name = v.text("name");
+    for (const ThresholdDefinition& earlier : out) {
+      if (!d.name.empty() && earlier.name == d.name) {
+        v.report("name", "= '" + d.name + "': another threshold has this name");
+      }
+    }
+    d.station_id = v.text("station");
+    if (!d.station_id.empty() && !find_element(root, d.station_id)) {
+      v.report("station", "= '" + d.station_id + "': names no element of the basin");
+    }
+    const bool stage = v.has("stage"), discharge = v.has("discharge");
+    if (stage == discharge) {
+      v.report_here("give one of 'stage' (a level, such as a road crest) or 'discharge' (a "
+                    "capacity, such as a pipe's)");
+      v.consume_all();
+    } else if (stage) {
+      d.quantity = uncertainty::PeakQuantity::stage;
+      d.value_si = units::length_to_m(v.number("stage"), units);
+    } else {
+      d.quantity = uncertainty::PeakQuantity::discharge;
+      d.value_si = units::discharge_to_m3s(v.positive("discharge"), units);
+    }
+    v.finish();
+    out.push_back(std::move(d));
+  }
+  return out;
+}
+
 }  // namespace
 
 std::optional<EnsembleDefinition> read_ensemble(const toml::table& root, const std::string& file,
+                                                units::System units,
                                                 std::vector<Problem>& problems) {
   const toml::table* section = root.get_as<toml::table>("uncertainty");
   if (!section) return std::nullopt;
   FieldReader r(*section, file, "uncertainty", problems);
   EnsembleDefinition e;
+  e.line = r.line();
   e.members = static_cast<std::size_t>(r.integer("members", 1));
   if (e.members > 100000) {
     r.report("members", "= " + std::to_string(e.members) + ": at most 100000");
@@ -229,6 +275,7 @@ std::optional<EnsembleDefinition> read_ensemble(const toml::table& root, const s
     v.finish();
     e.parameters.push_back(std::move(p));
   }
+  e.thresholds = read_thresholds(root, r, units);
   r.finish();
   if (e.members > 0 && !e.parameters.empty()) {
     e.probabilities =

@@ -10,6 +10,7 @@
 #include <toml++/toml.h>
 
 #include "freshet/core/error.hpp"
+#include "freshet/core/units.hpp"
 #include "freshet/study/ensemble.hpp"
 
 namespace freshet::study::detail {
@@ -19,7 +20,9 @@ const toml::table* find_element(const toml::table& root, std::string_view id);
 
 // Reads [uncertainty] (nullopt when the file has none) and draws the members' probabilities.
 // Problems name the file, line, "uncertainty" or "uncertainty vary[k]", and the field.
+// Threshold values are converted from the file's `units` to SI.
 std::optional<EnsembleDefinition> read_ensemble(const toml::table& root, const std::string& file,
+                                                units::System units,
                                                 std::vector<Problem>& problems);
 
 // The changes of `scenario_changes` (may be null) with every varied parameter set from

@@ -668,7 +668,7 @@ Study Study::load(const std::filesystem::path& basin_file) {
                                            impl->settings, impl->storms, element_ids, problems);
   }
   const std::size_t before_ensemble = problems.size();
-  impl->ensemble = detail::read_ensemble(impl->root, impl->file, problems);
+  impl->ensemble = detail::read_ensemble(impl->root, impl->file, impl->settings.units, problems);
   const bool ensemble_sound = problems.size() == before_ensemble;
   if (!impl->root.get("storm")) {
     problems.push_back({impl->file, 0, 0, "", "storm", "no [[storm]] is defined"});
