@@ -117,6 +117,7 @@ void RunRecorder::observe(double time_s, std::span<const network::StationSample>
     acc_[i].add_sample(time_s, s.discharge_m3s, s.stage_m);
     if (acc_[i].sample_count() == 1 || acc_[i].peak_time_s() != peak_time_before) {
       at_peak_[i] = s;
+      watch_->mark_peak(i);
     }
     inflow_[i].add_sample(time_s, s.inflow_m3s);
     lateral_[i].add_sample(time_s, s.lateral_inflow_m3s);

@@ -3,6 +3,7 @@
 #include <cmath>
 #include <limits>
 
+#include "freshet/core/error.hpp"
 #include "freshet/network/element.hpp"
 #include "freshet/reporting/reported_as.hpp"
 
@@ -12,27 +13,46 @@ namespace {
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 }  // namespace
 
-void DecimatedSeries::add(double t_s, double value) {
-  if (count_++ % stride_ != 0) return;
-  t_s_.push_back(t_s);
-  value_.push_back(value);
-  if (t_s_.size() < kCapacity) return;
-  std::size_t kept = 0;
-  for (std::size_t k = 0; k < t_s_.size(); k += 2, ++kept) {
-    t_s_[kept] = t_s_[k];
-    value_[kept] = value_[k];
-  }
-  t_s_.resize(kept);
-  value_.resize(kept);
-  stride_ *= 2;
+// start + 5 % of the rise to the peak: never lower for a higher peak (each rounding is
+// monotone), which the rise tracker's pruning relies on.
+double rise_threshold(double start, double peak) { return start + 0.05 * (peak - start); }
+
+void RiseTracker::add(double t_s, double value) {
+  if (std::isnan(first_t_s_)) first_t_s_ = t_s;
+  while (!since_.empty() && since_.back().value >= value) since_.pop_back();
+  since_.push_back({t_s, value});
+  if (since_.size() > kCapacity) thin(since_);
+  last_value_ = value;
 }
 
-double DecimatedSeries::last_time_at_or_below(double threshold, double until_s) const {
-  double found = t_s_.empty() ? kNaN : t_s_.front();
-  for (std::size_t k = 0; k < t_s_.size() && t_s_[k] <= until_s; ++k) {
-    if (value_[k] <= threshold) found = t_s_[k];
+void RiseTracker::mark_peak(double floor) {
+  FRESHET_ASSERT(!since_.empty(), "a peak is a sample just added");
+  const double lowest_since = since_.front().value;
+  while (!lows_.empty() && lows_.back().value >= lowest_since) lows_.pop_back();
+  lows_.insert(lows_.end(), since_.begin(), since_.end());
+  peak_time_s_ = since_.back().t_s;
+  since_.clear();
+  // Keep the last entry at or below the floor and everything above it.
+  std::size_t last_low = 0;
+  while (last_low + 1 < lows_.size() && lows_[last_low + 1].value <= floor) ++last_low;
+  lows_.erase(lows_.begin(), lows_.begin() + static_cast<std::ptrdiff_t>(last_low));
+  if (lows_.size() > kCapacity) thin(lows_);
+}
+
+// Every other entry between the oldest and the newest, which stay: the oldest is the lowest
+// (in lows_, the last one at or below the floor; in since_, the lowest since the peak).
+void RiseTracker::thin(std::vector<Low>& lows) {
+  std::size_t kept = 1;
+  for (std::size_t k = 2; k + 1 < lows.size(); k += 2) lows[kept++] = lows[k];
+  lows[kept++] = lows.back();
+  lows.resize(kept);
+}
+
+double RiseTracker::last_time_at_or_below(double threshold) const {
+  for (auto it = lows_.rbegin(); it != lows_.rend(); ++it) {
+    if (it->value <= threshold) return it->t_s;
   }
-  return found;
+  return first_t_s_;
 }
 
 RunWatch::RunWatch(const network::Model& model, const std::vector<StationDescription>& stations)
@@ -40,7 +60,7 @@ RunWatch::RunWatch(const network::Model& model, const std::vector<StationDescrip
       area_m2_(stations.size(), 0.0),
       excess_m3_(stations.size(), 0.0),
       excess_moment_(stations.size(), 0.0),
-      series_(stations.size()),
+      rises_(stations.size()),
       start_m3s_(stations.size(), 0.0),
       tracked_(stations.size(), false),
       pond_below_(stations.size(), -1),
@@ -75,7 +95,7 @@ void RunWatch::observe(double t_s, std::span<const network::StationSample> sampl
       excess_moment_[i] += v * (t_s - 0.5 * dt_s);
     }
     if (!started_) start_m3s_[i] = samples[i].discharge_m3s;
-    if (tracked_[i]) series_[i].add(t_s, samples[i].discharge_m3s);
+    if (tracked_[i]) rises_[i].add(t_s, samples[i].discharge_m3s);
     if (pond_below_[i] >= 0) {
       const double excess =
           samples[static_cast<std::size_t>(pond_below_[i])].stage_m - samples[i].stage_m;
@@ -98,10 +118,16 @@ double RunWatch::excess_centroid_s(std::size_t i) const {
   return volume > 0.0 ? moment / volume : kNaN;
 }
 
+void RunWatch::mark_peak(std::size_t i) {
+  if (!tracked_[i]) return;
+  rises_[i].mark_peak(rise_threshold(start_m3s_[i], rises_[i].last_value()));
+}
+
 double RunWatch::rise_start_s(std::size_t i, double peak_time_s, double peak_m3s) const {
-  const double threshold = start_m3s_[i] + 0.05 * (peak_m3s - start_m3s_[i]);
   if (!tracked_[i]) return kNaN;
-  return series_[i].last_time_at_or_below(threshold, peak_time_s);
+  FRESHET_ASSERT(std::isnan(peak_time_s) || peak_time_s == rises_[i].peak_time_s(),
+                 "the rise start is asked for the peak last marked");
+  return rises_[i].last_time_at_or_below(rise_threshold(start_m3s_[i], peak_m3s));
 }
 
 }  // namespace freshet::reporting::detail

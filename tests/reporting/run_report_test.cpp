@@ -227,6 +227,59 @@ TEST(RunReport, ACouplingStepLongerThanHalfTheRiseIsPointedOut) {
   }
 }
 
+// The start of the rising limb (rise_duration_s: from the last sample within 5 % of the rise
+// to the peak) from samples handed straight to the recorder. A linear rise q = 1 + t/300 m3/s
+// to 21 m3/s: the threshold 1 + 0.05 x 20 = 2 m3/s is crossed at t = 300 s (closed form of
+// the line), so the rise lasts 6000 - 300 = 5700 s, with 100 samples on the rise or 2000.
+TEST(RunRecorder, RiseStartOfALinearRiseIsWhereItCrossesFivePercent) {
+  for (const double step_s : {60.0, 3.0}) {
+    Network n = inflow_reach_outlet(PiecewiseLinearSeries::constant(1.0),
+                                    geometry::RectangularSpec{4.0, 0.035}, 0.005);
+    RunRecorder recorder(n.model, n.stations);
+    std::vector<network::StationSample> samples(3);
+    const auto steps = static_cast<long>(9000.0 / step_s);
+    for (long k = 0; k <= steps; ++k) {
+      const double t = static_cast<double>(k) * step_s;
+      samples[1].discharge_m3s = t <= 6000.0 ? 1.0 + t / 300.0 : 21.0 - (t - 6000.0) / 300.0;
+      recorder.observe(t, samples);
+    }
+    EXPECT_DOUBLE_EQ(recorder.rise_duration_s(1), 5700.0) << "step " << step_s << " s";
+  }
+}
+
+// Two waves, the second the higher, with a recession between them that stays above the
+// threshold of the final peak: the rise starts on the first wave. Checked against the
+// definition applied to the whole series kept in the test, and by hand: q rises from 1 to 10
+// over 0-900 s (q = 1 + t/100), falls to 3 at 1500 s, rises to 21 at 3300 s, then falls;
+// the threshold 1 + 0.05 x 20 = 2 is last met at t = 100 s.
+TEST(RunRecorder, RiseStartLooksBackOverAnEarlierWave) {
+  Network n = inflow_reach_outlet(PiecewiseLinearSeries::constant(1.0),
+                                  geometry::RectangularSpec{4.0, 0.035}, 0.005);
+  RunRecorder recorder(n.model, n.stations);
+  const auto q = [](double t) {
+    if (t <= 900.0) return 1.0 + t / 100.0;
+    if (t <= 1500.0) return 10.0 - (t - 900.0) * 7.0 / 600.0;
+    if (t <= 3300.0) return 3.0 + (t - 1500.0) / 100.0;
+    return 21.0 - (t - 3300.0) / 300.0;
+  };
+  std::vector<network::StationSample> samples(3);
+  std::vector<double> times, values;
+  for (double t = 0.0; t <= 9000.0; t += 20.0) {
+    samples[1].discharge_m3s = q(t);
+    times.push_back(t);
+    values.push_back(q(t));
+    recorder.observe(t, samples);
+  }
+  const auto peak = std::max_element(values.begin(), values.end()) - values.begin();
+  const double threshold = values.front() + 0.05 * (values[static_cast<std::size_t>(peak)] - values.front());
+  double start_s = times.front();
+  for (std::ptrdiff_t k = 0; k <= peak; ++k) {
+    if (values[static_cast<std::size_t>(k)] <= threshold) start_s = times[static_cast<std::size_t>(k)];
+  }
+  EXPECT_DOUBLE_EQ(start_s, 100.0);
+  EXPECT_DOUBLE_EQ(recorder.rise_duration_s(1), 3300.0 - start_s);
+}
+
 // A reach draining into a pond: inflow -> reach (outlet invert given or not) -> detention
 // basin (prismatic, bottom at 99 m, one circular orifice at its floor) -> outlet.
 Network reach_into_pond(std::optional<double> reach_invert_m, double orifice_diameter_m) {
