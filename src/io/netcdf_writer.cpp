@@ -118,7 +118,8 @@ std::string normalise_time_origin(std::string_view s) {
 }
 
 void validate(const NetcdfRunMetadata& m, const InstanceSet& set,
-              const std::vector<OutputVariable>& variables) {
+              const std::vector<OutputVariable>& variables,
+              const std::vector<double>& percentiles) {
   ProblemList p("NetCDF output");
   if (m.title.empty()) p.add("title", "is empty: a title is required");
   if (m.source.empty()) p.add("source", "is empty: the freshet version string is required");
@@ -128,6 +129,13 @@ void validate(const NetcdfRunMetadata& m, const InstanceSet& set,
                              "': must be YYYY-MM-DD or YYYY-MM-DDThh:mm:ss[Z] (UTC)");
   }
   if (set.instances.empty()) p.add("instances", "is empty: at least one is required");
+  for (std::size_t k = 0; k < percentiles.size(); ++k) {
+    const double q = percentiles[k];
+    if (!(q >= 0.0 && q <= 100.0) || (k > 0 && !(q > percentiles[k - 1]))) {
+      p.add("percentiles", "must increase within [0, 100]");
+      break;
+    }
+  }
   if (variables.empty()) p.add("variables", "is empty: at least one is required");
   std::set<std::string> ids;
   for (std::size_t i = 0; i < set.instances.size(); ++i) {
@@ -165,6 +173,10 @@ struct NetcdfTimeSeriesWriter::Impl {
   std::vector<nc::NcVar> data_vars;
   std::vector<double> from_si;
   std::size_t n_instances = 0;
+  // Values per instance in a record: 1, or the number of percentiles of an ensemble's bands.
+  std::size_t n_percentiles = 1;
+  nc::NcDim percentile_dim;  // null without percentiles
+  [[nodiscard]] std::size_t row_width() const { return n_instances * n_percentiles; }
   std::size_t records = 0;
   // Records not yet written: block_rows rows (one chunk's length) of each variable, the rows
   // of variable v from block[v * block_rows * n_instances]; records from block_start on.
@@ -177,7 +189,9 @@ struct NetcdfTimeSeriesWriter::Impl {
   std::chrono::steady_clock::time_point last_sync;
 
   void define(const NetcdfRunMetadata& m, const InstanceSet& set,
-              const std::vector<OutputVariable>& variables);
+              const std::vector<OutputVariable>& variables,
+              const std::vector<double>& percentiles);
+  void define_percentiles(const std::vector<double>& percentiles);
   void put_global_attributes(const NetcdfRunMetadata& m);
   std::string define_instance_variables(const InstanceSet& set, const nc::NcDim& dim);
   void define_geographic_variables(const std::string& k);
@@ -295,16 +309,21 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
                                                         const nc::NcDim& dim,
                                                         const std::string& coordinates) {
   const VariableSpec& s = spec(v);
-  auto var = file->addVar(std::string(s.name), nc::ncFloat, std::vector<nc::NcDim>{time_dim, dim});
+  std::vector<nc::NcDim> dims{time_dim, dim};
   const std::size_t width = std::min<std::size_t>(n_instances, 16384);
   const std::size_t length = chunk_rows(n_instances);
   std::vector<size_t> chunks{length, width};
+  if (!percentile_dim.isNull()) {
+    dims.push_back(percentile_dim);
+    chunks.push_back(n_percentiles);
+  }
+  auto var = file->addVar(std::string(s.name), nc::ncFloat, dims);
   var.setChunking(nc::NcVar::nc_CHUNKED, chunks);
   var.setCompression(true, options.deflate_level > 0, options.deflate_level);
   var.setFill(true, kFillFloat);
   // A chunk cache of two chunks keeps memory flat: filled chunks are written out and evicted
   // instead of accumulating in the 16 MiB default cache (netCDF-C, nc_set_var_chunk_cache).
-  var.setChunkCache(2 * length * width * sizeof(float), 31, 1.0f);
+  var.setChunkCache(2 * length * width * n_percentiles * sizeof(float), 31, 1.0f);
   std::string long_name(s.long_name);
   if (v == OutputVariable::stage) {
     if (set.stage_datum.empty()) {
@@ -322,6 +341,10 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   } else if (!s.standard_name.empty()) {
     var.putAtt("standard_name", std::string(s.standard_name));
   }
+  if (!percentile_dim.isNull()) {
+    long_name += "; pointwise percentile over the ensemble members (at each time and " +
+                 std::string(to_string(set.kind)) + " separately: no member need follow it)";
+  }
   var.putAtt("long_name", long_name);
   var.putAtt("units", std::string(s.units));
   var.putAtt("coordinates", coordinates);
@@ -336,8 +359,20 @@ void NetcdfTimeSeriesWriter::Impl::define_data_variable(OutputVariable v, const 
   from_si.push_back(s.from_si);
 }
 
+// The percentile dimension of an ensemble's bands and its coordinate variable: a plain number
+// in percent (CF 1.11 has no standard name for a percentile; UDUNITS-2 knows "percent").
+void NetcdfTimeSeriesWriter::Impl::define_percentiles(const std::vector<double>& percentiles) {
+  n_percentiles = percentiles.size();
+  percentile_dim = file->addDim("percentile", n_percentiles);
+  auto var = file->addVar("percentile", nc::ncDouble, percentile_dim);
+  var.putAtt("long_name", "percentile of the ensemble members (Hyndman & Fan 1996 definition 7)");
+  var.putAtt("units", "percent");
+  var.putVar(percentiles.data());
+}
+
 void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const InstanceSet& set,
-                                          const std::vector<OutputVariable>& variables) {
+                                          const std::vector<OutputVariable>& variables,
+                                          const std::vector<double>& percentiles) {
   n_instances = set.instances.size();
   // newFile (NC_NOCLOBBER): the temporary name is unique, and never taken over from another.
   file = std::make_unique<OwnedNcFile>(output.partial_path().string(), nc::NcFile::newFile,
@@ -367,13 +402,14 @@ void NetcdfTimeSeriesWriter::Impl::define(const NetcdfRunMetadata& m, const Inst
     time_var.putAtt("bounds", "time_bnds");
   }
   const std::string coordinates = define_instance_variables(set, dim);
+  if (!percentiles.empty()) define_percentiles(percentiles);
   for (const auto v : variables) define_data_variable(v, set, time_dim, dim, coordinates);
   put_global_attributes(m);
   write_instance_values(set);
   // At most 4 MiB of buffered values per variable (one chunk's rows, fewer for wide files).
-  block_rows = std::clamp<std::size_t>((std::size_t{1} << 20) / n_instances, 1,
+  block_rows = std::clamp<std::size_t>((std::size_t{1} << 20) / row_width(), 1,
                                        chunk_rows(n_instances));
-  block.assign(variables.size() * block_rows * n_instances, 0.0f);
+  block.assign(variables.size() * block_rows * row_width(), 0.0f);
   block_times.reserve(block_rows);
   block_bounds.reserve(2 * block_rows);
 }
@@ -422,9 +458,10 @@ void NetcdfTimeSeriesWriter::Impl::write_record(double time_s, std::span<const d
   block_bounds.push_back(records == 0 ? time_s : last_time_s);
   block_bounds.push_back(time_s);
   for (std::size_t v = 0; v < data_vars.size(); ++v) {
-    float* row = &block[(v * block_rows + row_in_block) * n_instances];
-    for (std::size_t i = 0; i < n_instances; ++i) {
-      const double value = values[v * n_instances + i];
+    const std::size_t width = row_width();
+    float* row = &block[(v * block_rows + row_in_block) * width];
+    for (std::size_t i = 0; i < width; ++i) {
+      const double value = values[v * width + i];
       row[i] = std::isfinite(value) ? static_cast<float>(value * from_si[v]) : kFillFloat;
     }
   }
@@ -439,8 +476,12 @@ void NetcdfTimeSeriesWriter::Impl::flush_block() {
   time_var.putVar({block_start}, {rows}, block_times.data());
   if (!bounds_var.isNull()) bounds_var.putVar({block_start, 0}, {rows, 2}, block_bounds.data());
   for (std::size_t v = 0; v < data_vars.size(); ++v) {
-    data_vars[v].putVar({block_start, 0}, {rows, n_instances},
-                        &block[v * block_rows * n_instances]);
+    const float* first = &block[v * block_rows * row_width()];
+    if (percentile_dim.isNull()) {
+      data_vars[v].putVar({block_start, 0}, {rows, n_instances}, first);
+    } else {
+      data_vars[v].putVar({block_start, 0, 0}, {rows, n_instances, n_percentiles}, first);
+    }
   }
   block_start = records;
   block_times.clear();
@@ -466,12 +507,13 @@ NetcdfTimeSeriesWriter::~NetcdfTimeSeriesWriter() {
 }
 
 void NetcdfTimeSeriesWriter::begin(const NetcdfRunMetadata& metadata, const InstanceSet& instances,
-                                   std::vector<OutputVariable> variables) {
+                                   std::vector<OutputVariable> variables,
+                                   std::vector<double> percentiles) {
   FRESHET_ASSERT(!impl_->file, "NetcdfTimeSeriesWriter::begin called twice");
-  validate(metadata, instances, variables);
+  validate(metadata, instances, variables, percentiles);
   std::lock_guard lock(netcdf_global_mutex());
   try {
-    impl_->define(metadata, instances, variables);
+    impl_->define(metadata, instances, variables, percentiles);
     impl_->file->sync();
   } catch (const nc::exceptions::NcException& e) {
     rethrow_as_io_error(impl_->output.final_path(), e);
@@ -482,8 +524,8 @@ void NetcdfTimeSeriesWriter::begin(const NetcdfRunMetadata& metadata, const Inst
 void NetcdfTimeSeriesWriter::record(double time_s, std::span<const double> values) {
   Impl& m = *impl_;
   FRESHET_ASSERT(m.file, "NetcdfTimeSeriesWriter::record before begin or after commit");
-  FRESHET_ASSERT(values.size() == m.data_vars.size() * m.n_instances,
-                 "record: values must hold n_variables * n_instances entries");
+  FRESHET_ASSERT(values.size() == m.data_vars.size() * m.row_width(),
+                 "record: values must hold n_variables * n_instances (* n_percentiles) entries");
   FRESHET_ASSERT(std::isfinite(time_s) && (m.records == 0 || time_s > m.last_time_s),
                  "record: output times must be finite and strictly increasing");
   {

@@ -5,7 +5,10 @@
 #include "freshet/core/error.hpp"
 #include "freshet/io/csv_table.hpp"
 #include "freshet/io/ensemble_writer.hpp"
+#include "freshet/io/netcdf_writer.hpp"
+#include "freshet/reporting/reported_as.hpp"
 #include "freshet/study/study_run.hpp"
+#include "run_metadata.hpp"
 
 namespace freshet::study {
 namespace {
@@ -20,6 +23,54 @@ std::filesystem::path folder_of(const std::filesystem::path& out_dir,
 
 std::filesystem::path stem_of(const std::filesystem::path& folder, const std::string& storm_id) {
   return folder / (storm_id + "_ensemble");
+}
+
+std::filesystem::path bands_path(const std::filesystem::path& stem) {
+  return stem.string() + "_bands.nc";
+}
+
+// The percentile hydrographs of discharge and stage at every station that is not a
+// subcatchment (the stations of a run's <storm>.nc), as CF timeSeries with a percentile
+// dimension. Nothing is written when the network has no such station.
+void write_bands(const Study& study, const EnsembleOutcome& e, const EnsembleOutputRequest& request,
+                 const std::filesystem::path& path, io::OutputSet& set) {
+  const std::vector<StationDescription> stations = study.stations(e.scenario_id);
+  FRESHET_ASSERT(stations.size() == e.stations.size(), "ensemble stations and study stations differ");
+  std::vector<std::size_t> index;
+  for (std::size_t i = 0; i < stations.size(); ++i) {
+    FRESHET_ASSERT(stations[i].id == e.stations[i].id, "ensemble stations out of model order");
+    if (!reporting::is_subcatchment(stations[i].kind)) index.push_back(i);
+  }
+  if (index.empty()) return;
+  RunRequest run;
+  run.scenario_id = e.scenario_id;
+  run.storm_id = e.storm_id;
+  run.history = request.history;
+  run.source = request.source;
+  io::NetcdfRunMetadata m = detail::run_metadata(study, run, "ensemble percentile bands");
+  m.summary = "Pointwise percentiles over " + std::to_string(e.members) +
+              " ensemble members (the [uncertainty] section of " + study.file().string() +
+              ") of the discharge and stage computed by freshet";
+  m.keywords += ", ensemble, uncertainty, percentile";
+  io::NetcdfWriterOptions options;
+  options.overwrite = request.overwrite;
+  options.set = &set;
+  io::NetcdfTimeSeriesWriter out(path, options);
+  out.begin(m, detail::run_instances(stations, index, io::InstanceKind::station),
+            {io::OutputVariable::discharge, io::OutputVariable::stage}, e.percentiles);
+  const std::size_t n = index.size(), np = e.percentiles.size();
+  std::vector<double> row(2 * n * np);
+  for (std::size_t t = 0; t < e.times_s.size(); ++t) {
+    for (std::size_t k = 0; k < n; ++k) {
+      const StationEnsemble& s = e.stations[index[k]];
+      for (std::size_t p = 0; p < np; ++p) {
+        row[k * np + p] = s.discharge_band_m3s[p][t];
+        row[(n + k) * np + p] = s.stage_band_m[p][t];
+      }
+    }
+    out.record(e.times_s[t], row);
+  }
+  out.commit();
 }
 
 }  // namespace
@@ -50,9 +101,9 @@ void check_ensemble_study(const Study& study) {
 std::vector<std::filesystem::path> planned_ensemble_files(const std::filesystem::path& out_dir,
                                                           const std::string& scenario_id,
                                                           const std::string& storm_id) {
-  std::vector<std::filesystem::path> out;
-  for (const auto& p :
-       io::ensemble_table_paths(stem_of(folder_of(out_dir, scenario_id), storm_id))) {
+  const std::filesystem::path stem = stem_of(folder_of(out_dir, scenario_id), storm_id);
+  std::vector<std::filesystem::path> out{bands_path(stem)};
+  for (const auto& p : io::ensemble_table_paths(stem)) {
     out.push_back(p);
     if (p.extension() == ".csv") out.push_back(io::csv_metadata_path(p));
   }
@@ -92,6 +143,7 @@ EnsembleWritten write_ensemble_outputs(const Study& study,
   }
   const std::filesystem::path stem = stem_of(lock->folder(), outcome.storm_id);
   io::OutputSet set(lock->folder(), outcome.storm_id + "_ensemble", request.overwrite);
+  write_bands(study, outcome, request, bands_path(stem), set);
   const std::vector<uncertainty::MemberPeaks> members(outcome.stations.begin(),
                                                       outcome.stations.end());
   const auto paths =

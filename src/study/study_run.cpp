@@ -1,5 +1,6 @@
 #include "freshet/study/study_run.hpp"
 #include "observed_compare.hpp"
+#include "run_metadata.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -210,7 +211,12 @@ void add_discovery_attributes(const StudySettings& s, const RunRequest& req, Net
   m.creator_institution = s.creator_institution;
 }
 
-NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std::string& what) {
+}  // namespace
+
+namespace detail {
+
+NetcdfRunMetadata run_metadata(const Study& study, const RunRequest& req,
+                               const std::string& what) {
   NetcdfRunMetadata m;
   m.title = study.settings().title + " - " + what + ", storm " + req.storm_id +
             (req.scenario_id.empty() ? ", base" : ", scenario " + req.scenario_id);
@@ -225,9 +231,8 @@ NetcdfRunMetadata metadata(const Study& study, const RunRequest& req, const std:
   return m;
 }
 
-InstanceSet instances(const std::vector<StationDescription>& stations,
-                      const std::vector<std::size_t>& index,
-                      io::InstanceKind kind) {
+InstanceSet run_instances(const std::vector<StationDescription>& stations,
+                          const std::vector<std::size_t>& index, io::InstanceKind kind) {
   InstanceSet set;
   set.kind = kind;
   for (std::size_t i : index) {
@@ -243,7 +248,7 @@ InstanceSet instances(const std::vector<StationDescription>& stations,
   return set;
 }
 
-}  // namespace
+}  // namespace detail
 
 std::filesystem::path run_folder(const RunRequest& request) {
   return request.out_dir / (request.scenario_id.empty() ? "base" : request.scenario_id);
@@ -514,8 +519,8 @@ void open_run_files(const Study& study,
   nc.set = &results;
   if (!sink.channel_index().empty()) {
     files.stations.emplace(RunPaths{folder, req.storm_id}.stations_nc(), nc);
-    files.stations->begin(metadata(study, req, "stations"),
-                          instances(stations, sink.channel_index(), io::InstanceKind::station),
+    files.stations->begin(detail::run_metadata(study, req, "stations"),
+                          detail::run_instances(stations, sink.channel_index(), io::InstanceKind::station),
                           {OutputVariable::discharge,
                            OutputVariable::stage,
                            OutputVariable::depth,
@@ -523,8 +528,8 @@ void open_run_files(const Study& study,
   }
   if (!sink.sub_index().empty()) {
     files.subcatchments.emplace(RunPaths{folder, req.storm_id}.subcatchments_nc(), nc);
-    files.subcatchments->begin(metadata(study, req, "subcatchments"),
-                               instances(stations, sink.sub_index(), io::InstanceKind::subcatchment),
+    files.subcatchments->begin(detail::run_metadata(study, req, "subcatchments"),
+                               detail::run_instances(stations, sink.sub_index(), io::InstanceKind::subcatchment),
                                {OutputVariable::discharge,
                                 OutputVariable::rainfall_intensity,
                                 OutputVariable::rainfall_excess});
@@ -535,7 +540,7 @@ void open_run_files(const Study& study,
   files.profile_cells.emplace(model, req.profile_reaches);
   files.profiles.emplace(RunPaths{folder, req.storm_id}.profiles_nc(), nc);
   files.profiles->begin(
-      metadata(study, req, "along-reach profiles"),
+      detail::run_metadata(study, req, "along-reach profiles"),
       files.profile_cells->instances(),
       {OutputVariable::discharge, OutputVariable::depth, OutputVariable::velocity});
   sink.after_record = [&files](double t) { files.profile_cells->write(*files.profiles, t); };

@@ -102,7 +102,7 @@ void expect_cf_timeseries(const nc::NcFile& f) {
       EXPECT_EQ(text_att(f.getVar("time"), "bounds"), "time_bnds");
       continue;
     }
-    if (var.getDimCount() == 2) {  // a data variable (time, instance)
+    if (var.getDimCount() >= 2) {  // a data variable (time, instance[, percentile])
       // CF 1.11 sec. 7.3: every data variable says whether it is a value at the stamp or a
       // mean over the interval ending there; a mean needs the time bounds.
       const std::string method = text_att(var, "cell_methods");
@@ -249,6 +249,67 @@ TEST(NetcdfWriter, RecordsWrittenInBlocksReadBackExactly) {
   nc_free_string(n, ids.data());
   nc_free_string(n, reaches.data());
   EXPECT_TRUE(f.getVars().count("x") == 0);  // no coordinates given, none written
+}
+
+// An ensemble's bands: every data variable gains a third dimension, `percentile` (time,
+// station, percentile), whose coordinate variable holds the percentiles in percent (a unit of
+// UDUNITS-2); the values read back exactly in that layout, and percentiles that do not
+// increase within [0, 100] are refused with the other metadata problems.
+TEST(NetcdfWriter, PercentileBandsGainAPercentileDimension) {
+  TempDir dir;
+  const auto path = dir / "bands.nc";
+  const std::vector<double> percentiles{5.0, 50.0, 95.0};
+  const std::vector<OutputVariable> vars{OutputVariable::discharge, OutputVariable::stage};
+  const std::size_t n = 3, np = 3, records = 4;
+  const auto band = [](std::size_t v, std::size_t k, std::size_t i, std::size_t p) {
+    return value(v, k, i) + 0.25 * static_cast<double>(p);
+  };
+  {
+    NetcdfTimeSeriesWriter w(path);
+    w.begin(metadata(), three_stations(), vars, percentiles);
+    std::vector<double> row(vars.size() * n * np);
+    for (std::size_t k = 0; k < records; ++k) {
+      for (std::size_t v = 0; v < vars.size(); ++v) {
+        for (std::size_t i = 0; i < n; ++i) {
+          for (std::size_t p = 0; p < np; ++p) row[(v * n + i) * np + p] = band(v, k, i, p);
+        }
+      }
+      w.record(60.0 * static_cast<double>(k), row);
+    }
+    w.commit();
+  }
+  std::lock_guard lock(netcdf_global_mutex());
+  nc::NcFile f(path.string(), nc::NcFile::read);
+  expect_cf_timeseries(f);
+  const nc::NcVar pct = f.getVar("percentile");
+  ASSERT_FALSE(pct.isNull());
+  EXPECT_EQ(text_att(pct, "units"), "percent");
+  std::vector<double> stored(np);
+  pct.getVar(stored.data());
+  EXPECT_EQ(stored, percentiles);
+  for (std::size_t v = 0; v < vars.size(); ++v) {
+    const nc::NcVar var = f.getVar(std::string(to_string(vars[v])));
+    ASSERT_EQ(var.getDimCount(), 3);
+    EXPECT_EQ(var.getDim(1).getName(), "station");
+    EXPECT_EQ(var.getDim(2).getName(), "percentile");
+    EXPECT_THAT(text_att(var, "long_name"), HasSubstr("percentile over the ensemble members"));
+    std::vector<float> data(records * n * np);
+    var.getVar(data.data());
+    for (std::size_t k = 0; k < records; ++k) {
+      for (std::size_t i = 0; i < n; ++i) {
+        for (std::size_t p = 0; p < np; ++p) {
+          EXPECT_EQ(data[(k * n + i) * np + p], static_cast<float>(band(v, k, i, p)));
+        }
+      }
+    }
+  }
+  NetcdfTimeSeriesWriter bad(dir / "bad.nc");
+  try {
+    bad.begin(metadata(), three_stations(), vars, {50.0, 5.0});
+    FAIL() << "decreasing percentiles accepted";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("field 'percentiles' must increase within [0, 100]"));
+  }
 }
 
 TEST(NetcdfWriter, DataAreChunkedAlongTimeAndDeflated) {

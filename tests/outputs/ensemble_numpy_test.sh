@@ -3,7 +3,8 @@
 # convergence table and the JSON) against numpy.percentile (its default, linear, is Hyndman &
 # Fan 1996 definition 7) on the same members, read from the members CSV; each threshold's
 # exceedance against a count made here on those members; every CSV loads in pandas with no
-# options and has the columns its sidecar lists; --format json holds the same summary.
+# options and has the columns its sidecar lists; --format json holds the same summary; the
+# percentile hydrographs in <storm>_ensemble_bands.nc read back with xarray (below).
 # usage: ensemble_numpy_test.sh FRESHET SOURCE_DIR SCRATCH_DIR
 set -eu
 freshet=$1; src=$2; scratch=$3
@@ -72,6 +73,35 @@ for _, t in exc.iterrows():
     count = int((values > level).sum())
     assert t.members_above == count and t.members == n, (t, count)
     assert close(t.probability, count / n), (t, count)
+# The percentile hydrographs (<stem>_bands.nc), read back with xarray: a percentile dimension
+# with its coordinate in percent, CF attributes and the caution; the pointwise bands are
+# ordered (p5 <= p50 <= p95 at every time), and since each member's value at a time is at most
+# its peak, the q-th pointwise band never rises above the q-th percentile of the peaks in the
+# percentiles CSV (float32 in the file: 1e-5 relative).
+import xarray as xr
+ds = xr.open_dataset(stem + "_bands.nc")
+assert ds.attrs["Conventions"].startswith("CF-1.11") and ds.attrs["featureType"] == "timeSeries"
+assert ds.attrs["caution"].startswith("CAUTION:")
+assert [float(q) for q in ds.percentile.values] == [float(q) for q in qs], ds.percentile.values
+assert ds.percentile.attrs["units"] == "percent"
+assert ds.discharge.dims == ("time", "station", "percentile"), ds.discharge.dims
+assert ds.discharge.attrs["units"] == "m3 s-1" and ds.stage.dims == ds.discharge.dims
+ids = [str(s) for s in ds.station_id.values]
+assert "mill-lane" in ids and "hob-hill" not in ids, ids
+for k, station in enumerate(ids):
+    row = pct[pct.station_id == station].iloc[0]
+    for name, column in (("discharge", "peak_discharge_m3s"), ("stage", "peak_stage_m")):
+        band = ds[name].isel(station=k).values  # (time, percentile)
+        if np.isnan(band).all():
+            continue
+        assert (np.diff(band, axis=1) >= -1e-5 * np.abs(band[:, 1:])).all(), (station, name)
+        for j, q in enumerate(qs):
+            peak = row[column + "_" + label(q)]
+            top = np.nanmax(band[:, j])
+            assert top <= peak + 1e-5 * abs(peak) + 1e-6, (station, name, q, top, peak)
+mill = ds.discharge.isel(station=ids.index("mill-lane")).values
+assert np.nanmax(mill[:, 2] - mill[:, 0]) > 0.1, "the bands at Mill Lane should spread"
+print(f"bands of {len(ids)} stations read back with xarray")
 out = json.load(open(stdout_json))
 assert out["command"] == "ensemble" and out["exit_status"] == 0, out["exit_status"]
 assert out["ensembles"][0]["stations"] == doc["stations"]

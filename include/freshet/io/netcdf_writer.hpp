@@ -126,11 +126,16 @@ class NetcdfTimeSeriesWriter {
   NetcdfTimeSeriesWriter& operator=(const NetcdfTimeSeriesWriter&) = delete;
 
   // Validates (InputError listing every problem: missing metadata, bad time origin, empty or
-  // duplicate ids, no variables), then creates the partial file and writes all metadata.
+  // duplicate ids, no variables, percentiles not increasing in [0, 100]), then creates the
+  // partial file and writes all metadata. With `percentiles` (an ensemble's bands), every data
+  // variable gains a third dimension `percentile` (time, <kind>, percentile), with a
+  // coordinate variable of that name in percent.
   void begin(const NetcdfRunMetadata& metadata, const InstanceSet& instances,
-             std::vector<OutputVariable> variables);
+             std::vector<OutputVariable> variables, std::vector<double> percentiles = {});
   // Appends one record. `values` is variable-major: values[v * n_instances + i], in SI, for
-  // the variables in the order given to begin(). Non-finite values are written as _FillValue.
+  // the variables in the order given to begin(); with percentiles,
+  // values[(v * n_instances + i) * n_percentiles + p]. Non-finite values are written as
+  // _FillValue.
   // Preconditions (asserted): size matches, time strictly increases.
   void record(double time_s, std::span<const double> values);
   // Flushes to disk now (also done automatically every sync_interval_s of wall-clock time).

@@ -2,7 +2,9 @@
 // its members (percentiles, threshold exceedance, convergence: uncertainty/ensemble_summary.hpp)
 // written as one result set in the run folder, out_dir/<scenario or "base">/, under the stem
 // <storm>_ensemble (io/ensemble_writer.hpp), the JSON last; nothing appears under a final name
-// unless every file is complete.
+// unless every file is complete. Beside the tables, <storm>_ensemble_bands.nc holds the
+// percentile hydrographs (discharge and stage at each station that is not a subcatchment, CF
+// timeSeries with a percentile dimension: io/netcdf_writer.hpp).
 //
 //   check_ensemble_study(study);                       // InputError before any routing
 //   EnsembleOutcome e = run_ensemble(study, {"", "aep1-60min", 2});
