@@ -38,6 +38,7 @@ void add_ensemble_command(CLI::App& app, const GlobalOptions& global, Action& ac
 void add_compare_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_storm_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_verify_command(CLI::App& app, const GlobalOptions& global, Action& action);
+void add_layers_command(CLI::App& app, const GlobalOptions& global, Action& action);
 void add_version_command(CLI::App& app, const GlobalOptions& global, Action& action);
 // What `freshet version`, `freshet --version` and `freshet -V` print: version, build, caution
 // (no trailing line break).

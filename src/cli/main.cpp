@@ -128,6 +128,7 @@ int run_main(int argc, char** argv) {
   add_ensemble_command(app, global, action);
   add_storm_command(app, global, action);
   add_verify_command(app, global, action);
+  add_layers_command(app, global, action);
   add_version_command(app, global, action);
   try {
     app.parse(argc, argv);

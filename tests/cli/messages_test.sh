@@ -15,7 +15,7 @@ expect() {  # expect EXIT REGEX: the last command's exit code and a line of its 
 }
 
 "$freshet" frobnicate > "$scratch/log" 2>&1; rc=$?
-expect 1 "^freshet: unknown subcommand 'frobnicate'; the subcommands are route, check, compare, ensemble, storm, verify, version"
+expect 1 "^freshet: unknown subcommand 'frobnicate'; the subcommands are route, check, compare, ensemble, storm, verify, layers, version"
 "$freshet" --quiet frobnicate --out x > "$scratch/log" 2>&1; rc=$?
 expect 1 "unknown subcommand 'frobnicate'"
 
