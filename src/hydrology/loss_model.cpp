@@ -18,6 +18,14 @@ LossStep LossModel::step(double rain_depth_m, double step_s) {
   return s;
 }
 
+void LossModel::visit_state(StateVisitor& v) {
+  StateGroup g(v, "losses");
+  v.value("rain_m", ledger_.rain_m);
+  v.value("loss_m", ledger_.loss_m);
+  v.value("excess_m", ledger_.excess_m);
+  visit_stores(v);
+}
+
 void LossModel::reset() {
   ledger_ = LossLedger{};
   reset_state();

@@ -110,6 +110,13 @@ routing::AdvanceResult OverlandPlane::advance(double t0_s, double t1_s, double e
   return r;
 }
 
+void OverlandPlane::visit_state(StateVisitor& v) {
+  reach_->visit_state(v);
+  watch_.visit_state(v, "breaking_watch");
+  v.value("inflow_end_m2s", inflow_end_m2s_);
+  v.value("peak_outflow_m2s", peak_outflow_m2s_);
+}
+
 void OverlandPlane::reset() {
   std::vector<double> dry(static_cast<std::size_t>(spec_.cell_count), 0.0);
   reach_->set_initial_areas(dry);
@@ -163,6 +170,13 @@ double PlaneCascade::advance_once(double t0_s, double t1_s, double excess_m_s) {
     inflow_end_m2s = plane.outflow_m2s();
   }
   return inflow_m2s;
+}
+
+void PlaneCascade::visit_state(StateVisitor& v) {
+  for (std::size_t k = 0; k < planes_.size(); ++k) {
+    StateGroup g(v, "plane" + std::to_string(k));
+    planes_[k].visit_state(v);
+  }
 }
 
 void PlaneCascade::reset() {

@@ -69,6 +69,11 @@ SubcatchmentStep Subcatchment::advance(double t0_s, double t1_s) {
   return s;
 }
 
+void Subcatchment::visit_state(StateVisitor& v) {
+  losses_->visit_state(v);
+  cascade_.visit_state(v);
+}
+
 void Subcatchment::reset() {
   losses_->reset();
   cascade_.reset();

@@ -4,6 +4,7 @@
 #include <barrier>
 #include <chrono>
 #include <cmath>
+#include <cstring>
 #include <exception>
 #include <limits>
 #include <thread>
@@ -322,15 +323,102 @@ RunSummary summarise(const Model& model) {
   return r;
 }
 
+// The run's own entries: the step, its time and the clock they belong to.
+void visit_clock(StateVisitor& v, ClockOptions& clock, long long& step, double& time_s) {
+  StateGroup g(v, "run");
+  v.value("step", step);
+  v.value("time_s", time_s);
+  v.value("start_s", clock.start_s);
+  v.value("end_s", clock.end_s);
+  v.value("output_interval_s", clock.output_interval_s);
+  v.value("coupling_step_s", clock.max_coupling_step_s);
+}
+
+// The run's own entries, and every element's and the sink's state.
+void visit_run(StateVisitor& v, Model& model, RecordSink& sink, ClockOptions& clock,
+               long long& step, double& time_s) {
+  visit_clock(v, clock, step, time_s);
+  {
+    StateGroup g(v, "elements");
+    for (auto& e : model.elements) {
+      StateGroup element(v, e->id());
+      e->visit_state(v);
+    }
+  }
+  StateGroup g(v, "records");
+  sink.visit_state(v);
+}
+
+void refuse_state(const std::string& source, const std::string& field, const std::string& message) {
+  Problem p;
+  p.file = source;
+  p.element = "state file";
+  p.field = field;
+  p.message = message;
+  throw InputError(std::move(p));
+}
+
 }  // namespace
 
+StateArchive save_run_state(Model& model, RecordSink& sink, const ClockOptions& clock,
+                            long long step, double time_s) {
+  StateArchive archive;
+  StateWriter w(archive);
+  ClockOptions c = clock;
+  visit_run(w, model, sink, c, step, time_s);
+  return archive;
+}
+
+long long restore_run_state(Model& model, RecordSink& sink, const ClockOptions& clock,
+                            const StateArchive& state, const std::string& source) {
+  StateReader r(state, source);
+  ClockOptions saved = clock;
+  long long step = 0;
+  double time_s = 0.0;
+  // The clock first: a state from another storm or scenario is named by its clock before
+  // any element is touched.
+  visit_clock(r, saved, step, time_s);
+  const auto differs = [&](const char* field, double mine, double theirs) {
+    if (std::memcmp(&mine, &theirs, sizeof(double)) == 0) return;
+    refuse_state(source, field, "= " + format_value(theirs) + " s in the state file, " +
+                                    format_value(mine) + " s in this run: the state was saved "
+                                    "from a run with another clock (another storm or scenario)");
+  };
+  differs("run/start_s", clock.start_s, saved.start_s);
+  differs("run/end_s", clock.end_s, saved.end_s);
+  differs("run/output_interval_s", clock.output_interval_s, saved.output_interval_s);
+  differs("run/coupling_step_s", clock.max_coupling_step_s, saved.max_coupling_step_s);
+  const auto total = static_cast<long long>(clock.coupling_step_count());
+  if (step < 1 || step >= total) {
+    refuse_state(source, "run/step", "= " + std::to_string(step) + ": a run resumes after one of "
+                 "its coupling steps 1 to " + std::to_string(total - 1));
+  }
+  StateReader all(state, source);
+  ClockOptions c = clock;
+  long long s = 0;
+  double t = 0.0;
+  visit_run(all, model, sink, c, s, t);
+  all.require_all_read();
+  return step;
+}
+
 RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
-                    const ProgressFn& progress, const SweepOptions& sweep_options) {
+                    const ProgressFn& progress, const SweepOptions& sweep_options,
+                    const HotStart& hot_start) {
   clock.validate();
   const auto wall_start = std::chrono::steady_clock::now();
   for (auto& e : model.elements) e->reset(clock.start_s);
   prime(model);
   couple_backwater(model, clock.start_s);
+  const long long resume_after =
+      hot_start.resume ? restore_run_state(model, sink, clock, *hot_start.resume,
+                                           hot_start.resume_source)
+                       : 0;
+  const auto saves_after = [&hot_start](long long step) {
+    return hot_start.save && std::find(hot_start.save_after_steps.begin(),
+                                       hot_start.save_after_steps.end(),
+                                       step) != hot_start.save_after_steps.end();
+  };
 
   // validate() has bounded both counts by kMaxCouplingSteps, so the conversions are exact.
   const double dt_s = clock.coupling_step_s();
@@ -341,30 +429,40 @@ RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
   FRESHET_ASSERT(sweep_options.threads >= 1, "a run needs at least one thread");
   Sweeper sweeper(model, sweep_options.threads, outflow);
 
-  emit(model, clock.start_s, samples, sink);
+  if (resume_after == 0) emit(model, clock.start_s, samples, sink);
   long long steps = 0;
   double t0 = clock.start_s;
   for (long long k = 1; k <= outputs; ++k) {
     // Times come from integer counts, so the clock lands exactly on every output time and
-    // each step starts exactly where the last one ended.
+    // each step starts exactly where the last one ended (a resumed run counts the same
+    // times through the steps it skips).
     const double output_start = clock.start_s + static_cast<double>(k - 1) * clock.output_interval_s;
     const double output_end = clock.start_s + static_cast<double>(k) * clock.output_interval_s;
     for (long long j = 1; j <= steps_per_output; ++j) {
       const double t1 = (j == steps_per_output) ? output_end
                                                 : output_start + static_cast<double>(j) * dt_s;
+      if (steps < resume_after) {
+        t0 = t1;
+        ++steps;
+        continue;
+      }
       // Backwater coupling stays on this thread, between sweeps: no lane runs while a
       // drowned reach and its pool exchange water (backwater.hpp).
       couple_backwater(model, t0);
       sweeper.sweep(t0, t1);
       t0 = t1;
       ++steps;
-      if (j < steps_per_output && sink.observes_every_step()) {
-        take_samples(model, samples);
-        sink.observe(t1, samples);
+      if (j < steps_per_output) {
+        if (sink.observes_every_step()) {
+          take_samples(model, samples);
+          sink.observe(t1, samples);
+        }
+      } else {
+        emit(model, output_end, samples, sink);
+        if (progress) progress(static_cast<double>(k) / static_cast<double>(outputs));
       }
+      if (saves_after(steps)) hot_start.save(steps, t1, save_run_state(model, sink, clock, steps, t1));
     }
-    emit(model, output_end, samples, sink);
-    if (progress) progress(static_cast<double>(k) / static_cast<double>(outputs));
   }
   RunSummary r = summarise(model);
   r.coupling_steps = steps;

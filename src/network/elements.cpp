@@ -142,6 +142,24 @@ StepOutflow ReachElement::advance(const StepInflow& in) {
   return {r.mean_outflow_m3s, end_m3s};
 }
 
+void ReachElement::visit_state(StateVisitor& v) {
+  reach_->visit_state(v);
+  watch_.visit_state(v, "breaking_watch");
+  v.value("start_s", start_s_);
+  v.value("inflow_end_m3s", inflow_end_m3s_);
+  v.value("capacity_steps", capacity_steps_);
+  v.value("peak_outflow_m3s", peak_outflow_m3s_);
+  v.value("peak_volume_above_full_m3", peak_above_full_m3_);
+  v.value("time_of_peak_volume_above_full_s", peak_above_full_s_);
+  StateGroup g(v, "backwater");
+  v.value("drowned_cells", drowned_);
+  freshet::visit_state(v, "routed_ledger", routed_ledger_);
+  v.value("longest_drowned_m", backwater_facts_.longest_drowned_m);
+  v.value("most_drowned_cells", backwater_facts_.most_drowned_cells);
+  v.value("time_longest_drowned_s", backwater_facts_.time_longest_drowned_s);
+  v.value("stage_then_m", backwater_facts_.stage_then_m);
+}
+
 // ---- backwater ---------------------------------------------------------------------------
 
 void ReachElement::attach_backwater(const PoolElement& pool) {
@@ -299,6 +317,14 @@ StepOutflow SubcatchmentElement::advance(const StepInflow& in) {
   return {s.runoff_mean_m3s, s.runoff_end_m3s};
 }
 
+void SubcatchmentElement::visit_state(StateVisitor& v) {
+  model_->visit_state(v);
+  StateGroup g(v, "sample");
+  v.value("discharge_m3s", sample_.discharge_m3s);
+  v.value("rain_m_s", sample_.rain_m_s);
+  v.value("excess_m_s", sample_.excess_m_s);
+}
+
 VolumeLedger SubcatchmentElement::ledger() const {
   const hydrology::SubcatchmentLedger h = model_->ledger();
   VolumeLedger l;
@@ -382,6 +408,12 @@ StepOutflow PoolElement::advance(const StepInflow& in) {
   // The pool's mean outflow is I - dS/dt, which round-off can leave a few 1e-14 m3/s below
   // zero on an empty pool; nothing negative is handed downstream.
   return {std::max(0.0, s.mean_outflow_m3s), pool_->state().outflow_m3s};
+}
+
+void PoolElement::visit_state(StateVisitor& v) {
+  pool_->visit_state(v);
+  v.value("start_s", start_s_);
+  v.value("peak_inflow_m3s", peak_inflow_m3s_);
 }
 
 StationSample PoolElement::sample() const {

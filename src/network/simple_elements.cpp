@@ -17,6 +17,20 @@ StepOutflow PassThrough::advance(const StepInflow& in) {
   return out;
 }
 
+void Element::visit_state(StateVisitor& /*v*/) {
+  FRESHET_ASSERT(false, "this element kind cannot save its state");
+}
+
+void PassThrough::visit_state(StateVisitor& v) {
+  v.value("end_m3s", end_m3s_);
+  freshet::visit_state(v, "ledger", ledger_);
+}
+
+void InflowHydrograph::visit_state(StateVisitor& v) {
+  v.value("time_s", t_s_);
+  freshet::visit_state(v, "ledger", ledger_);
+}
+
 StationSample PassThrough::sample() const {
   StationSample s;
   s.discharge_m3s = end_m3s_;

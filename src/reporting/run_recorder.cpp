@@ -154,4 +154,57 @@ PiecewiseLinearSeries RunRecorder::volume_series(std::size_t i, const std::strin
   return PiecewiseLinearSeries(k.times_s, k.volume_m3, what);
 }
 
+namespace {
+void visit_sample(StateVisitor& v, std::string_view name, network::StationSample& s) {
+  std::vector<double> x{s.discharge_m3s, s.stage_m,   s.depth_m,    s.velocity_m_s,
+                        s.rain_m_s,      s.excess_m_s, s.outflow_volume_m3, s.inflow_m3s,
+                        s.lateral_inflow_m3s, s.storage_m3};
+  const std::size_t n = x.size();
+  v.fixed_doubles(name, x);
+  FRESHET_ASSERT(x.size() == n, "a station sample has ten values");
+  s = {x[0], x[1], x[2], x[3], x[4], x[5], x[6], x[7], x[8], x[9]};
+}
+}  // namespace
+
+void RunRecorder::visit_state(StateVisitor& v) {
+  for (std::size_t i = 0; i < stations_.size(); ++i) {
+    StateGroup g(v, "station" + std::to_string(i));
+    acc_[i].visit_state(v, "outflow");
+    inflow_[i].visit_state(v, "inflow");
+    lateral_[i].visit_state(v, "lateral_inflow");
+    storage_[i].visit_state(v, "storage");
+    visit_sample(v, "sample_at_peak", at_peak_[i]);
+  }
+  for (std::size_t k = 0; k < stretches_.size(); ++k) {
+    StateGroup g(v, "stretch" + std::to_string(k));
+    stretches_[k].side_inflow.visit_state(v, "side_inflow");
+    stretches_[k].combined_inflow.visit_state(v, "combined_inflow");
+  }
+  watch_->visit_state(v);
+  for (auto& [station, kept] : kept_) {
+    StateGroup g(v, "kept_series" + std::to_string(station));
+    v.doubles("time_s", kept.times_s);
+    v.doubles("discharge_m3s", kept.discharge_m3s);
+    v.doubles("volume_m3", kept.volume_m3);
+  }
+  if (keep_output_) {
+    StateGroup g(v, "output_series");
+    v.doubles("time_s", series_.times_s);
+    for (std::size_t i = 0; i < series_.stations.size(); ++i) {
+      StateGroup s(v, "station" + std::to_string(i));
+      v.doubles("discharge_m3s", series_.stations[i].discharge_m3s);
+      v.doubles("stage_m", series_.stations[i].stage_m);
+      v.doubles("rain_m_s", series_.stations[i].rain_m_s);
+      v.doubles("excess_m_s", series_.stations[i].excess_m_s);
+    }
+    for (ReachPeakProfile& p : series_.reach_profiles) {
+      v.fixed_doubles("peak_depth_m" + std::to_string(p.station), p.peak_depth_m);
+    }
+  }
+  v.value("last_observed_s", last_observed_s_);
+  v.value("observed", observed_);
+  v.doubles("rain_depth_m", rain_depth_m_);
+  v.doubles("excess_depth_m", excess_depth_m_);
+}
+
 }  // namespace freshet::reporting

@@ -130,4 +130,27 @@ double RunWatch::rise_start_s(std::size_t i, double peak_time_s, double peak_m3s
   return rises_[i].last_time_at_or_below(rise_threshold(start_m3s_[i], peak_m3s));
 }
 
+void RiseTracker::visit_state(StateVisitor& v, std::string_view name) {
+  StateGroup g(v, name);
+  v.records("lows", lows_, &Low::t_s, &Low::value);
+  v.records("since", since_, &Low::t_s, &Low::value);
+  v.value("first_time_s", first_t_s_);
+  v.value("peak_time_s", peak_time_s_);
+  v.value("last_value", last_value_);
+}
+
+void RunWatch::visit_state(StateVisitor& v) {
+  StateGroup g(v, "watch");
+  v.doubles("excess_m3", excess_m3_);
+  v.doubles("excess_moment", excess_moment_);
+  for (std::size_t i = 0; i < rises_.size(); ++i) {
+    if (tracked_[i]) rises_[i].visit_state(v, "series" + std::to_string(i));
+  }
+  v.doubles("start_m3s", start_m3s_);
+  v.doubles("backwater_m", backwater_m_);
+  v.doubles("backwater_time_s", backwater_time_s_);
+  v.value("last_time_s", last_t_s_);
+  v.value("started", started_);
+}
+
 }  // namespace freshet::reporting::detail

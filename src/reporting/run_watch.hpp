@@ -10,6 +10,7 @@
 #include <cstddef>
 #include <limits>
 #include <span>
+#include <string_view>
 #include <vector>
 
 #include "freshet/reporting/station.hpp"
@@ -45,6 +46,7 @@ class RiseTracker {
   [[nodiscard]] double last_time_at_or_below(double threshold) const;
   [[nodiscard]] double peak_time_s() const noexcept { return peak_time_s_; }
   [[nodiscard]] double last_value() const noexcept { return last_value_; }
+  void visit_state(StateVisitor& v, std::string_view name);
 
  private:
   struct Low {
@@ -77,6 +79,7 @@ class RunWatch {
   // run and when it occurred; excess <= 0 means no backwater. NaN when not applicable.
   [[nodiscard]] double backwater_excess_m(std::size_t i) const { return backwater_m_[i]; }
   [[nodiscard]] double backwater_time_s(std::size_t i) const { return backwater_time_s_[i]; }
+  void visit_state(StateVisitor& v);
 
  private:
   std::vector<std::vector<std::size_t>> upstream_subcatchments_;  // per station

@@ -14,6 +14,33 @@ BreakingWatch::BreakingWatch(geometry::SectionFlux flux, double length_m, double
   result_.length_m = length_m;
 }
 
+void visit_state(StateVisitor& v, std::string_view name, PredictedBreaking& p) {
+  StateGroup g(v, name);
+  v.value("watched", p.watched);
+  v.value("breaks", p.breaks);
+  v.value("time_s", p.time_s);
+  v.value("chainage_m", p.chainage_m);
+  v.value("launch_time_s", p.launch_time_s);
+  v.value("discharge_behind_m3s", p.discharge_behind_m3s);
+  v.value("discharge_ahead_m3s", p.discharge_ahead_m3s);
+  v.value("onto_dry_bed", p.onto_dry_bed);
+  v.value("from_zero_inflow", p.from_zero_inflow);
+  v.value("length_m", p.length_m);
+  v.value("watched_from_s", p.watched_from_s);
+  v.value("watched_to_s", p.watched_to_s);
+}
+
+void BreakingWatch::visit_state(StateVisitor& v, std::string_view name) {
+  StateGroup g(v, name);
+  v.value("t_now_s", t_now_);
+  v.value("done", done_);
+  v.records("characteristics", chars_, &Characteristic::x_m, &Characteristic::area_m2,
+            &Characteristic::celerity_m_s, &Characteristic::launch_time_s,
+            &Characteristic::launch_discharge_m3s);
+  routing::visit_state(v, "result", result_);
+  v.value("fastest_celerity_m_s", fastest_m_s_);
+}
+
 void BreakingWatch::start(double t_s, double inflow_m3s, double initial_area_m2) {
   chars_.clear();
   done_ = false;
@@ -154,6 +181,18 @@ void BreakingWatch::check_crossings(double t0_s, double t1_s) {
 // ---- ReachBreakingOutlook ------------------------------------------------------------------
 
 namespace detail {
+
+void ReachBreakingOutlook::visit_state(StateVisitor& v) {
+  StateGroup g(v, "breaking_outlook");
+  watch_.visit_state(v, "watch");
+  routing::visit_state(v, "profile", profile_);
+  routing::visit_state(v, "prediction", outlook_.prediction);
+  v.value("exact", outlook_.exact);
+  v.value("resolvable", outlook_.resolvable);
+  v.value("time_in_view_s", outlook_.time_in_view_s);
+  v.value("longest_interval_s", outlook_.longest_interval_s);
+  v.value("cells_needed", outlook_.cells_needed);
+}
 
 void ReachBreakingOutlook::restart(double t_s, double inflow_m3s, double inlet_area_m2,
                                    const BreakingPrediction& from_profile) {

@@ -45,6 +45,16 @@ std::vector<Problem> validate_laws_count(std::size_t laws, int cells) {
   return p.problems();
 }
 
+void visit_counters(StateVisitor& v, RunDiagnostics& d) {
+  StateGroup g(v, "diagnostics");
+  v.value("steps_taken", d.steps_taken);
+  v.value("steps_rejected", d.steps_rejected);
+  v.value("cell_updates", d.cell_updates);
+  v.value("max_courant", d.max_courant);
+  v.value("positivity_transfer_m3", d.positivity_transfer_m3);
+  v.value("max_fronts", d.max_fronts);
+}
+
 std::vector<Problem> validate_advance(double t0_s, double t1_s, double reach_time_s,
                                       const PiecewiseLinearSeries& inflow_m3s) {
   ProblemList p;

@@ -6,6 +6,50 @@ ShockDetector::ShockDetector(const ShockDetectionOptions& options, double cell_w
                              int cell_count)
     : options_(options), dx_(cell_width_m), n_(cell_count) {}
 
+void visit_state(StateVisitor& v, std::string_view name, BreakingPrediction& p) {
+  StateGroup g(v, name);
+  v.value("breaks", p.breaks);
+  v.value("time_s", p.time_s);
+  v.value("position_m", p.position_m);
+  v.value("origin", p.origin);
+  v.value("nearest_position_m", p.nearest_position_m);
+  v.value("nearest_time_s", p.nearest_time_s);
+}
+
+namespace {
+void visit_samples(StateVisitor& v, std::string_view name, std::vector<ShockSample>& samples) {
+  v.records(name, samples, &ShockSample::time_s, &ShockSample::position_m,
+            &ShockSample::area_left_m2, &ShockSample::area_right_m2,
+            &ShockSample::rankine_hugoniot_m_s);
+}
+}  // namespace
+
+void visit_state(StateVisitor& v, std::string_view name, std::vector<ShockReport>& reports) {
+  StateGroup g(v, name);
+  v.records("reports", reports, &ShockReport::formed, &ShockReport::formation_time_s,
+            &ShockReport::formation_position_m, &ShockReport::speed_m_s,
+            &ShockReport::rankine_hugoniot_m_s, &ShockReport::reached_outlet,
+            &ShockReport::outlet_arrival_time_s, &ShockReport::ended, &ShockReport::end_time_s,
+            &ShockReport::merged);
+  for (std::size_t i = 0; i < reports.size(); ++i) {
+    visit_samples(v, "path" + std::to_string(i), reports[i].path);
+  }
+}
+
+void ShockDetector::visit_state(StateVisitor& v) {
+  StateGroup g(v, "shock_detector");
+  visit_samples(v, "pending", pending_);
+  routing::visit_state(v, "shocks", reports_);
+  v.records("tracks", tracks_, &Track::report, &Track::misses);
+  v.value("earliest_birth_s", earliest_birth_s_);
+  v.value("earliest_birth_position_m", earliest_birth_position_m_);
+  v.value("predicted_resolvable", predicted_resolvable_);
+  v.value("estimated_break_time_s", estimated_break_time_s_);
+  v.value("estimated_break_position_m", estimated_break_position_m_);
+  v.value("last_gradient_time_s", last_gradient_time_s_);
+  v.value("last_inverse_gradient_s", last_inverse_gradient_s_);
+}
+
 void ShockDetector::reset() {
   estimated_break_time_s_ = estimated_break_position_m_ = std::numeric_limits<double>::quiet_NaN();
   last_gradient_time_s_ = last_inverse_gradient_s_ = std::numeric_limits<double>::quiet_NaN();

@@ -43,6 +43,11 @@ class CompositeLoss final : public LossModel {
  private:
   LossStep split(double rain_depth_m, double step_s) override;
   void reset_state() override;
+  void visit_stores(StateVisitor& v) override {
+    v.value("impervious_stored_m", stored_m_);
+    StateGroup g(v, "pervious");
+    pervious_->visit_state(v);
+  }
 
   ImperviousCover cover_;
   std::unique_ptr<LossModel> pervious_;

@@ -81,6 +81,14 @@ class CurveNumberLoss final : public LossModel {
   };
   LossStep split(double rain_depth_m, double step_s) override;
   void reset_state() override;
+  void visit_stores(StateVisitor& v) override {
+    v.value("event_curve_number", event_.curve_number);
+    v.value("event_rain_m", rain_m_);
+    v.value("clock_s", clock_s_);
+    v.value("dry_s", dry_s_);
+    v.value("had_event", had_event_);
+    v.records("window", window_, &RainyStep::end_s, &RainyStep::start_s, &RainyStep::depth_m);
+  }
   void start_event();
   [[nodiscard]] double rain_in_window_m() const;
 

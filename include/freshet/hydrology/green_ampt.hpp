@@ -70,6 +70,7 @@ class GreenAmptLoss final : public LossModel {
  private:
   LossStep split(double rain_depth_m, double step_s) override;
   void reset_state() override { infiltrated_m_ = 0.0; }
+  void visit_stores(StateVisitor& v) override { v.value("infiltrated_m", infiltrated_m_); }
 
   GreenAmptParameters parameters_;
   std::string element_;         // named in a numerical failure

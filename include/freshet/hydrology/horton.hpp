@@ -64,6 +64,7 @@ class HortonLoss final : public LossModel {
  private:
   LossStep split(double rain_depth_m, double step_s) override;
   void reset_state() override { infiltrated_m_ = 0.0; }
+  void visit_stores(StateVisitor& v) override { v.value("infiltrated_m", infiltrated_m_); }
   void recover(double dry_s);
   // F(tau + duration) - F(tau), exact.
   [[nodiscard]] double ponded_increment_m(double tau_s, double duration_s) const;

@@ -34,6 +34,7 @@ class InitialContinuingLoss final : public LossModel {
  private:
   LossStep split(double rain_depth_m, double step_s) override;
   void reset_state() override { remaining_initial_m_ = parameters_.initial_loss_m; }
+  void visit_stores(StateVisitor& v) override { v.value("remaining_initial_m", remaining_initial_m_); }
 
   InitialContinuingParameters parameters_;
   double remaining_initial_m_ = 0.0;

@@ -18,6 +18,8 @@
 
 #include "freshet/hydrology/hyetograph.hpp"
 
+#include "freshet/core/state_archive.hpp"
+
 namespace freshet::hydrology {
 
 struct LossStep {
@@ -43,6 +45,8 @@ class LossModel {
   // Back to the state before the first step; clears the ledger.
   void reset();
   [[nodiscard]] const LossLedger& ledger() const noexcept { return ledger_; }
+  // Hot start: the ledger and the method's stores (core/state_archive.hpp).
+  void visit_state(StateVisitor& v);
 
   [[nodiscard]] virtual std::unique_ptr<LossModel> clone() const = 0;
   // Short name of the method, e.g. "curve number".
@@ -55,6 +59,7 @@ class LossModel {
   // The split of one step's rain, advancing the model's state.
   virtual LossStep split(double rain_depth_m, double step_s) = 0;
   virtual void reset_state() = 0;
+  virtual void visit_stores(StateVisitor& v) = 0;
 
  private:
   LossLedger ledger_;

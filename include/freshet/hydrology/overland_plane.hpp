@@ -82,6 +82,8 @@ class OverlandPlane {
     return watch_.result();
   }
   [[nodiscard]] double peak_outflow_m2s() const noexcept { return peak_outflow_m2s_; }
+  // Hot start: the plane's reach, its breaking watch, its inflow rate and peak.
+  void visit_state(StateVisitor& v);
 
  private:
   OverlandPlaneSpec spec_;
@@ -115,6 +117,7 @@ class PlaneCascade {
   [[nodiscard]] double excess_received_m2() const;
   [[nodiscard]] double outflow_volume_m2() const { return planes_.back().ledger().outflow_m3; }
   [[nodiscard]] const std::vector<OverlandPlane>& planes() const noexcept { return planes_; }
+  void visit_state(StateVisitor& v);
 
  private:
   double advance_once(double t0_s, double t1_s, double excess_m_s);

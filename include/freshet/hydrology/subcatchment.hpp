@@ -82,6 +82,8 @@ class Subcatchment {
   [[nodiscard]] const SubcatchmentSpec& spec() const noexcept { return spec_; }
   [[nodiscard]] const PlaneCascade& cascade() const noexcept { return cascade_; }
   [[nodiscard]] const LossModel& losses() const noexcept { return *losses_; }
+  // Hot start: the loss stores and the planes (the storm is read at absolute times).
+  void visit_state(StateVisitor& v);
 
  private:
   [[nodiscard]] double to_lateral_m2s(double runoff_m3s) const;

@@ -82,6 +82,9 @@ class RecordSink {
   virtual void record(double time_s, std::span<const StationSample> samples) = 0;
   [[nodiscard]] virtual bool observes_every_step() const { return false; }
   virtual void observe(double /*time_s*/, std::span<const StationSample> /*samples*/) {}
+  // Hot start: what the sink has accumulated that the rest of the run's results read
+  // (summary accumulators). Default: nothing (a sink that only passes samples on).
+  virtual void visit_state(StateVisitor& /*v*/) {}
 };
 
 struct ElementBalance {
@@ -139,7 +142,34 @@ struct SweepOptions {
   int threads = 1;
 };
 
+// Hot start (docs/state-files.md). A run's state at the end of a coupling step is the state of
+// every element and of the sink, with the step index and the clock: group "run" holds
+// step (coupling steps done since the start), time_s, start_s, end_s, output_interval_s and
+// coupling_step_s; group "elements/<id>" each element's state (Element::visit_state); group
+// "records" the sink's (RecordSink::visit_state).
+struct HotStart {
+  // Coupling steps (1 = the end of the first) after which the state is handed to `save`.
+  std::vector<long long> save_after_steps;
+  std::function<void(long long step, double time_s, const StateArchive& state)> save;
+  // Resume from a saved state: the run restores every element and the sink from it (after
+  // reset and prime) and continues with the next coupling step; it records nothing before
+  // that. `resume_source` (the state file) is named in every refusal.
+  const StateArchive* resume = nullptr;
+  std::string resume_source;
+};
+
+// The state of the run after `step` coupling steps, ending at time_s (see HotStart).
+[[nodiscard]] StateArchive save_run_state(Model& model, RecordSink& sink, const ClockOptions& clock,
+                                          long long step, double time_s);
+// Restores a saved state into a freshly reset model and sink; returns the step it was saved
+// after. Throws InputError naming `source` when the state is not of this network and clock
+// (another study, scenario or storm): a missing, extra or mis-sized entry, or a clock field
+// that differs.
+long long restore_run_state(Model& model, RecordSink& sink, const ClockOptions& clock,
+                            const StateArchive& state, const std::string& source);
+
 RunSummary simulate(Model& model, const ClockOptions& clock, RecordSink& sink,
-                    const ProgressFn& progress = {}, const SweepOptions& sweep = {});
+                    const ProgressFn& progress = {}, const SweepOptions& sweep = {},
+                    const HotStart& hot_start = {});
 
 }  // namespace freshet::network

@@ -11,6 +11,7 @@
 #include <string>
 #include <vector>
 
+#include "freshet/core/state_archive.hpp"
 #include "freshet/core/volume_ledger.hpp"
 #include "freshet/network/element_report.hpp"
 #include "freshet/network/topology.hpp"
@@ -84,6 +85,12 @@ class Element {
   // The element's computational cells at the end of the last step (the along-reach profile
   // of a reach); empty for elements without cells.
   [[nodiscard]] virtual std::vector<CellSample> cell_samples() const { return {}; }
+  // Hot start (docs/state-files.md): saves the element's whole state at the end of a coupling
+  // step, or restores it into an element built from the same study, after reset() and
+  // prime(); the element then continues bit for bit as the one that saved it. Everything its
+  // sample(), ledger(), report() and cell_samples() read is state. Every element kind of the
+  // library implements it; the default refuses (an element written for a test).
+  virtual void visit_state(StateVisitor& v);
   // True for elements whose inflow from subcatchments enters along their length (reaches).
   [[nodiscard]] virtual bool takes_lateral_inflow() const { return false; }
 

@@ -35,6 +35,7 @@ class ReachElement final : public Element {
   [[nodiscard]] ElementReport report() const override;
   [[nodiscard]] std::vector<CellSample> cell_samples() const override;
   [[nodiscard]] bool takes_lateral_inflow() const override { return true; }
+  void visit_state(StateVisitor& v) override;
 
   [[nodiscard]] const routing::ReachModel& reach() const { return *reach_; }
   [[nodiscard]] const geometry::FlowSection& section() const { return section_; }
@@ -108,6 +109,7 @@ class SubcatchmentElement final : public Element {
   [[nodiscard]] VolumeLedger ledger() const override;
   [[nodiscard]] ElementReport report() const override;
   [[nodiscard]] const hydrology::Subcatchment& model() const { return *model_; }
+  void visit_state(StateVisitor& v) override;
 
  private:
   std::unique_ptr<hydrology::Subcatchment> model_;
@@ -137,6 +139,7 @@ class PoolElement final : public Element {
   [[nodiscard]] ElementReport report() const override;
 
   [[nodiscard]] const structures::LevelPool& pool() const { return *pool_; }
+  void visit_state(StateVisitor& v) override;
   // Backwater (backwater.hpp): the pool's storage gains a reach's wedge (before the run);
   // volume handed over by a drowning reach (> 0) or taken back (< 0) at the current time.
   void add_backwater_storage(const ReachWedge& wedge);

@@ -16,6 +16,7 @@ class PassThrough final : public Element {
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override { return ledger_; }
+  void visit_state(StateVisitor& v) override;
 
  private:
   double end_m3s_ = 0.0;
@@ -31,6 +32,7 @@ class InflowHydrograph final : public Element {
   StepOutflow advance(const StepInflow& in) override;
   [[nodiscard]] StationSample sample() const override;
   [[nodiscard]] VolumeLedger ledger() const override { return ledger_; }
+  void visit_state(StateVisitor& v) override;
 
  private:
   PiecewiseLinearSeries q_;

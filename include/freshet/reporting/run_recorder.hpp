@@ -94,6 +94,10 @@ class RunRecorder final : public network::RecordSink {
   void keep_output_series();
   [[nodiscard]] const RunSeries& output_series() const { return series_; }
 
+  // Hot start: every accumulator, watcher, sample at a peak and kept series, so that a resumed
+  // run's summaries, exports and report equal the unsplit run's.
+  void visit_state(StateVisitor& v) override;
+
  private:
   struct KeptSeries {
     std::vector<double> times_s, discharge_m3s, volume_m3;

@@ -15,6 +15,8 @@
 #include <string>
 #include <vector>
 
+#include "freshet/core/state_archive.hpp"
+
 namespace freshet::reporting {
 
 inline constexpr double kNotApplicable = std::numeric_limits<double>::quiet_NaN();
@@ -247,6 +249,25 @@ class SummaryAccumulator {
     s.centroid_time_s = centroid_time_s();
     s.centroid_lag_s = s.centroid_time_s - excess_centroid_s;
     return s;
+  }
+
+  // Hot start: every running sum, as it stands.
+  void visit_state(StateVisitor& v, std::string_view name) {
+    StateGroup g(v, name);
+    v.value("q_at_peak_time_m3s", q_at_peak_time_);
+    v.value("count", count_);
+    v.value("origin_s", origin_s_);
+    v.value("last_time_s", last_time_s_);
+    v.value("first_q_m3s", first_q_m3s_);
+    v.value("last_q_m3s", last_q_m3s_);
+    v.value("peak_q_m3s", peak_q_m3s_);
+    v.value("peak_time_s", peak_time_s_);
+    v.value("peak_stage_m", peak_stage_m_);
+    v.value("sample_volume_m3", sample_volume_m3_);
+    v.value("sample_moment", sample_moment_);
+    v.value("handed_volume_m3", handed_volume_m3_);
+    v.value("handed_moment", handed_moment_);
+    v.value("has_handed_volume", has_handed_volume_);
   }
 
  private:

@@ -59,6 +59,8 @@ struct PredictedBreaking {
   double watched_to_s = std::numeric_limits<double>::quiet_NaN();
 };
 
+void visit_state(StateVisitor& v, std::string_view name, PredictedBreaking& p);
+
 class BreakingWatch {
  public:
   static constexpr double kDefaultMaxLaunchStep_s = 60.0;
@@ -82,6 +84,8 @@ class BreakingWatch {
                double lateral_m2s);
 
   [[nodiscard]] const PredictedBreaking& result() const noexcept { return result_; }
+  // Saves or restores the characteristics in the reach and the result (hot start).
+  void visit_state(StateVisitor& v, std::string_view name);
   [[nodiscard]] std::size_t characteristics() const noexcept { return chars_.size(); }
   // The fastest celerity of the inflow so far (m/s): of every characteristic launched and,
   // once the watch has found its crossing and launches no more, of the inflow at the end of
@@ -152,6 +156,7 @@ class ReachBreakingOutlook {
   void advance(double t0_s, double t1_s, const PiecewiseLinearSeries& inflow_m3s, bool lateral);
 
   [[nodiscard]] const BreakingOutlook& outlook() const noexcept { return outlook_; }
+  void visit_state(StateVisitor& v);
   // Earliest time a shock may be born: +infinity while nothing crosses inside the reach,
   // -infinity (no bound) once lateral inflow has entered; and where (0 when unbounded).
   [[nodiscard]] double earliest_birth_s() const noexcept;

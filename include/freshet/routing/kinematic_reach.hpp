@@ -42,6 +42,8 @@ std::vector<Problem> validate_laws_count(std::size_t laws, int cells);
 std::string reach_label(const ReachSpec& spec);
 std::vector<Problem> validate_advance(double t0_s, double t1_s, double reach_time_s,
                                       const PiecewiseLinearSeries& inflow_m3s);
+// The run counters of RunDiagnostics (not the wall time, which is not state).
+void visit_counters(StateVisitor& v, RunDiagnostics& d);
 }  // namespace detail
 
 template <geometry::FluxLaw F>
@@ -91,6 +93,7 @@ class KinematicReach final : public ReachModel {
     return breaking_.outlook();
   }
   [[nodiscard]] double memory_bytes_per_cell() const noexcept override;
+  void visit_state(StateVisitor& v) override;
   [[nodiscard]] const F& law(std::size_t cell) const noexcept { return state_.law(cell); }
 
  private:
@@ -354,6 +357,28 @@ RunDiagnostics KinematicReach<F>::diagnostics() const {
   d.mass_balance_error_rel = state_.ledger.relative_balance_error();
   d.shocks_found = static_cast<int>(shock_reports().size());
   return d;
+}
+
+template <geometry::FluxLaw F>
+void KinematicReach<F>::visit_state(StateVisitor& v) {
+  StateGroup g(v, "reach");
+  v.fixed_doubles("area_m2", state_.area_m2);
+  v.fixed_doubles("face_flux_m3s", state_.face_flux_m3s);
+  v.value("c_max_m_s", state_.c_max_m_s);
+  freshet::visit_state(v, "ledger", state_.ledger);
+  v.value("generation", state_.generation);
+  detail::visit_counters(v, state_.diag);
+  v.value("time_s", time_s_);
+  v.value("dt_cap_s", dt_cap_);
+  detector_.visit_state(v);
+  breaking_.visit_state(v);
+  routing::visit_state(v, "profile_breaking", profile_breaking_);
+  // The lateral map is rebuilt from the next advance()'s forcing, as it would be unchanged.
+  std::visit(
+      [&v](auto& scheme) {
+        if constexpr (requires { scheme.visit_state(v); }) scheme.visit_state(v);
+      },
+      scheme_);
 }
 
 template <geometry::FluxLaw F>

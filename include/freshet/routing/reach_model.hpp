@@ -21,6 +21,7 @@
 #include <vector>
 
 #include "freshet/core/error.hpp"
+#include "freshet/core/state_archive.hpp"
 #include "freshet/core/time_series.hpp"
 #include "freshet/geometry/cross_section.hpp"
 #include "freshet/routing/breaking_watch.hpp"
@@ -82,6 +83,11 @@ class ReachModel {
   // map) divided by N. Per-reach constants (a 6.4 kB celerity envelope for laws whose
   // celerity may fall with area) are not included.
   [[nodiscard]] virtual double memory_bytes_per_cell() const noexcept = 0;
+  // Hot start: saves the whole state after an advance() (cells or fronts, ledger, clock,
+  // counters, shock detector, breaking outlook, the scheme's own state) or restores it into
+  // a reach built from the same spec and options, which then continues bit for bit as the
+  // reach that saved it. Wall-clock time is not state.
+  virtual void visit_state(StateVisitor& v) = 0;
 };
 
 }  // namespace freshet::routing

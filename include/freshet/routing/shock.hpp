@@ -27,6 +27,7 @@
 #include <span>
 #include <vector>
 
+#include "freshet/core/state_archive.hpp"
 #include "freshet/core/time_series.hpp"
 #include "freshet/geometry/flux_law.hpp"
 #include "freshet/routing/routing_options.hpp"
@@ -111,6 +112,9 @@ template <geometry::FluxLaw F>
   return p;
 }
 
+// Hot start (core/state_archive.hpp): a prediction, and every shock report with its path.
+void visit_state(StateVisitor& v, std::string_view name, BreakingPrediction& p);
+
 struct ShockSample {
   double time_s = 0.0;
   double position_m = 0.0;         // where A crosses (A_left + A_right) / 2
@@ -153,6 +157,8 @@ struct ShockReport {
 // characteristic, d c/dx = c0' / (1 + c0' t), so 1 / max(-dc/dx) falls linearly to zero at
 // the breaking time, t_b = t + 1 / max(-dc/dx), and the break is at x* + c(x*) (t_b - t),
 // where x* is the steepest point (Whitham 1974, Linear and Nonlinear Waves, sec. 2.3).
+void visit_state(StateVisitor& v, std::string_view name, std::vector<ShockReport>& reports);
+
 class ShockDetector {
  public:
   ShockDetector() = default;
@@ -171,6 +177,8 @@ class ShockDetector {
   }
   [[nodiscard]] int shocks_found() const noexcept { return static_cast<int>(reports_.size()); }
   void reset();
+  // Saves or restores everything observe() has built up (hot start).
+  void visit_state(StateVisitor& v);
   // No new shock is formed from observations before t_s, the earliest birth the
   // characteristics allow (-infinity: no bound), at position_m. A steep compression seen
   // earlier is a front the grid cannot tell from a shock, not a shock. After it, when the

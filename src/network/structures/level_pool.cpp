@@ -33,6 +33,22 @@ LevelPool::LevelPool(std::string name, StageStorage storage, StageDischarge outf
   reset(0.0, storage_.bottom_stage_m());
 }
 
+void LevelPool::visit_state(StateVisitor& v) {
+  StateGroup g(v, "pool");
+  v.value("time_s", state_.time_s);
+  v.value("stage_m", state_.stage_m);
+  v.value("storage_m3", state_.storage_m3);
+  v.value("outflow_m3s", state_.outflow_m3s);
+  freshet::visit_state(v, "ledger", ledger_);
+  v.value("peak_stage_m", peaks_.peak_stage_m);
+  v.value("time_of_peak_stage_s", peaks_.time_of_peak_stage_s);
+  v.value("peak_outflow_m3s", peaks_.peak_outflow_m3s);
+  v.value("time_of_peak_outflow_s", peaks_.time_of_peak_outflow_s);
+  v.value("peak_storage_m3", peaks_.peak_storage_m3);
+  v.value("time_above_watch_stage_s", peaks_.time_above_watch_stage_s);
+  v.value("watch_stage_exceeded", peaks_.watch_stage_exceeded);
+}
+
 void LevelPool::reset(double time_s, double stage_m) {
   ProblemList p(name_);
   p.require_finite("initial_time_s", time_s);

@@ -28,6 +28,7 @@
 #include <string>
 #include <vector>
 
+#include "freshet/core/state_archive.hpp"
 #include "freshet/core/volume_ledger.hpp"
 #include "freshet/network/structures/culvert_crossing.hpp"
 #include "freshet/network/structures/stage_storage.hpp"
@@ -105,6 +106,8 @@ class LevelPool {
   [[nodiscard]] const StageStorage& storage() const noexcept { return storage_; }
   [[nodiscard]] double outflow_m3s(double stage_m) const { return outflow_(stage_m); }
   [[nodiscard]] const std::string& name() const noexcept { return name_; }
+  // Hot start: the level, storage and outflow now, the ledger and the peaks.
+  void visit_state(StateVisitor& v);
 
  private:
   // One trapezoidal sub-step; false when the root finder fails (the caller halves dt).

@@ -178,6 +178,37 @@ class FrontTracker {
                                   scratch_q_.capacity()) * sizeof(double);
   }
 
+  // Saves or restores every front, the pending collisions (the heap's own array, so events
+  // of equal time come out in the same order), the free list and the recorded shocks.
+  void visit_state(StateVisitor& v) {
+    StateGroup g(v, "front_tracker");
+    v.records("fronts", pool_, &Front::x0_m, &Front::t0_s, &Front::speed_m_s,
+              &Front::area_left_m2, &Front::area_right_m2, &Front::q_left_m3s,
+              &Front::q_right_m3s, &Front::prev, &Front::next, &Front::generation,
+              &Front::alive, &Front::shock, &Front::shock_jump_q, &Front::birth_t_s,
+              &Front::birth_x_m);
+    std::vector<std::int64_t> free(free_.begin(), free_.end());
+    v.integers("free", free);
+    free_.assign(free.begin(), free.end());
+    v.records("events", HeapAccess::events(heap_), &Event::time_s, &Event::left, &Event::right,
+              &Event::left_generation, &Event::right_generation);
+    v.value("heap_storage_bytes", heap_storage_bytes_);
+    v.value("convex", convex_);
+    v.value("head", head_);
+    v.value("tail", tail_);
+    v.value("count", count_);
+    v.value("events_handled", events_);
+    v.value("t_now_s", t_now_);
+    v.value("inlet_area_m2", inlet_area_);
+    v.value("inlet_q_m3s", inlet_q_);
+    v.value("inflow_m3", inflow_m3_);
+    v.value("outflow_m3", outflow_m3_);
+    v.value("q_scale_m3s", q_scale_);
+    routing::visit_state(v, "shocks", shocks_);
+    v.records("carried", carried_, &Lineage::x_m, &Lineage::shock, &Lineage::birth_t_s,
+              &Lineage::birth_x_m, &Lineage::jump_q);
+  }
+
   // Starts over at time t_s from a piecewise-constant profile: areas[k] on
   // [edge_m[k], edge_m[k+1]] (edges increasing from 0 to the length), with the inlet state
   // inlet_area_m2 at x = 0. Neighbouring segments together no longer than merge_length_m are
@@ -371,10 +402,15 @@ class FrontTracker {
     double jump_q = 0.0;
   };
   struct Event {
-    double time_s;
-    int left, right;
-    std::uint32_t left_generation, right_generation;
+    double time_s = 0.0;
+    int left = -1, right = -1;
+    std::uint32_t left_generation = 0, right_generation = 0;
     bool operator>(const Event& o) const noexcept { return time_s > o.time_s; }
+  };
+  using EventHeap = std::priority_queue<Event, std::vector<Event>, std::greater<>>;
+  // The heap's array (a protected member of std::priority_queue), for saving it as it is.
+  struct HeapAccess : EventHeap {
+    static std::vector<Event>& events(EventHeap& heap) { return heap.*(&HeapAccess::c); }
   };
 
   static constexpr double kParallel = 1e-12;
@@ -677,7 +713,7 @@ class FrontTracker {
   bool convex_ = false;
   std::vector<Front> pool_;
   std::vector<int> free_;
-  std::priority_queue<Event, std::vector<Event>, std::greater<>> heap_;
+  EventHeap heap_;
   std::size_t heap_storage_bytes_ = 0;
   int head_ = -1, tail_ = -1, count_ = 0;
   long events_ = 0;

@@ -61,6 +61,22 @@ class Characteristics {
             switch_time_s_.capacity() + switch_area_m2_.capacity()) * sizeof(double);
   }
   [[nodiscard]] const detail::FrontTracker& tracker() const noexcept { return tracker_; }
+  // Hot start: the fronts and the restart they were built from (the other arrays are
+  // scratch of one advance()).
+  void visit_state(StateVisitor& v) {
+    StateGroup g(v, "characteristics");
+    // The tracker is built by start() from the reach's length; a restored scheme never
+    // starts, so it is built here from the saved length.
+    double length_m = tracker_.length_m();
+    v.value("length_m", length_m);
+    if (!v.saving()) {
+      tracker_ = detail::FrontTracker(length_m, options_.front_node_spacing,
+                                      static_cast<std::size_t>(options_.front_fan_max_fronts));
+    }
+    tracker_.visit_state(v);
+    v.value("seen_generation", seen_generation_);
+    v.value("merge_length_m", merge_length_m_);
+  }
   // The shocks of the solution itself, from the fronts (detail::FrontTracker::shocks()), each
   // path sampled at the end of every advance().
   [[nodiscard]] const std::vector<ShockReport>& shock_reports() const noexcept {

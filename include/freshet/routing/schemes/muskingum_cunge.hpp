@@ -125,6 +125,14 @@ class MuskingumCunge {
     return r;
   }
 
+  // Hot start: the face discharges carried from one step to the next.
+  void visit_state(StateVisitor& v) {
+    StateGroup g(v, "muskingum_cunge");
+    v.doubles("q_old_m3s", q_old_);
+    v.doubles("q_new_m3s", q_new_);
+    v.value("seen_generation", seen_generation_);
+  }
+
  private:
   // Face discharges from the cells' stored volumes (after construction or a new state).
   template <geometry::FluxLaw F>
