@@ -96,7 +96,7 @@ int compare(const CompareArgs& a, const GlobalOptions& global) {
     for (const auto& scenario : scenarios) {
       requests.push_back({scenario, storm, options.out_dir, options.overwrite,
                           global.command_line,
-                          std::string("freshet ") + FRESHET_VERSION, {}, 0.0, {}});
+                          std::string("freshet ") + FRESHET_VERSION, {}, 0.0, {}, 1, {}, {}});
     }
   }
   if (scenarios.size() == 1) {

@@ -18,6 +18,8 @@ struct RouteArgs : RunArgs {
   std::vector<std::string> exports;
   double export_interval_min = 0.0;
   std::vector<std::string> profiles;
+  std::vector<double> save_state_at_h;
+  std::string resume_from;
 };
 
 int route(const RouteArgs& a, const GlobalOptions& global) {
@@ -27,10 +29,14 @@ int route(const RouteArgs& a, const GlobalOptions& global) {
   const std::vector<std::string> storms = storm_ids(study, a);
   const BatchOptions options = batch_options(a, global.quiet);
   std::vector<study::RunRequest> requests;
+  std::vector<double> save_state_at_s;
+  for (double h : a.save_state_at_h) save_state_at_s.push_back(h * 3600.0);
   for (const auto& storm : storms) {
+    // threads = 1 here: run_batch shares the --jobs threads among the runs.
     requests.push_back({a.scenario, storm, options.out_dir, options.overwrite, global.command_line,
                         std::string("freshet ") + FRESHET_VERSION, unique_in_order(a.exports),
-                        a.export_interval_min * 60.0, unique_in_order(a.profiles)});
+                        a.export_interval_min * 60.0, unique_in_order(a.profiles), 1,
+                        save_state_at_s, a.resume_from});
   }
   std::cout << study.settings().title << "\n"
             << "basin file: " << a.basin << (a.scenario.empty() ? "" : ", scenario " + a.scenario)
@@ -106,6 +112,15 @@ void add_route_command(CLI::App& app, const GlobalOptions& global, Action& actio
       ->check(CLI::PositiveNumber);
   cmd->add_option("--profile", args->profiles,
                   "Reach whose every cell is written to <storm>_profiles.nc (repeatable)");
+  cmd->add_option("--save-state-at", args->save_state_at_h,
+                  "Hours after the start at which the run saves its state to "
+                  "<storm>_state_<seconds>s.h5 for a hot start (repeatable; the end of a "
+                  "coupling step)")
+      ->check(CLI::PositiveNumber);
+  cmd->add_option("--resume-from", args->resume_from,
+                  "Continue a run from a state file saved by --save-state-at (same basin file, "
+                  "scenario and storm)")
+      ->check(CLI::ExistingFile);
   cmd->callback([&action, &global, args] { action = [&global, args] { return route(*args, global); }; });
 }
 

@@ -186,6 +186,7 @@ struct NetcdfTimeSeriesWriter::Impl {
   std::vector<double> block_times;
   std::vector<double> block_bounds;  // two per record: interval start, interval end (the stamp)
   double last_time_s = 0.0;
+  bool continues = false;  // continue_after(): the first record's interval starts at last_time_s
   std::chrono::steady_clock::time_point last_sync;
 
   void define(const NetcdfRunMetadata& m, const InstanceSet& set,
@@ -455,7 +456,7 @@ void NetcdfTimeSeriesWriter::Impl::write_instance_values(const InstanceSet& set)
 void NetcdfTimeSeriesWriter::Impl::write_record(double time_s, std::span<const double> values) {
   const std::size_t row_in_block = records - block_start;
   block_times.push_back(time_s);
-  block_bounds.push_back(records == 0 ? time_s : last_time_s);
+  block_bounds.push_back(records == 0 && !continues ? time_s : last_time_s);
   block_bounds.push_back(time_s);
   for (std::size_t v = 0; v < data_vars.size(); ++v) {
     const std::size_t width = row_width();
@@ -519,6 +520,12 @@ void NetcdfTimeSeriesWriter::begin(const NetcdfRunMetadata& metadata, const Inst
     rethrow_as_io_error(impl_->output.final_path(), e);
   }
   impl_->last_sync = std::chrono::steady_clock::now();
+}
+
+void NetcdfTimeSeriesWriter::continue_after(double previous_time_s) {
+  FRESHET_ASSERT(impl_->records == 0, "continue_after before the first record");
+  impl_->continues = true;
+  impl_->last_time_s = previous_time_s;
 }
 
 void NetcdfTimeSeriesWriter::record(double time_s, std::span<const double> values) {

@@ -7,23 +7,13 @@
 #include <sstream>
 
 #include "freshet/core/error.hpp"
-#include "freshet/core/sha256.hpp"
+#include "freshet/io/state_file.hpp"
 #include "freshet/reporting/html_report.hpp"
 #include "freshet/routing/routing_options.hpp"
 
 namespace freshet::study {
 
 namespace {
-
-std::string file_sha256(const std::filesystem::path& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::ostringstream bytes;
-  if (!in || !(bytes << in.rdbuf())) {
-    throw IoError("cannot read the basin file '" + path.string() + "' to fingerprint it: " +
-                  std::strerror(errno));
-  }
-  return sha256_hex(bytes.str());
-}
 
 std::string utc_now() {
   const std::time_t t = std::time(nullptr);
@@ -77,7 +67,7 @@ std::string study_report_html(const Study& study, const std::vector<RunOutcome>&
   in.provenance = {{"freshet version", request.source},
                    {"command line", request.command_line},
                    {"basin file", study.file().string()},
-                   {"basin file SHA-256", file_sha256(study.file())},
+                   {"basin file SHA-256", io::file_sha256(study.file())},
                    {"report written (UTC)", utc_now()}};
   return reporting::compose_html_report(in);
 }

@@ -15,6 +15,7 @@
 #include "freshet/core/caution.hpp"
 #include "freshet/io/csv_series.hpp"
 #include "freshet/io/netcdf_writer.hpp"
+#include "freshet/io/state_file.hpp"
 #include "freshet/io/summary_writer.hpp"
 #include "freshet/reporting/hydrograph_export.hpp"
 #include "freshet/reporting/reported_as.hpp"
@@ -85,6 +86,22 @@ class StudySink final : public network::RecordSink {
     add_rain_depths(time_s, samples);
   }
 
+  // Hot start: the recorder's state and the rain and excess depths since the last output time.
+  void visit_state(StateVisitor& v) override {
+    {
+      StateGroup g(v, "recorder");
+      recorder_.visit_state(v);
+    }
+    v.doubles("rain_depth_m", rain_depth_m_);
+    v.doubles("excess_depth_m", excess_depth_m_);
+    visit_optional(v, "last_step_s", last_step_s_);
+    visit_optional(v, "last_record_s", last_record_s_);
+    if (!v.saving() && last_record_s_) {  // resumed: the files continue after that time
+      if (channel_) channel_->continue_after(*last_record_s_);
+      if (sub_) sub_->continue_after(*last_record_s_);
+    }
+  }
+
   [[nodiscard]] const std::vector<std::size_t>& channel_index() const { return channel_index_; }
   [[nodiscard]] const std::vector<std::size_t>& sub_index() const { return sub_index_; }
 
@@ -131,6 +148,15 @@ class StudySink final : public network::RecordSink {
     }
     last_record_s_ = time_s;
     sub_->record(time_s, row_);
+  }
+
+  static void visit_optional(StateVisitor& v, std::string_view name, std::optional<double>& x) {
+    StateGroup g(v, name);
+    bool has = x.has_value();
+    double value = x.value_or(0.0);
+    v.value("present", has);
+    v.value("value", value);
+    x = has ? std::optional<double>(value) : std::nullopt;
   }
 
   const CancelFn& cancel_;  // polled at every coupling step
@@ -287,6 +313,15 @@ RunPaths run_paths(const RunRequest& request) { return {run_folder(request), req
 
 }  // namespace
 
+std::filesystem::path state_file_path(const RunRequest& request, double time_s) {
+  // Whole seconds as an integer (a time given in hours carries round-off: 0.1 h).
+  const double whole = std::round(time_s);
+  const std::string seconds = std::abs(whole - time_s) <= 1e-6 * std::max(1.0, std::abs(time_s))
+                                  ? std::to_string(static_cast<long long>(whole))
+                                  : format_value(time_s);
+  return run_folder(request) / (request.storm_id + "_state_" + seconds + "s.h5");
+}
+
 std::vector<std::filesystem::path> planned_output_files(const Study& study,
                                                         const RunRequest& request) {
   const RunPaths at = run_paths(request);
@@ -303,6 +338,7 @@ std::vector<std::filesystem::path> planned_output_files(const Study& study,
   if (channel) files.push_back(at.stations_nc());
   if (subcatchment) files.push_back(at.subcatchments_nc());
   if (!request.profile_reaches.empty()) files.push_back(at.profiles_nc());
+  for (double t : request.save_state_at_s) files.push_back(state_file_path(request, t));
   const std::size_t n = files.size();
   for (std::size_t k = 0; k < n; ++k) {
     if (files[k].extension() == ".csv") files.push_back(io::csv_metadata_path(files[k]));
@@ -575,11 +611,13 @@ network::RunSummary simulate_located(const Study& study,
                                      network::Model& model,
                                      const network::ClockOptions& clock,
                                      StudySink& sink,
-                                     const network::ProgressFn& progress) {
+                                     const network::ProgressFn& progress,
+                                     const network::HotStart& hot_start = {}) {
   const std::string where = "storm '" + req.storm_id + "'" +
                             (req.scenario_id.empty() ? "" : ", scenario '" + req.scenario_id + "'");
   try {
-    return network::simulate(model, clock, sink, progress, network::SweepOptions{req.threads});
+    return network::simulate(model, clock, sink, progress, network::SweepOptions{req.threads},
+                             hot_start);
   } catch (const InputError& e) {
     std::vector<Problem> located = e.problems();
     for (Problem& p : located) {
@@ -594,6 +632,68 @@ network::RunSummary simulate_located(const Study& study,
     throw NumericalError(study.file().string() + ", " + where + ": " + e.what());
   }
 }
+
+// Hot start: the coupling steps at which the request saves the run's state, the state files'
+// header, and the state the run resumes from (checked against this study, scenario and storm).
+class HotStartFiles {
+ public:
+  HotStartFiles(const Study& study, const RunRequest& req, const network::ClockOptions& clock)
+      : req_(req) {
+    if (req.save_state_at_s.empty() && req.resume_from.empty()) return;
+    expected_.study_file = study.file().string();
+    expected_.study_sha256 = io::file_sha256(study.file());
+    expected_.scenario = req.scenario_id;
+    expected_.storm = req.storm_id;
+    expected_.program_version = req.source;
+    hot_.save_after_steps = save_steps(clock);
+    if (!hot_.save_after_steps.empty()) {
+      hot_.save = [this](long long step, double time_s, const StateArchive& state) {
+        io::StateFileHeader h = expected_;
+        h.step = step;
+        h.time_s = time_s;
+        const std::filesystem::path path = state_file_path(req_, time_s);
+        io::write_state_file(path, h, state);
+        written_.push_back(path);
+      };
+    }
+    if (!req.resume_from.empty()) {
+      resumed_ = io::read_state_file(req.resume_from);
+      io::check_state_file(resumed_, req.resume_from, expected_);
+      hot_.resume = &resumed_.archive;
+      hot_.resume_source = req.resume_from.string();
+    }
+  }
+  [[nodiscard]] const network::HotStart& hot_start() const { return hot_; }
+  [[nodiscard]] const std::vector<std::filesystem::path>& written() const { return written_; }
+
+ private:
+  // Each time must be the end of a coupling step strictly inside the run (to 1e-9 of a step).
+  std::vector<long long> save_steps(const network::ClockOptions& clock) const {
+    const double dt_s = clock.coupling_step_s();
+    const double total = clock.coupling_step_count();
+    std::vector<long long> steps;
+    ProblemList problems("command line");
+    for (double t : req_.save_state_at_s) {
+      const double k = std::round(t / dt_s);
+      if (!(std::abs(k * dt_s - t) <= 1e-6 * dt_s) || !(k >= 1.0) || !(k < total)) {
+        problems.add("--save-state-at", "= " + format_value(t / 3600.0) + " h: must be the end "
+                     "of a coupling step (a multiple of " + format_value(dt_s) + " s) after the "
+                     "start and before the end of the run (" + format_value(clock.end_s / 3600.0) +
+                     " h, duration_h in the basin file)");
+        continue;
+      }
+      steps.push_back(static_cast<long long>(k));
+    }
+    problems.throw_if_any();
+    return steps;
+  }
+
+  const RunRequest& req_;
+  io::StateFileHeader expected_;
+  io::StateFile resumed_;
+  network::HotStart hot_;
+  std::vector<std::filesystem::path> written_;
+};
 
 // The study report's series (reporting/run_series.hpp) are kept while they need no more than
 // kReportSeriesBudget values (32 MiB at 4 values a station and output time, plus the cells);
@@ -707,6 +807,8 @@ RunOutcome run_study(const Study& study,
   check_run_request(study, req);
   const StudySettings& set = study.settings();
   const network::ClockOptions clock = run_clock(set);
+  // A state file from another study, scenario or storm is refused before anything is routed.
+  HotStartFiles hot(study, req, clock);
   // Automatic choice: a first pass (the first half of the progress) judges every reach.
   std::optional<WaveChoices> choices;
   network::ProgressFn second_half = progress;
@@ -734,7 +836,7 @@ RunOutcome run_study(const Study& study,
   RunOutcome out;
   out.scenario_id = req.scenario_id;
   out.storm_id = req.storm_id;
-  out.numerics = simulate_located(study, req, model, clock, sink, second_half);
+  out.numerics = simulate_located(study, req, model, clock, sink, second_half, hot.hot_start());
   const std::string title =
       set.title + ", storm " + req.storm_id +
       (req.scenario_id.empty() ? " (base)" : ", scenario " + req.scenario_id);
@@ -747,6 +849,7 @@ RunOutcome run_study(const Study& study,
   // The commit point: every file is complete in the staging folder.
   if (cancel && cancel()) throw RunInterrupted("the run was stopped before its results were kept");
   out.files = results.commit(RunPaths{results.folder(), req.storm_id}.summary_json());
+  out.files.insert(out.files.end(), hot.written().begin(), hot.written().end());
   return out;
 }
 

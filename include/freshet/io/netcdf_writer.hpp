@@ -138,6 +138,10 @@ class NetcdfTimeSeriesWriter {
   // _FillValue.
   // Preconditions (asserted): size matches, time strictly increases.
   void record(double time_s, std::span<const double> values);
+  // The file continues a run resumed from a saved state (docs/state-files.md): the first
+  // record's interval (time_bnds) starts at `previous_time_s`, the run's last output time
+  // before the resumed part, as it would in the unsplit run's file. Before the first record.
+  void continue_after(double previous_time_s);
   // Flushes to disk now (also done automatically every sync_interval_s of wall-clock time).
   void sync();
   // Closes the file and renames it into place; IoError naming the path on failure.

@@ -44,7 +44,19 @@ struct RunRequest {
   // Threads that advance this run's elements within each coupling step (network::SweepOptions):
   // independent subtrees in parallel, results bit-identical to one thread.
   int threads = 1;
+  // Hot start (docs/state-files.md). The run saves its complete state at each of these times
+  // (s after the run's start; each the end of a coupling step inside the run) to
+  // <storm>_state_<seconds>s.h5 in its folder, written under a temporary name and renamed as
+  // soon as the run reaches the time (a state file outlives a run that fails later).
+  std::vector<double> save_state_at_s;
+  // A state file saved by a run of the same basin file (by SHA-256), scenario and storm: the
+  // run continues from it. Its NetCDF files hold the output times after the saved time; its
+  // summaries, exports and report cover the whole run and equal the unsplit run's.
+  std::filesystem::path resume_from;
 };
+
+// The state file run_study writes for `request` at `time_s`.
+std::filesystem::path state_file_path(const RunRequest& request, double time_s);
 
 // What report_run found (summary, peaks, reach numerics, element notes: run_report.hpp), with
 // the run's identity, its numerics and the files it wrote.
