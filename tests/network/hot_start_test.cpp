@@ -55,8 +55,10 @@ std::string first_difference(const StateArchive& a, const StateArchive& b) {
     const auto* da = std::get_if<std::vector<double>>(&ia->second);
     const auto* db = std::get_if<std::vector<double>>(&ib->second);
     if (da && db) {
+      // memcmp only on non-empty arrays: an empty vector's data() may be null.
       if (da->size() != db->size() ||
-          std::memcmp(da->data(), db->data(), da->size() * sizeof(double)) != 0) {
+          (!da->empty() &&
+           std::memcmp(da->data(), db->data(), da->size() * sizeof(double)) != 0)) {
         return ia->first;
       }
     } else if (ia->second != ib->second) {
